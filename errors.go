@@ -1,0 +1,67 @@
+package almanac
+
+import (
+	"errors"
+	"fmt"
+)
+
+// Sentinel errors. Every error returned by this module for bad input wraps
+// one of these (or a package's own sentinel), so callers can test with
+// errors.Is. Messages start with the package name.
+var (
+	// ErrEmpty: a series or slice with no observations.
+	ErrEmpty = errors.New("empty series")
+	// ErrTooShort: too few observations for what was asked.
+	ErrTooShort = errors.New("series too short")
+	// ErrAllMissing: every observation is NaN.
+	ErrAllMissing = errors.New("all observations missing")
+	// ErrMissing: a method that needs complete data was given NaN.
+	ErrMissing = errors.New("missing values not allowed")
+	// ErrNonFinite: an infinite value where only finite values or NaN
+	// (missing) are allowed.
+	ErrNonFinite = errors.New("non-finite value")
+	// ErrConstant: the series is constant where variation is needed.
+	ErrConstant = errors.New("constant series")
+	// ErrNonPositive: a value ≤ 0 where a positive one is needed (e.g.
+	// multiplicative components, Box-Cox with λ ≤ 0).
+	ErrNonPositive = errors.New("non-positive value")
+	// ErrLength: slices whose lengths must agree do not.
+	ErrLength = errors.New("mismatched lengths")
+	// ErrFrequency: an unset or unknown frequency (same value as
+	// calendar.ErrFrequency).
+	ErrFrequency = calendarErrFrequency
+	// ErrLevel: a prediction-interval level outside (0, 100) or a
+	// probability outside (0, 1).
+	ErrLevel = errors.New("invalid level")
+	// ErrHorizon: a forecast horizon below 1.
+	ErrHorizon = errors.New("invalid horizon")
+	// ErrNoDistribution: a quantile was asked of a forecast that carries
+	// no distribution.
+	ErrNoDistribution = errors.New("forecast has no distribution")
+	// ErrInvalid: a model specification or option is invalid.
+	ErrInvalid = errors.New("invalid specification")
+	// ErrNotFitted: a model could not be fitted (the optimiser failed,
+	// the likelihood is not finite anywhere, and so on).
+	ErrNotFitted = errors.New("model could not be fitted")
+)
+
+// SeriesError is a problem located at one observation of one series. It
+// unwraps to its sentinel.
+type SeriesError struct {
+	Key   string // series key, may be empty
+	Index int    // 0-based observation index, -1 when not about one value
+	Err   error  // sentinel, e.g. ErrNonFinite
+}
+
+func (e *SeriesError) Error() string {
+	key := e.Key
+	if key == "" {
+		key = "(no key)"
+	}
+	if e.Index < 0 {
+		return fmt.Sprintf("almanac: series %s: %v", key, e.Err)
+	}
+	return fmt.Sprintf("almanac: series %s: %v at index %d", key, e.Err, e.Index)
+}
+
+func (e *SeriesError) Unwrap() error { return e.Err }

@@ -1,0 +1,205 @@
+package almanac
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"time"
+
+	"github.com/almanac-go/almanac/calendar"
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// Forecast holds forecasts for steps 1..H after the end of a series.
+//
+// Levels of prediction intervals are percentages in the open interval
+// (0, 100): 80 means the central 80% interval, bounded by the 10% and 90%
+// quantiles. Probabilities given to Quantile are fractions in (0, 1).
+//
+// A Forecast is read-only once returned; concurrent reads are safe.
+type Forecast struct {
+	Start time.Time          // time of the first forecast step
+	Freq  calendar.Frequency // spacing of the steps
+	// Mean holds the point forecasts. For most models it is the mean of
+	// the forecast distribution; a back-transformed forecast documents
+	// whether it is the median or the bias-adjusted mean.
+	Mean []float64
+	// Intervals holds one central prediction interval per requested
+	// level, in the order the levels were requested.
+	Intervals []Interval
+	// Dist is the forecast distribution, step by step, or nil when the
+	// model produced only point forecasts.
+	Dist Distribution
+}
+
+// Interval is a central prediction interval at one level.
+type Interval struct {
+	Level float64   // percentage in (0, 100)
+	Lower []float64 // (100−Level)/2 % quantile per step
+	Upper []float64 // (100+Level)/2 % quantile per step
+}
+
+// Horizon returns the number of forecast steps.
+func (f Forecast) Horizon() int { return len(f.Mean) }
+
+// Time returns the time of forecast step h (0-based: h = 0 is Start).
+func (f Forecast) Time(h int) time.Time { return f.Freq.Add(f.Start, h) }
+
+// Quantile returns the p-quantile of the forecast distribution at every
+// step. p is a probability in (0, 1).
+//
+// Special cases: p outside (0, 1) or NaN gives an error wrapping
+// ErrLevel; a forecast without a distribution gives one wrapping
+// ErrNoDistribution.
+func (f Forecast) Quantile(p float64) ([]float64, error) {
+	if !(p > 0 && p < 1) {
+		return nil, fmt.Errorf("almanac: %w: probability %v outside (0, 1)", ErrLevel, p)
+	}
+	if f.Dist == nil {
+		return nil, fmt.Errorf("almanac: %w", ErrNoDistribution)
+	}
+	out := make([]float64, len(f.Mean))
+	for h := range out {
+		out[h] = f.Dist.Quantile(h, p)
+	}
+	return out, nil
+}
+
+// Bounds returns the central prediction interval at level (a percentage
+// in (0, 100)), from Intervals when that level was requested and from
+// the distribution otherwise.
+func (f Forecast) Bounds(level float64) (lower, upper []float64, err error) {
+	if err := CheckLevels(level); err != nil {
+		return nil, nil, err
+	}
+	for _, iv := range f.Intervals {
+		if iv.Level == level {
+			return slices.Clone(iv.Lower), slices.Clone(iv.Upper), nil
+		}
+	}
+	if lower, err = f.Quantile((1 - level/100) / 2); err != nil {
+		return nil, nil, err
+	}
+	upper, err = f.Quantile((1 + level/100) / 2)
+	return lower, upper, err
+}
+
+// SamplePaths returns the simulated sample paths behind the forecast
+// (paths[i][h] is path i at step h), or nil when the distribution is not
+// a *Sample.
+func (f Forecast) SamplePaths() [][]float64 {
+	if s, ok := f.Dist.(*Sample); ok {
+		return s.Paths
+	}
+	return nil
+}
+
+// CheckLevels returns an error wrapping ErrLevel unless every level is a
+// percentage strictly between 0 and 100.
+func CheckLevels(levels ...float64) error {
+	for _, l := range levels {
+		if !(l > 0 && l < 100) {
+			return fmt.Errorf("almanac: %w: level %v outside (0, 100); levels are percentages", ErrLevel, l)
+		}
+	}
+	return nil
+}
+
+// CheckHorizon returns an error wrapping ErrHorizon when h < 1.
+func CheckHorizon(h int) error {
+	if h < 1 {
+		return fmt.Errorf("almanac: %w: horizon %d, need at least 1", ErrHorizon, h)
+	}
+	return nil
+}
+
+// NewForecast assembles a Forecast starting at start with the given point
+// forecasts and distribution, and fills Intervals from the distribution's
+// quantiles at each level. dist may be nil only when no levels are asked.
+// The slices are used as given (not copied).
+func NewForecast(start time.Time, freq calendar.Frequency, mean []float64, dist Distribution, levels ...float64) (Forecast, error) {
+	if err := CheckLevels(levels...); err != nil {
+		return Forecast{}, err
+	}
+	if dist == nil && len(levels) > 0 {
+		return Forecast{}, fmt.Errorf("almanac: %w: cannot give intervals", ErrNoDistribution)
+	}
+	f := Forecast{Start: start, Freq: freq, Mean: mean, Dist: dist}
+	for _, l := range levels {
+		lo := make([]float64, len(mean))
+		hi := make([]float64, len(mean))
+		for h := range mean {
+			lo[h] = dist.Quantile(h, (1-l/100)/2)
+			hi[h] = dist.Quantile(h, (1+l/100)/2)
+		}
+		f.Intervals = append(f.Intervals, Interval{Level: l, Lower: lo, Upper: hi})
+	}
+	return f, nil
+}
+
+// Distribution is a forecast distribution given step by step.
+// Implementations must be safe for concurrent reads.
+type Distribution interface {
+	// Quantile returns the p-quantile (0 < p < 1) at step h (0-based).
+	Quantile(h int, p float64) float64
+}
+
+// Normal is a Gaussian forecast distribution: Mean[h] and standard
+// deviation SD[h] at each step.
+type Normal struct {
+	Mean, SD []float64
+}
+
+// Quantile returns Mean[h] + SD[h]·Φ⁻¹(p).
+func (d *Normal) Quantile(h int, p float64) float64 {
+	if d.SD[h] == 0 {
+		return d.Mean[h]
+	}
+	return d.Mean[h] + d.SD[h]*distuv.UnitNormal.Quantile(p)
+}
+
+// Sample is an empirical forecast distribution from simulated sample
+// paths: Paths[i][h] is path i at step h. Quantiles interpolate linearly
+// between order statistics (the "type 7" definition of Hyndman & Fan
+// 1996, common practice in statistical software).
+type Sample struct {
+	Paths [][]float64
+}
+
+// Quantile returns the p-quantile of the paths at step h, ignoring NaN.
+func (d *Sample) Quantile(h int, p float64) float64 {
+	xs := make([]float64, 0, len(d.Paths))
+	for _, path := range d.Paths {
+		if v := path[h]; !math.IsNaN(v) {
+			xs = append(xs, v)
+		}
+	}
+	return quantileType7(xs, p)
+}
+
+// quantileType7 sorts xs in place and returns its p-quantile by linear
+// interpolation between order statistics (NaN when xs is empty).
+func quantileType7(xs []float64, p float64) float64 {
+	if len(xs) == 0 {
+		return math.NaN()
+	}
+	slices.Sort(xs)
+	pos := p * float64(len(xs)-1)
+	i := int(math.Floor(pos))
+	if i >= len(xs)-1 {
+		return xs[len(xs)-1]
+	}
+	frac := pos - float64(i)
+	return xs[i] + frac*(xs[i+1]-xs[i])
+}
+
+// Mapped is a forecast distribution transformed by a strictly increasing
+// function, such as the inverse of a Box-Cox transform: its quantiles are
+// Map applied to the quantiles of Base.
+type Mapped struct {
+	Base Distribution
+	Map  func(float64) float64
+}
+
+// Quantile returns Map(Base.Quantile(h, p)).
+func (d *Mapped) Quantile(h int, p float64) float64 { return d.Map(d.Base.Quantile(h, p)) }
