@@ -1,5 +1,10 @@
 module github.com/almanac-go/almanac
 
-go 1.26
+go 1.26.0
 
 require gonum.org/v1/gonum v0.17.0
+
+require (
+	github.com/google/go-cmp v0.7.0 // indirect
+	golang.org/x/exp v0.0.0-20261113113407-e3970619a1a4 // indirect
+)
