@@ -1,0 +1,145 @@
+// Package seasonal holds classical (moving-average) decomposition and the
+// autocorrelation seasonality test, shared by the model packages.
+//
+// Classical decomposition follows the conventions of R's
+// stats::decompose (checked against R in package decompose's reference
+// test): a centred moving average of order m (a 2×m average when m is
+// even) estimates the trend; the seasonal figure is the mean of the
+// detrended values at each position counted from the first observation,
+// centred to sum to zero (additive) or average one (multiplicative).
+package seasonal
+
+import (
+	"errors"
+	"math"
+
+	"github.com/almanac-go/almanac/internal/tsstat"
+)
+
+// ErrShort reports a series with fewer than two full periods, or a period
+// below 2.
+var ErrShort = errors.New("seasonal: need period ≥ 2 and at least two full periods")
+
+// Result is a classical decomposition. Trend and Remainder are NaN for the
+// first and last floor(m/2) observations (and wherever a missing value
+// enters the moving average).
+type Result struct {
+	Trend     []float64
+	Seasonal  []float64
+	Remainder []float64
+	// Figure[i] is the seasonal effect of position i (counted from the
+	// first observation), i = 0..m-1.
+	Figure []float64
+}
+
+// Filter returns the weights of the centred moving average of order m:
+// (0.5, 1, ..., 1, 0.5)/m (length m+1) for even m, (1, ..., 1)/m for odd m.
+func Filter(m int) []float64 {
+	if m%2 == 0 {
+		w := make([]float64, m+1)
+		for i := range w {
+			w[i] = 1 / float64(m)
+		}
+		w[0] = 0.5 / float64(m)
+		w[m] = 0.5 / float64(m)
+		return w
+	}
+	w := make([]float64, m)
+	for i := range w {
+		w[i] = 1 / float64(m)
+	}
+	return w
+}
+
+// MovingAverage returns the centred moving average of order m of y: NaN
+// where the window runs off either end or holds a missing value.
+func MovingAverage(y []float64, m int) []float64 {
+	w := Filter(m)
+	half := len(w) / 2
+	out := make([]float64, len(y))
+	for i := range y {
+		if i-half < 0 || i-half+len(w) > len(y) {
+			out[i] = math.NaN()
+			continue
+		}
+		s := 0.0
+		for j, wj := range w {
+			s += wj * y[i-half+j]
+		}
+		out[i] = s // NaN propagates from any missing value
+	}
+	return out
+}
+
+// Classical decomposes y with period m. Multiplicative decomposition
+// divides instead of subtracting and needs a trend that is never zero.
+// Missing values in y propagate to the trend windows that contain them and
+// are ignored in the seasonal means.
+func Classical(y []float64, m int, multiplicative bool) (Result, error) {
+	if m < 2 || len(y) < 2*m {
+		return Result{}, ErrShort
+	}
+	n := len(y)
+	trend := MovingAverage(y, m)
+	sums := make([]float64, m)
+	counts := make([]int, m)
+	for i := range n {
+		var d float64
+		if multiplicative {
+			d = y[i] / trend[i]
+		} else {
+			d = y[i] - trend[i]
+		}
+		if math.IsNaN(d) {
+			continue
+		}
+		sums[i%m] += d
+		counts[i%m]++
+	}
+	figure := make([]float64, m)
+	mean := 0.0
+	for i := range m {
+		figure[i] = sums[i] / float64(counts[i]) // NaN when a position has no value
+		mean += figure[i]
+	}
+	mean /= float64(m)
+	for i := range figure {
+		if multiplicative {
+			figure[i] /= mean
+		} else {
+			figure[i] -= mean
+		}
+	}
+	seas := make([]float64, n)
+	rem := make([]float64, n)
+	for i := range n {
+		seas[i] = figure[i%m]
+		if multiplicative {
+			rem[i] = y[i] / seas[i] / trend[i]
+		} else {
+			rem[i] = y[i] - seas[i] - trend[i]
+		}
+	}
+	return Result{Trend: trend, Seasonal: seas, Remainder: rem, Figure: figure}, nil
+}
+
+// IsSeasonal is the autocorrelation test for seasonality used with the
+// Naive2 benchmark of the M4 competition and with the Theta method: with
+// r the sample autocorrelations of y, y is seasonal with period m iff
+// m > 1, n ≥ 3m and |r_m| > z·√((1 + 2 Σ_{i=1}^{m−1} r_i²)/n), where
+// z = 1.645 gives the usual 90% level (two-sided). y must be complete.
+func IsSeasonal(y []float64, m int, z float64) bool {
+	n := len(y)
+	if m <= 1 || n < 3*m {
+		return false
+	}
+	r := tsstat.ACF(y, m)
+	if math.IsNaN(r[m]) {
+		return false
+	}
+	s := 1.0
+	for i := 1; i < m; i++ {
+		s += 2 * r[i] * r[i]
+	}
+	return math.Abs(r[m]) > z*math.Sqrt(s/float64(n))
+}
