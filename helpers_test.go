@@ -1,0 +1,6 @@
+package almanac_test
+
+import "strconv"
+
+func itoa(i int) string     { return strconv.Itoa(i) }
+func ftoa(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
