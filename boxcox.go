@@ -469,7 +469,9 @@ func (f *BoxCoxFit) Inner() Fitted { return f.inner }
 
 // String returns "BoxCox[λ](inner)", λ with four significant digits, e.g.
 // "BoxCox[0.148](Drift)".
-func (f *BoxCoxFit) String() string { return fmt.Sprintf("BoxCox[%.4g](%s)", f.lambda, f.inner.String()) }
+func (f *BoxCoxFit) String() string {
+	return fmt.Sprintf("BoxCox[%.4g](%s)", f.lambda, f.inner.String())
+}
 
 // FittedValues returns the inner model's fitted values transformed back
 // to the original scale (medians, not bias-adjusted).
