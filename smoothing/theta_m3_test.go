@@ -92,7 +92,7 @@ func TestThetaM3(t *testing.T) {
 		name      string
 		file      string
 		freq      calendar.Frequency
-		period    int // 0 = from the frequency; 1 = non-seasonal
+		period    int     // 0 = from the frequency; 1 = non-seasonal
 		published float64 // Theta, /work/shared/data/README.md
 		bar       float64 // if > 0: only required to be below this published figure
 	}{
