@@ -1,0 +1,73 @@
+// Package accuracy measures forecasts against what happened: point error
+// measures, interval and quantile scores, residual diagnostics of fitted
+// models, and rolling-origin backtests of any almanac.Model against the
+// benchmark methods.
+//
+// Point measures (error = actual − forecast): ME, MAE, MSE, RMSE, MAPE,
+// SMAPE (the M3 definition, in percent), MdAE, MASE and RMSSE (scaled by
+// the in-sample naive or seasonal naive errors, NaiveScale),
+// TrackingSignal, and Relative for any of them against a benchmark
+// forecast. Interval and probabilistic scores: Coverage, IntervalScore
+// (Winkler), MSIS, Pinball, CRPSNormal and CRPSSample. Residual
+// diagnostics: ACF, PACF, Autocovariances, LjungBox, BoxPierce and
+// Residuals.Diagnose for any almanac.Fitted.
+//
+// # Missing values
+//
+// NaN marks a missing value everywhere. A measure leaves out every index
+// at which one of its inputs (actual, forecast, bound, quantile) is NaN,
+// and averages over the rest; when nothing is left it returns an error
+// wrapping almanac.ErrAllMissing. The in-sample scale of MASE, RMSSE and
+// MSIS leaves out the differences that involve a NaN. ACF, PACF and the
+// portmanteau tests pass over NaN as R's acf does with na.pass (n counts
+// the observed values). ±Inf is never data: it is an error wrapping
+// almanac.ErrNonFinite.
+//
+// # Undefined values
+//
+// A measure never returns a silent number for an undefined quantity. The
+// functions return an error wrapping ErrUndefined (with NaN) when they
+// would divide by zero: MAPE with an actual value of 0, SMAPE with an
+// actual value and forecast both 0, MASE, RMSSE and MSIS with a constant
+// in-sample part, TrackingSignal with all errors 0, Relative with a
+// perfect benchmark. Summary tables (Scores) hold NaN for such a measure
+// and keep the others.
+//
+// # Numerical notes
+//
+// Sums are accumulated left to right in float64. The in-sample MASE of
+// the naive method's own one-step fitted values is exactly 1 (numerator
+// and scale are the same sum). CRPSNormal uses the closed form of
+// Gneiting et al. (2005); CRPSSample the energy form over the empirical
+// distribution of the draws, computed from the sorted draws in
+// O(n log n). Portmanteau p-values are chi-square upper tails from
+// gonum's distuv.
+//
+// # Concurrency
+//
+// Every function is safe for concurrent use. A Backtest value is a
+// specification, safe to share; Run fits the (model, origin) pairs on a
+// pool of Workers goroutines and writes each result by index, so the
+// output is bit-identical for any number of workers. Nothing else in the
+// package starts goroutines.
+//
+// # References
+//
+//   - Makridakis, S. & Hibon, M. (2000). The M3-Competition: results,
+//     conclusions and implications. IJF 16, 451–476 (sMAPE).
+//   - Hyndman, R. J. & Koehler, A. B. (2006). Another look at measures of
+//     forecast accuracy. IJF 22, 679–688 (MASE).
+//   - Makridakis, S., Spiliotis, E. & Assimakopoulos, V. (2020). The M4
+//     Competition. IJF 36, 54–74 (MSIS, OWA); and the M5 competition
+//     guidelines (RMSSE).
+//   - Gneiting, T. & Raftery, A. E. (2007). Strictly proper scoring rules,
+//     prediction, and estimation. JASA 102, 359–378 (interval score).
+//   - Gneiting, T., Raftery, A. E., Westveld, A. H. & Goldman, T. (2005).
+//     Calibrated probabilistic forecasting using ensemble model output
+//     statistics. Monthly Weather Review 133, 1098–1118 (CRPS of a normal).
+//   - Ljung, G. M. & Box, G. E. P. (1978). On a measure of lack of fit in
+//     time series models. Biometrika 65, 297–303; Box, G. E. P. & Pierce,
+//     D. A. (1970). JASA 65, 1509–1526.
+//   - Tashman, L. J. (2000). Out-of-sample tests of forecasting accuracy:
+//     an analysis and review. IJF 16, 437–450 (rolling origins).
+package accuracy

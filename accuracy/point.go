@@ -1,0 +1,346 @@
+package accuracy
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/almanac-go/almanac"
+)
+
+// The point measures below share these rules (see also the package
+// documentation, "Missing values"):
+//
+//   - the error is actual − forecast, so a positive ME means the forecasts
+//     were too low;
+//   - actual and forecast must have the same, non-zero length (otherwise
+//     errors wrapping almanac.ErrLength or almanac.ErrEmpty);
+//   - ±Inf anywhere is an error wrapping almanac.ErrNonFinite;
+//   - a pair in which either value is NaN (missing) is left out; when no
+//     pair is left the error wraps almanac.ErrAllMissing;
+//   - a measure that would divide by zero returns an error wrapping
+//     ErrUndefined, never a number.
+
+// checkPairs validates actual and forecast and returns the number of
+// pairs with both values observed.
+func checkPairs(fn string, actual, forecast []float64) (int, error) {
+	if len(actual) != len(forecast) {
+		return 0, fmt.Errorf("accuracy: %s: %w: %d actual values but %d forecasts", fn, almanac.ErrLength, len(actual), len(forecast))
+	}
+	if len(actual) == 0 {
+		return 0, fmt.Errorf("accuracy: %s: %w: no actual values", fn, almanac.ErrEmpty)
+	}
+	n := 0
+	for i, a := range actual {
+		f := forecast[i]
+		if math.IsInf(a, 0) {
+			return 0, fmt.Errorf("accuracy: %s: %w: actual value %v at index %d", fn, almanac.ErrNonFinite, a, i)
+		}
+		if math.IsInf(f, 0) {
+			return 0, fmt.Errorf("accuracy: %s: %w: forecast %v at index %d", fn, almanac.ErrNonFinite, f, i)
+		}
+		if !math.IsNaN(a) && !math.IsNaN(f) {
+			n++
+		}
+	}
+	if n == 0 {
+		return 0, fmt.Errorf("accuracy: %s: %w: no index has both an actual value and a forecast", fn, almanac.ErrAllMissing)
+	}
+	return n, nil
+}
+
+func observed(a, f float64) bool { return !math.IsNaN(a) && !math.IsNaN(f) }
+
+// ME returns the mean error, mean(actual − forecast): the bias of the
+// forecasts in the units of the data. Pairs with a NaN are left out.
+func ME(actual, forecast []float64) (float64, error) {
+	n, err := checkPairs("ME", actual, forecast)
+	if err != nil {
+		return math.NaN(), err
+	}
+	s := 0.0
+	for i, a := range actual {
+		if f := forecast[i]; observed(a, f) {
+			s += a - f
+		}
+	}
+	return s / float64(n), nil
+}
+
+// MAE returns the mean absolute error, mean|actual − forecast|. Pairs with
+// a NaN are left out.
+func MAE(actual, forecast []float64) (float64, error) {
+	n, err := checkPairs("MAE", actual, forecast)
+	if err != nil {
+		return math.NaN(), err
+	}
+	return sumAbs(actual, forecast) / float64(n), nil
+}
+
+func sumAbs(actual, forecast []float64) float64 {
+	s := 0.0
+	for i, a := range actual {
+		if f := forecast[i]; observed(a, f) {
+			s += math.Abs(a - f)
+		}
+	}
+	return s
+}
+
+// MSE returns the mean squared error, mean (actual − forecast)². Pairs
+// with a NaN are left out.
+func MSE(actual, forecast []float64) (float64, error) {
+	n, err := checkPairs("MSE", actual, forecast)
+	if err != nil {
+		return math.NaN(), err
+	}
+	return sumSq(actual, forecast) / float64(n), nil
+}
+
+func sumSq(actual, forecast []float64) float64 {
+	s := 0.0
+	for i, a := range actual {
+		if f := forecast[i]; observed(a, f) {
+			e := a - f
+			s += e * e
+		}
+	}
+	return s
+}
+
+// RMSE returns the root mean squared error, √MSE. Pairs with a NaN are
+// left out.
+func RMSE(actual, forecast []float64) (float64, error) {
+	mse, err := MSE(actual, forecast)
+	if err != nil {
+		return math.NaN(), fmt.Errorf("accuracy: RMSE: %w", err)
+	}
+	return math.Sqrt(mse), nil
+}
+
+// MAPE returns the mean absolute percentage error in percent,
+// 100·mean(|actual − forecast| / |actual|). Pairs with a NaN are left out.
+//
+// Special cases: an observed actual value of exactly 0 makes MAPE
+// undefined; the error wraps ErrUndefined (use MASE for data with zeros).
+func MAPE(actual, forecast []float64) (float64, error) {
+	n, err := checkPairs("MAPE", actual, forecast)
+	if err != nil {
+		return math.NaN(), err
+	}
+	s := 0.0
+	for i, a := range actual {
+		f := forecast[i]
+		if !observed(a, f) {
+			continue
+		}
+		if a == 0 {
+			return math.NaN(), fmt.Errorf("accuracy: MAPE: %w: actual value 0 at index %d", ErrUndefined, i)
+		}
+		s += math.Abs(a-f) / math.Abs(a)
+	}
+	return 100 * s / float64(n), nil
+}
+
+// SMAPE returns the symmetric mean absolute percentage error of the M3
+// competition (Makridakis & Hibon 2000, also used in M4), in percent:
+// 100·mean(2|actual − forecast| / (|actual| + |forecast|)). It lies in
+// [0, 200]. Pairs with a NaN are left out.
+//
+// Special cases: a pair with actual and forecast both 0 is 0/0; the error
+// wraps ErrUndefined. One zero alone is fine (that term is 200).
+func SMAPE(actual, forecast []float64) (float64, error) {
+	n, err := checkPairs("sMAPE", actual, forecast)
+	if err != nil {
+		return math.NaN(), err
+	}
+	s := 0.0
+	for i, a := range actual {
+		f := forecast[i]
+		if !observed(a, f) {
+			continue
+		}
+		d := math.Abs(a) + math.Abs(f)
+		if d == 0 {
+			return math.NaN(), fmt.Errorf("accuracy: sMAPE: %w: actual and forecast both 0 at index %d", ErrUndefined, i)
+		}
+		s += 2 * math.Abs(a-f) / d
+	}
+	return 100 * s / float64(n), nil
+}
+
+// MdAE returns the median absolute error. With an even number of pairs it
+// is the mean of the two middle absolute errors. Pairs with a NaN are left
+// out.
+func MdAE(actual, forecast []float64) (float64, error) {
+	n, err := checkPairs("MdAE", actual, forecast)
+	if err != nil {
+		return math.NaN(), err
+	}
+	abs := make([]float64, 0, n)
+	for i, a := range actual {
+		if f := forecast[i]; observed(a, f) {
+			abs = append(abs, math.Abs(a-f))
+		}
+	}
+	return median(abs), nil
+}
+
+// median sorts xs in place and returns its median (mean of the two middle
+// values for an even count). xs must not be empty or hold NaN.
+func median(xs []float64) float64 {
+	slices.Sort(xs)
+	k := len(xs) / 2
+	if len(xs)%2 == 1 {
+		return xs[k]
+	}
+	return (xs[k-1] + xs[k]) / 2
+}
+
+// NaiveScale returns the in-sample scales of the (seasonal) naive method
+// with period m: the mean absolute difference mean_{t>m}|x_t − x_{t−m}|
+// (the MASE denominator of Hyndman & Koehler 2006) and the mean squared
+// difference mean_{t>m}(x_t − x_{t−m})² (the RMSSE denominator of the M5
+// competition). Differences involving a NaN are left out.
+//
+// Special cases: m < 1 wraps almanac.ErrInvalid; ±Inf wraps
+// almanac.ErrNonFinite; no observed difference (for example
+// len(insample) ≤ m) wraps almanac.ErrTooShort. A constant in-sample
+// part gives scales of 0, which is returned as is; MASE and RMSSE then
+// report ErrUndefined.
+func NaiveScale(insample []float64, m int) (abs, sq float64, err error) {
+	if m < 1 {
+		return math.NaN(), math.NaN(), fmt.Errorf("accuracy: naive scale: %w: period %d, need at least 1", almanac.ErrInvalid, m)
+	}
+	for i, v := range insample {
+		if math.IsInf(v, 0) {
+			return math.NaN(), math.NaN(), fmt.Errorf("accuracy: naive scale: %w: in-sample value %v at index %d", almanac.ErrNonFinite, v, i)
+		}
+	}
+	n := 0
+	for t := m; t < len(insample); t++ {
+		d := insample[t] - insample[t-m]
+		if math.IsNaN(d) {
+			continue
+		}
+		abs += math.Abs(d)
+		sq += d * d
+		n++
+	}
+	if n == 0 {
+		return math.NaN(), math.NaN(), fmt.Errorf("accuracy: naive scale: %w: %d in-sample values give no observed lag-%d difference", almanac.ErrTooShort, len(insample), m)
+	}
+	return abs / float64(n), sq / float64(n), nil
+}
+
+// MASE returns the mean absolute scaled error of Hyndman & Koehler (2006):
+// MAE divided by the in-sample mean absolute error of the seasonal naive
+// method with period m (m = 1: the naive method), as computed by
+// NaiveScale. The M4 competition uses m = 12 for monthly, 4 for quarterly,
+// 24 for hourly and 1 for other data.
+//
+// Special cases: as for MAE and NaiveScale; a zero scale (a constant
+// in-sample part) wraps ErrUndefined.
+func MASE(actual, forecast, insample []float64, m int) (float64, error) {
+	mae, err := MAE(actual, forecast)
+	if err != nil {
+		return math.NaN(), fmt.Errorf("accuracy: MASE: %w", err)
+	}
+	scale, _, err := NaiveScale(insample, m)
+	if err != nil {
+		return math.NaN(), fmt.Errorf("accuracy: MASE: %w", err)
+	}
+	if scale == 0 {
+		return math.NaN(), fmt.Errorf("accuracy: MASE: %w: the in-sample lag-%d differences are all 0", ErrUndefined, m)
+	}
+	return mae / scale, nil
+}
+
+// RMSSE returns the root mean squared scaled error of the M5 competition:
+// √(MSE / mean_{t>m}(x_t − x_{t−m})²). M5 uses m = 1; any period may be
+// given.
+//
+// Special cases: as for MASE.
+func RMSSE(actual, forecast, insample []float64, m int) (float64, error) {
+	mse, err := MSE(actual, forecast)
+	if err != nil {
+		return math.NaN(), fmt.Errorf("accuracy: RMSSE: %w", err)
+	}
+	_, scale, err := NaiveScale(insample, m)
+	if err != nil {
+		return math.NaN(), fmt.Errorf("accuracy: RMSSE: %w", err)
+	}
+	if scale == 0 {
+		return math.NaN(), fmt.Errorf("accuracy: RMSSE: %w: the in-sample lag-%d differences are all 0", ErrUndefined, m)
+	}
+	return math.Sqrt(mse / scale), nil
+}
+
+// TrackingSignal returns the cumulative error divided by the mean absolute
+// error, Σ(actual − forecast) / MAE (common practice: the tracking signal
+// used to monitor forecast bias, Brown 1959). It lies in [−n, n] for n
+// pairs; values far from 0 (a usual alarm is |TS| > 4) mean the forecasts
+// are persistently too low (positive) or too high (negative). Pairs with
+// a NaN are left out.
+//
+// Special cases: all errors 0 wraps ErrUndefined.
+func TrackingSignal(actual, forecast []float64) (float64, error) {
+	n, err := checkPairs("tracking signal", actual, forecast)
+	if err != nil {
+		return math.NaN(), err
+	}
+	sum := 0.0
+	for i, a := range actual {
+		if f := forecast[i]; observed(a, f) {
+			sum += a - f
+		}
+	}
+	mad := sumAbs(actual, forecast) / float64(n)
+	if mad == 0 {
+		return math.NaN(), fmt.Errorf("accuracy: tracking signal: %w: every error is 0", ErrUndefined)
+	}
+	return sum / mad, nil
+}
+
+// PointMeasure is the shape of the two-argument point measures (ME, MAE,
+// MSE, RMSE, MAPE, SMAPE, MdAE), for Relative.
+type PointMeasure func(actual, forecast []float64) (float64, error)
+
+// Relative returns measure(actual, forecast) / measure(actual, benchmark),
+// the relative error of a forecast against a benchmark forecast of the
+// same actual values (for example Relative(MAE, ...) is the relative MAE;
+// values below 1 mean the forecast beat the benchmark). Both measures are
+// evaluated on the same pairs: an index is left out when the actual
+// value, the forecast or the benchmark is NaN.
+//
+// Special cases: the lengths must agree (almanac.ErrLength); a benchmark
+// measure of 0 wraps ErrUndefined; errors of the measure are passed on.
+func Relative(measure PointMeasure, actual, forecast, benchmark []float64) (float64, error) {
+	if measure == nil {
+		return math.NaN(), fmt.Errorf("accuracy: relative: %w: nil measure", almanac.ErrInvalid)
+	}
+	if len(forecast) != len(actual) || len(benchmark) != len(actual) {
+		return math.NaN(), fmt.Errorf("accuracy: relative: %w: %d actual values, %d forecasts, %d benchmark forecasts", almanac.ErrLength, len(actual), len(forecast), len(benchmark))
+	}
+	a := actual
+	for i := range actual {
+		if (math.IsNaN(forecast[i]) || math.IsNaN(benchmark[i])) && !math.IsNaN(actual[i]) {
+			if len(a) > 0 && &a[0] == &actual[0] {
+				a = slices.Clone(actual) // never write into the caller's slice
+			}
+			a[i] = math.NaN()
+		}
+	}
+	num, err := measure(a, forecast)
+	if err != nil {
+		return math.NaN(), fmt.Errorf("accuracy: relative: forecast: %w", err)
+	}
+	den, err := measure(a, benchmark)
+	if err != nil {
+		return math.NaN(), fmt.Errorf("accuracy: relative: benchmark: %w", err)
+	}
+	if den == 0 {
+		return math.NaN(), fmt.Errorf("accuracy: relative: %w: the benchmark's measure is 0", ErrUndefined)
+	}
+	return num / den, nil
+}
