@@ -60,7 +60,6 @@ func compareMatrix(t *testing.T, name string, got mat.Matrix, want [][]float64, 
 	}
 }
 
-
 // checkHierarchyData: R datasets ldeaths = mdeaths + fdeaths (fixture
 // uk_lung_deaths; the identity was verified in R, max |diff| = 0).
 func checkHierarchyData(t *testing.T, f *reftest.Fixture) {
