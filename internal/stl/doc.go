@@ -1,0 +1,70 @@
+// Package stl is the seasonal-trend decomposition by loess of Cleveland,
+// Cleveland, McRae & Terpenning (1990), written to reproduce R's
+// stats::stl (R's Fortran port of the authors' netlib code) to rounding.
+//
+// It is shared by decompose (the public STL and MSTL) and by arima (which
+// reads the seasonal strength of an STL fit when choosing seasonal
+// differencing), so neither has to import the other.
+//
+// # Algorithm
+//
+// Decompose runs Outer+1 passes of Inner inner iterations each. An inner
+// iteration detrends, smooths every cycle-subseries by loess (span
+// SWindow, degree SDegree, evaluated one cycle beyond each end), low-pass
+// filters the result (moving averages of length Period, Period and 3, then
+// loess span LWindow, degree LDegree), takes seasonal = cycle-subseries
+// smooth − low-pass, and smooths the deseasonalised data by loess (span
+// TWindow, degree TDegree) to get the trend. Between passes, bisquare
+// robustness weights are computed from the remainder (6 × median
+// absolute remainder). Each loess smoother is evaluated every Jump points
+// and linearly interpolated in between.
+//
+// # Conventions kept from R
+//
+//   - Spans smaller than 3 are raised to 3 and even spans to the next odd
+//     number (as the Fortran does); the period is raised to at least 2.
+//   - The weights returned are those used in the last pass (computed from
+//     the fit of the pass before it), not recomputed from the final
+//     components; with Outer = 0 they are all 1.
+//   - Periodic: after the loops the seasonal component is replaced by its
+//     mean over each cycle position. Positions are taken by observation
+//     index modulo Period; R groups by calendar position (cycle(x)), which
+//     gives the same groups whatever the start, so the results agree.
+//   - The remainder is always y − seasonal − trend.
+//
+// # Missing values
+//
+// None: every value must be finite (the caller repairs gaps first).
+//
+// # Numerical notes
+//
+// The smoothers, moving averages, jump interpolation and robustness
+// weights follow the Fortran statement by statement (1-based positions),
+// including its partial sort, whose quirk with decreasing positions
+// decides the robustness scale for even n. The loess kernel accumulates
+// its weighted sums in one pass centred on the evaluation point instead
+// of the Fortran's four; against the reference fixtures (R 4.2.2) the
+// largest differences are 1e-11 in the components and 1e-12 in the
+// weights. The thresholds 0.001 and 0.999 in the tricube and bisquare
+// weights are double-precision constants.
+//
+// # Performance
+//
+// Measured on a 2-core box shared with other jobs (indicative only):
+// 468 observations, period 12, s.window 7 with R's default jumps,
+// 0.12–0.15 ms non-robust and 0.75–1.1 ms robust (15 robustness passes),
+// with no allocation once the Workspace has grown (R 4.2's compiled stl
+// takes about 0.24 ms and 0.96 ms for the same calls).
+//
+// # Concurrency
+//
+// A Workspace belongs to one goroutine at a time; Decompose with a
+// Workspace does not allocate once the workspace has grown to the series.
+// The package starts no goroutines.
+//
+// # References
+//
+// Cleveland, R. B., Cleveland, W. S., McRae, J. E. & Terpenning, I. (1990).
+// STL: A seasonal-trend decomposition procedure based on loess. Journal of
+// Official Statistics 6(1), 3–73.
+package stl

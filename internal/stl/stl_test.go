@@ -1,0 +1,153 @@
+package stl
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/almanac-go/almanac/internal/reftest"
+)
+
+func loadInput(t testing.TB, name string) []float64 {
+	t.Helper()
+	f, err := reftest.Load("testdata/reference/" + name + ".json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return f.Floats(t, "input")
+}
+
+func TestBadInput(t *testing.T) {
+	y := make([]float64, 30)
+	for i := range y {
+		y[i] = float64(i%4) + 0.1*float64(i)
+	}
+	ok := Defaults(len(y), 4, 7, false, false)
+	nan := append([]float64(nil), y...)
+	nan[5] = math.NaN()
+	inf := append([]float64(nil), y...)
+	inf[7] = math.Inf(1)
+	for _, c := range []struct {
+		name string
+		y    []float64
+		p    func() Params
+		want error
+	}{
+		{"period 1", y, func() Params { p := ok; p.Period = 1; return p }, ErrPeriod},
+		{"exactly two periods", y[:8], func() Params { return ok }, ErrTooShort},
+		{"zero window", y, func() Params { p := ok; p.SWindow = 0; return p }, ErrParams},
+		{"degree 2", y, func() Params { p := ok; p.TDegree = 2; return p }, ErrParams},
+		{"zero jump", y, func() Params { p := ok; p.LJump = 0; return p }, ErrParams},
+		{"zero inner", y, func() Params { p := ok; p.Inner = 0; return p }, ErrParams},
+		{"negative outer", y, func() Params { p := ok; p.Outer = -1; return p }, ErrParams},
+		{"NaN", nan, func() Params { return ok }, ErrNonFinite},
+		{"Inf", inf, func() Params { return ok }, ErrNonFinite},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			_, _, _, _, err := Decompose(c.y, c.p())
+			if !errors.Is(err, c.want) {
+				t.Fatalf("err = %v, want %v", err, c.want)
+			}
+		})
+	}
+	var w Workspace
+	if err := w.DecomposeTo(make([]float64, 3), y, y, y, y, ok); !errors.Is(err, ErrLength) {
+		t.Fatalf("short buffer: err = %v", err)
+	}
+}
+
+// TestEvenWindowsRoundedUp: the Fortran raises spans to ≥ 3 and odd, so
+// an even span gives the same result as the next odd one.
+func TestEvenWindowsRoundedUp(t *testing.T) {
+	y := loadInput(t, "stl_co2_swin7")
+	p := Defaults(len(y), 12, 7, false, false)
+	q := p
+	q.SWindow, q.TWindow, q.LWindow = 6, 22, 12
+	s1, t1, _, _, err := Decompose(y, p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s2, t2, _, _, err := Decompose(y, q)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range s1 {
+		if s1[i] != s2[i] || t1[i] != t2[i] {
+			t.Fatalf("index %d differs", i)
+		}
+	}
+	if e := q.Effective(); e.SWindow != 7 || e.TWindow != 23 || e.LWindow != 13 {
+		t.Fatalf("Effective = %+v", e)
+	}
+	if e := (Params{SWindow: 1, TWindow: 2, LWindow: -5}).Effective(); e.SWindow != 3 || e.TWindow != 3 || e.LWindow != 3 {
+		t.Fatalf("Effective small = %+v", e)
+	}
+}
+
+func TestPropertiesAddBackAndPeriodic(t *testing.T) {
+	y := loadInput(t, "stl_nottem_periodic")
+	for _, robust := range []bool{false, true} {
+		p := Defaults(len(y), 12, 0, true, robust)
+		s, tr, r, w, err := Decompose(y, p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range y {
+			if s[i]+tr[i]+r[i] != y[i] && math.Abs(s[i]+tr[i]+r[i]-y[i]) > 1e-12*math.Abs(y[i]) {
+				t.Fatalf("robust=%v: components do not add back at %d", robust, i)
+			}
+			if i >= 12 && s[i] != s[i-12] {
+				t.Fatalf("robust=%v: seasonal not periodic at %d", robust, i)
+			}
+			if w[i] < 0 || w[i] > 1 {
+				t.Fatalf("weight %v outside [0,1]", w[i])
+			}
+		}
+	}
+}
+
+// TestPsortOddAndIncreasing: with increasing positions (and for odd n,
+// where both positions coincide) psort places the exact order statistic.
+func TestPsortOddAndIncreasing(t *testing.T) {
+	y := loadInput(t, "stl_co2_swin7")
+	for _, n := range []int{1, 2, 3, 11, 12, 101, 468} {
+		a := append([]float64(nil), y[:n]...)
+		sorted := append([]float64(nil), a...)
+		insertionSort(sorted)
+		lo, hi := (n+1)/2, n/2+1
+		psort(a, []int{lo, hi})
+		if n >= 2 && (a[lo-1] != sorted[lo-1] || a[hi-1] != sorted[hi-1]) {
+			t.Fatalf("n %d: got %v %v want %v %v", n, a[lo-1], a[hi-1], sorted[lo-1], sorted[hi-1])
+		}
+	}
+}
+
+func insertionSort(a []float64) {
+	for i := 1; i < len(a); i++ {
+		for j := i; j > 0 && a[j] < a[j-1]; j-- {
+			a[j], a[j-1] = a[j-1], a[j]
+		}
+	}
+}
+
+func TestWorkspaceNoAllocs(t *testing.T) {
+	y := loadInput(t, "stl_airpassengers_log_swin13_robust")
+	n := len(y)
+	p := Defaults(n, 12, 13, false, true)
+	s, tr, r, w := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+	var ws Workspace
+	// Reuse across sizes n-1, n, n+1 (grown once to the largest).
+	for _, m := range []int{n, n - 1, n} {
+		if err := ws.DecomposeTo(s[:m], tr[:m], r[:m], w[:m], y[:m], p); err != nil {
+			t.Fatal(err)
+		}
+	}
+	allocs := testing.AllocsPerRun(20, func() {
+		if err := ws.DecomposeTo(s, tr, r, w, y, p); err != nil {
+			t.Fatal(err)
+		}
+	})
+	if allocs != 0 {
+		t.Fatalf("DecomposeTo allocates %v times per run", allocs)
+	}
+}
