@@ -1,0 +1,83 @@
+// Package smoothing implements exponential smoothing: the ETS
+// error/trend/season state-space family estimated by maximum likelihood
+// (Spec), automatic model selection (Select), and classical Holt-Winters
+// with fixed constants (HoltWinters).
+//
+// A Spec names one model of the taxonomy — error additive (A) or
+// multiplicative (M); trend none (N), additive (A), additive damped (Ad),
+// multiplicative (M) or multiplicative damped (Md); season none (N),
+// additive (A) or multiplicative (M) — in the innovations state-space form
+// of Hyndman, Koehler, Snyder & Grose (2002) and Hyndman, Koehler, Ord &
+// Snyder (2008). Its String is the taxonomy notation, e.g. "ETS(M,Ad,M)".
+//
+// # Missing values
+//
+// ETS here needs complete data: a NaN gives an error wrapping
+// almanac.ErrMissing. Fill gaps first, e.g. with the interpolation of
+// package decompose.
+//
+// # Likelihood
+//
+// Fitted.LogLik is the concentrated Gaussian log-likelihood of the
+// innovations form, on the definition statsmodels' ETSModel reports as
+// llf:
+//
+//	LogLik = −(n/2)·(log(2π·Σe²/n) + 1) − Σ log ŷ_t
+//
+// where e_t = y_t − ŷ_t for additive error and (y_t − ŷ_t)/ŷ_t for
+// multiplicative error, and the last sum is present for multiplicative
+// error only. This equals the likelihood of Hyndman et al. (2008, ch. 5)
+// with σ² concentrated out as Σe²/n. The estimator minimises
+// n·log Σe² + 2·Σ log ŷ_t, which differs from −2·LogLik by a constant.
+// AIC = −2·LogLik + 2k, AICc = AIC + 2k(k+1)/(n−k−1), BIC = −2·LogLik +
+// k·log n with k = Fitted.DF: estimated smoothing parameters, estimated
+// initial level and trend, all m initial seasonal states when estimated,
+// and σ² — statsmodels' count, so the criteria compare directly.
+//
+// Initial seasonal states are normalised (sum 0 additive, mean 1
+// multiplicative) by determining the last from the others; statsmodels
+// instead fixes the first. Both give the same set of fitted values and the
+// same maximum.
+//
+// # Numerical notes
+//
+// The series is divided by its mean absolute value before estimation (the
+// results are mapped back), so forecasts scale with the data. Smoothing
+// parameters are searched through logistic transforms of the box in
+// Bounds; the admissible region is checked by the Schur–Cohn test on the
+// characteristic polynomial. The optimiser is a restarted Nelder–Mead
+// simplex (see neldermead.go for why it is not gonum's); the likelihood
+// evaluation does not allocate.
+//
+// Prediction intervals: classes 1–3 of Hyndman, Koehler, Ord & Snyder
+// (2005) analytically (see IntervalMethod), all other models by simulation
+// with a generator seeded by Spec.Seed.
+//
+// # Concurrency
+//
+// Spec, Select and HoltWinters values are immutable and safe to share.
+// A single fit runs in one goroutine; Select fits its candidates
+// concurrently (Select.Workers) and writes results by candidate index, so
+// its choice is the same whatever the number of workers. Fitted values are
+// read-only.
+//
+// # References
+//
+//   - Hyndman, R.J., Koehler, A.B., Snyder, R.D. & Grose, S. (2002). A state
+//     space framework for automatic forecasting using exponential smoothing
+//     methods. International Journal of Forecasting 18:439–454.
+//   - Hyndman, R.J., Koehler, A.B., Ord, J.K. & Snyder, R.D. (2005).
+//     Prediction intervals for exponential smoothing using two new classes
+//     of state space models. Journal of Forecasting 24:17–37.
+//   - Hyndman, R.J., Koehler, A.B., Ord, J.K. & Snyder, R.D. (2008).
+//     Forecasting with Exponential Smoothing: The State Space Approach.
+//     Springer.
+//   - Holt, C.C. (1957, reprinted 2004). Forecasting seasonals and trends
+//     by exponentially weighted moving averages. IJF 20:5–10; Winters, P.R.
+//     (1960). Forecasting sales by exponentially weighted moving averages.
+//     Management Science 6:324–342.
+//   - Nelder, J.A. & Mead, R. (1965). A simplex method for function
+//     minimization. Computer Journal 7:308–313; Gao, F. & Han, L. (2012).
+//     Implementing the Nelder-Mead simplex algorithm with adaptive
+//     parameters. Computational Optimization and Applications 51:259–277.
+package smoothing

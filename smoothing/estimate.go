@@ -1,0 +1,386 @@
+package smoothing
+
+import (
+	"context"
+	"math"
+
+	"github.com/almanac-go/almanac/internal/seasonal"
+)
+
+// Search boxes for estimated smoothing parameters (see Bounds).
+const (
+	boxLo    = 1e-4
+	boxHi    = 1 - 1e-4
+	phiLo    = 0.8
+	phiHi    = 0.98
+	admAlpha = 2 - 1e-4
+	admBeta  = 4 - 1e-4
+	admGamma = 2 - 1e-4
+	penalty  = 1e100 // objective outside the model's domain
+)
+
+// problem is the likelihood of one model on one (scaled) series, with a
+// workspace: evaluating it does not allocate.
+type problem struct {
+	f      form
+	y      []float64 // scaled observations
+	bounds Bounds
+
+	// Which quantities are estimated, and the fixed values (scaled).
+	estA, estB, estG, estP, estL, estT, estS bool
+	fix                                      Params
+	fixL, fixT                               float64
+	fixS                                     []float64 // chronological, scaled
+
+	ws []float64 // seasonal ring, length m
+}
+
+func sigmoid(u float64) float64 { return 1 / (1 + math.Exp(-u)) }
+func logit(r float64) float64   { return math.Log(r / (1 - r)) }
+
+// dim returns the length of the optimiser's vector.
+func (p *problem) dim() int {
+	d := 0
+	for _, e := range []bool{p.estA, p.estB, p.estG, p.estP, p.estL, p.estT} {
+		if e {
+			d++
+		}
+	}
+	if p.estS {
+		d += p.f.m - 1
+	}
+	return d
+}
+
+// params decodes the smoothing parameters from x (starting at x[0]) and
+// returns them with the number of entries used.
+func (p *problem) params(x []float64) (Params, int) {
+	par := p.fix
+	i := 0
+	usual := p.bounds != AdmissibleBounds
+	if p.estA {
+		if usual {
+			par.Alpha = boxLo + (boxHi-boxLo)*sigmoid(x[i])
+		} else {
+			par.Alpha = boxLo + (admAlpha-boxLo)*sigmoid(x[i])
+		}
+		i++
+	}
+	if p.estB {
+		if usual {
+			par.Beta = par.Alpha * (boxLo + (boxHi-boxLo)*sigmoid(x[i]))
+		} else {
+			par.Beta = boxLo + (admBeta-boxLo)*sigmoid(x[i])
+		}
+		i++
+	}
+	if p.estG {
+		if usual {
+			par.Gamma = (1 - par.Alpha) * (boxLo + (boxHi-boxLo)*sigmoid(x[i]))
+		} else {
+			par.Gamma = boxLo + (admGamma-boxLo)*sigmoid(x[i])
+		}
+		i++
+	}
+	if p.estP {
+		par.Phi = phiLo + (phiHi-phiLo)*sigmoid(x[i])
+		i++
+	}
+	return par, i
+}
+
+// decode fills p.ws with the initial seasonal ring and returns the
+// parameters and the initial level and trend.
+func (p *problem) decode(x []float64) (par Params, l0, b0 float64, ok bool) {
+	par, i := p.params(x)
+	l0, b0 = p.fixL, p.fixT
+	if p.estL {
+		l0 = x[i]
+		i++
+	}
+	if p.estT {
+		b0 = x[i]
+		i++
+	}
+	if p.f.season == NoSeason {
+		return par, l0, b0, true
+	}
+	m := p.f.m
+	if !p.estS {
+		copy(p.ws, p.fixS)
+		return par, l0, b0, true
+	}
+	sum := 0.0
+	for k := 0; k < m-1; k++ {
+		p.ws[k] = x[i+k]
+		sum += x[i+k]
+	}
+	if p.f.season == AdditiveSeason {
+		p.ws[m-1] = -sum
+	} else {
+		p.ws[m-1] = float64(m) - sum
+		for _, v := range p.ws {
+			if !(v > 0) {
+				return par, l0, b0, false
+			}
+		}
+	}
+	return par, l0, b0, true
+}
+
+// objective is the function minimised: n·log(Σe²) + 2Σlog ŷ, i.e.
+// −2·loglik up to a constant. It does not allocate.
+func (p *problem) objective(x []float64) float64 {
+	par, l0, b0, ok := p.decode(x)
+	if !ok {
+		return penalty
+	}
+	if p.bounds != UsualBounds && !admissible(p.f, par) {
+		return penalty
+	}
+	if p.f.trend.multiplicative() && !(b0 > 0) {
+		return penalty
+	}
+	if p.f.multiplicativeLevel() && !(l0 > 0) {
+		return penalty
+	}
+	sse, sumlog, _, _, ok := p.f.filter(p.y, par, l0, b0, p.ws, 0, nil)
+	if !ok {
+		return penalty
+	}
+	n := float64(len(p.y))
+	v := n*math.Log(math.Max(sse, 1e-300)) + 2*sumlog
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return penalty
+	}
+	return v
+}
+
+// multiplicativeLevel reports whether the level must stay positive.
+func (f form) multiplicativeLevel() bool {
+	return f.err == MultiplicativeError || f.trend.multiplicative() || f.season == MultiplicativeSeason
+}
+
+// admissible reports whether the parameters lie in the forecastability
+// region of the linear state-space form: all eigenvalues of the discount
+// matrix D = F − g·w' inside the unit circle (Hyndman, Koehler, Ord &
+// Snyder 2008, ch. 10). For non-seasonal models the region has the
+// closed form below; for seasonal ones the characteristic polynomial of
+// D (of degree m+1, coefficients as in ch. 10, recalled from memory) is
+// tested with the Schur–Cohn recursion, which needs no root finding and
+// no allocation for m ≤ MaxPeriod. The same conditions are applied to
+// the multiplicative forms (common practice).
+func admissible(f form, p Params) bool {
+	phi := 1.0
+	if f.trend.damped() {
+		phi = p.Phi
+	}
+	if !(phi > 0 && phi <= 1+1e-8) {
+		return false
+	}
+	alpha := p.Alpha
+	beta := 0.0
+	if f.trend != NoTrend {
+		beta = p.Beta
+	}
+	if f.season == NoSeason || f.m < 2 {
+		if alpha < 1-1/phi || alpha > 1+1/phi {
+			return false
+		}
+		if f.trend != NoTrend && (beta < alpha*(phi-1) || beta > (1+phi)*(2-alpha)) {
+			return false
+		}
+		return true
+	}
+	m := f.m
+	gamma := p.Gamma
+	if gamma < math.Max(1-1/phi-alpha, 0) || gamma > 1+1/phi-alpha {
+		return false
+	}
+	if alpha < 1-1/phi-gamma*(1-float64(m)+phi+phi*float64(m))/(2*phi*float64(m)) {
+		return false
+	}
+	if beta < -(1-phi)*(gamma/float64(m)+alpha) {
+		return false
+	}
+	// Characteristic polynomial, ascending powers:
+	// φ(1−α−γ), α+β−αφ+γ−1, (α+β−αφ) × (m−2), α+β−φ, 1.
+	var buf [MaxPeriod + 2]float64
+	c := buf[:m+2]
+	c[0] = phi * (1 - alpha - gamma)
+	c[1] = alpha + beta - alpha*phi + gamma - 1
+	for k := 2; k < m; k++ {
+		c[k] = alpha + beta - alpha*phi
+	}
+	c[m] = alpha + beta - phi
+	c[m+1] = 1
+	return schurStable(c, 1e-10)
+}
+
+// schurStable reports whether every root of the polynomial with ascending
+// coefficients c lies in the closed disc of radius 1+tol, by the
+// Schur–Cohn step-down recursion (Schur 1917; Cohn 1922): with a_d the
+// leading and a_0 the constant coefficient, all roots lie inside the unit
+// circle iff |a_0| < |a_d| and all roots of (a_d·A(z) − a_0·A*(z))/z do.
+// The tolerance is applied by testing A((1+tol)z). c is overwritten.
+func schurStable(c []float64, tol float64) bool {
+	r := 1 + tol
+	pw := 1.0
+	for k := range c {
+		c[k] *= pw
+		pw *= r
+	}
+	for d := len(c) - 1; d > 0; d-- {
+		a0, ad := c[0], c[d]
+		if !(math.Abs(a0) < math.Abs(ad)) {
+			return false
+		}
+		for i := 0; i < d; i++ {
+			c[i] = ad*c[i+1] - a0*c[d-1-i]
+		}
+		// c now has degree d−1 (entries 0..d−1); rescale to avoid
+		// overflow.
+		mx := 0.0
+		for i := 0; i < d; i++ {
+			mx = math.Max(mx, math.Abs(c[i]))
+		}
+		if mx == 0 || math.IsNaN(mx) {
+			return false
+		}
+		for i := 0; i < d; i++ {
+			c[i] /= mx
+		}
+	}
+	return true
+}
+
+// startValues returns heuristic initial states for the scaled series y:
+// seasonal states from a classical decomposition of the first few full
+// seasons (internal/seasonal, R decompose conventions), then level and
+// trend from a least-squares line through the first ten seasonally
+// adjusted values (in the spirit of Hyndman, Koehler, Snyder & Grose
+// 2002, section 2.6).
+func startValues(f form, y []float64) (l0, b0 float64, s []float64) {
+	n := len(y)
+	adj := make([]float64, min(n, max(10, 2*f.m)))
+	copy(adj, y)
+	if f.season != NoSeason {
+		s = make([]float64, f.m)
+		mult := f.season == MultiplicativeSeason
+		k := min(n/f.m, 4) * f.m
+		res, err := seasonal.Classical(y[:k], f.m, mult)
+		ok := err == nil
+		if ok {
+			for _, v := range res.Figure {
+				if math.IsNaN(v) || (mult && !(v > 0)) {
+					ok = false
+				}
+			}
+		}
+		for j := range s {
+			switch {
+			case ok:
+				s[j] = res.Figure[j]
+			case mult:
+				s[j] = 1
+			default:
+				s[j] = 0
+			}
+		}
+		for t := range adj {
+			if mult {
+				adj[t] /= s[t%f.m]
+			} else {
+				adj[t] -= s[t%f.m]
+			}
+		}
+	}
+	k := min(len(adj), 10)
+	// Least squares of adj[t] on (1, t+1), t = 0..k-1; value at t = 0 is
+	// the level before the first observation.
+	var sx, sy, sxx, sxy float64
+	for t := 0; t < k; t++ {
+		x := float64(t + 1)
+		sx += x
+		sy += adj[t]
+		sxx += x * x
+		sxy += x * adj[t]
+	}
+	fk := float64(k)
+	slope := 0.0
+	if den := fk*sxx - sx*sx; k > 1 && den != 0 {
+		slope = (fk*sxy - sx*sy) / den
+	}
+	icept := (sy - slope*sx) / fk
+	switch {
+	case f.trend == NoTrend:
+		l0 = sy / fk
+	case f.trend.multiplicative():
+		l0 = icept
+		if l0 <= 0 {
+			l0 = adj[0]
+		}
+		b0 = 1 + slope/l0
+		b0 = math.Min(math.Max(b0, 0.8), 1.2)
+	default:
+		l0, b0 = icept, slope
+	}
+	return l0, b0, s
+}
+
+// optimise minimises p.objective from x0 with Nelder–Mead, restarted
+// from the best point with a fresh, smaller simplex until a restart no
+// longer improves the objective (restarts guard against the simplex
+// collapsing early, common practice). It returns the best point and value
+// and whether the last search converged.
+func (p *problem) optimise(ctx context.Context, x0 []float64) ([]float64, float64, bool, error) {
+	d := len(x0)
+	x := append([]float64(nil), x0...)
+	fx := p.objective(x)
+	if d == 0 {
+		return x, fx, true, nil
+	}
+	steps := p.steps(x)
+	sx := newSimplex(d)
+	converged := false
+	for restart := 0; restart < 6; restart++ {
+		f, conv, err := sx.nelderMead(ctx, p.objective, x, fx, steps, 1e-10, 2000*d)
+		if err != nil {
+			return nil, 0, false, err
+		}
+		converged = conv
+		improved := fx - f
+		fx = f
+		if !(improved > 1e-7) {
+			break
+		}
+		for i := range steps {
+			steps[i] *= 0.5
+		}
+	}
+	return x, fx, converged, nil
+}
+
+// steps returns the initial simplex edge per coordinate.
+func (p *problem) steps(x []float64) []float64 {
+	st := make([]float64, len(x))
+	_, i := p.params(x)
+	for k := 0; k < i; k++ {
+		st[k] = 1
+	}
+	if p.estL {
+		st[i] = 0.05*math.Abs(x[i]) + 0.01
+		i++
+	}
+	if p.estT {
+		st[i] = 0.1*math.Abs(x[i]) + 0.01
+		if p.f.trend.multiplicative() {
+			st[i] = 0.01
+		}
+		i++
+	}
+	for ; i < len(x); i++ {
+		st[i] = 0.05
+	}
+	return st
+}

@@ -1,0 +1,472 @@
+package smoothing
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/almanac-go/almanac"
+)
+
+var (
+	_ almanac.Model        = Spec{}
+	_ almanac.Fitted       = (*Fitted)(nil)
+	_ almanac.Simulator    = (*Fitted)(nil)
+	_ almanac.ParamCounter = (*Fitted)(nil)
+)
+
+// Fitted is an ETS model estimated on one series. It is read-only after
+// Fit returns and safe for concurrent use; Update returns a new value.
+type Fitted struct {
+	// Params are the smoothing parameters (estimated or fixed). Phi is 1
+	// for undamped trends.
+	Params Params
+	// InitLevel, InitTrend and InitSeason are the states before the
+	// first observation; InitSeason is chronological (InitSeason[k] is
+	// used for observation k) and nil without a season.
+	InitLevel, InitTrend float64
+	InitSeason           []float64
+	// LogLik is the maximised log-likelihood on statsmodels' definition
+	// (see the package documentation, "Likelihood"); AIC, AICc and BIC
+	// count DF parameters.
+	LogLik, AIC, AICc, BIC float64
+	// DF is the number of parameters counted by the information
+	// criteria: the estimated smoothing parameters, the estimated initial
+	// level and trend, all m initial seasonal states when they are
+	// estimated (one of them is determined by the normalisation, but it
+	// is counted, as statsmodels does), and σ².
+	DF int
+	// Sigma2 is the variance of the innovations, Σe²/n (the maximum
+	// likelihood estimate; e relative for multiplicative error).
+	Sigma2 float64
+	// Converged reports whether the optimiser met its tolerance (true
+	// when nothing was estimated).
+	Converged bool
+
+	spec   Spec // the specification, Period resolved
+	f      form
+	series almanac.Series // copy of the data
+	free   int            // number of freely estimated parameters
+
+	fitted, resid      []float64
+	level, trend, seas []float64 // level/trend len n+1 ([0] initial); seas len n+m
+	lEnd, bEnd         float64
+	ring               []float64 // final seasonal ring (position t mod m)
+}
+
+// States is the state sequence of a fitted model. Level[t] and Trend[t]
+// are the states after observation t (1-based t; Level[0] is the initial
+// level). Season holds m initial seasonal states (chronological, Season[k]
+// used for observation k) followed by the seasonal state written at each
+// observation: Season[m+t-1] after observation t (1-based). Trend is nil
+// without a trend and Season nil without a season.
+type States struct {
+	Level, Trend, Season []float64
+}
+
+// Fit estimates the model on y by maximum likelihood (see the package
+// documentation). y must be complete (no NaN), positive when any
+// component is multiplicative, and long enough for the estimated
+// parameters.
+//
+// Special cases:
+//   - a NaN in y gives an error wrapping almanac.ErrMissing;
+//   - a value ≤ 0 with a multiplicative component wraps almanac.ErrNonPositive;
+//   - fewer observations than parameters + 2 (or, with estimated
+//     seasonal states, fewer than two full seasons) wraps almanac.ErrTooShort;
+//   - a period above MaxPeriod wraps ErrPeriodTooLong;
+//   - a constant series is not optimised: the states reproduce it
+//     exactly, Sigma2 is 0, LogLik +Inf, and the forecasts are the
+//     constant with zero-width intervals.
+func (s Spec) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	f, err := s.fit(ctx, y)
+	if err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// resolve validates s against y and returns the model form.
+func (s Spec) resolve(y almanac.Series) (form, error) {
+	if err := s.check(); err != nil {
+		return form{}, err
+	}
+	if err := y.Validate(); err != nil {
+		return form{}, fmt.Errorf("smoothing: %v: %w", s, err)
+	}
+	if err := y.CheckComplete(); err != nil {
+		return form{}, fmt.Errorf("smoothing: %v needs complete data; fill the gaps first (e.g. the interpolation in package decompose): %w", s, err)
+	}
+	f := form{err: s.Error, trend: s.Trend, season: s.Season, m: 1}
+	if s.Season != NoSeason {
+		m := s.Period
+		if m == 0 {
+			m = y.Period()
+		}
+		if m < 2 {
+			return form{}, fmt.Errorf("smoothing: %v: %w: seasonal period %d (need at least 2; set Period or use a seasonal frequency)", s, errInvalid, m)
+		}
+		if m > MaxPeriod {
+			return form{}, fmt.Errorf("smoothing: %v: %w: period %d > %d; use decomposition-based forecasting (package decompose) for long seasonal periods", s, ErrPeriodTooLong, m, MaxPeriod)
+		}
+		f.m = m
+		if s.InitSeason != nil && len(s.InitSeason) != m {
+			return form{}, fmt.Errorf("smoothing: %v: %w: %d initial seasonal states for period %d", s, almanac.ErrLength, len(s.InitSeason), m)
+		}
+	}
+	if s.multiplicativeParts() {
+		if err := y.CheckPositive(); err != nil {
+			return form{}, fmt.Errorf("smoothing: %v has multiplicative components and needs positive data: %w", s, err)
+		}
+		if s.InitLevel != nil && !(*s.InitLevel > 0) {
+			return form{}, fmt.Errorf("smoothing: %v: %w: fixed initial level %v must be positive", s, almanac.ErrNonPositive, *s.InitLevel)
+		}
+		if s.Trend.multiplicative() && s.InitTrend != nil && !(*s.InitTrend > 0) {
+			return form{}, fmt.Errorf("smoothing: %v: %w: fixed initial growth rate %v must be positive", s, almanac.ErrNonPositive, *s.InitTrend)
+		}
+		if s.Season == MultiplicativeSeason {
+			for i, v := range s.InitSeason {
+				if !(v > 0) {
+					return form{}, fmt.Errorf("smoothing: %v: %w: fixed initial seasonal state %d is %v", s, almanac.ErrNonPositive, i, v)
+				}
+			}
+		}
+	}
+	return f, nil
+}
+
+// newProblem sets up the likelihood for f on y scaled by 1/scale.
+func (s Spec) newProblem(f form, ys []float64, scale float64) *problem {
+	p := &problem{f: f, y: ys, bounds: s.Bounds, ws: make([]float64, f.m)}
+	p.estA = s.Alpha == nil
+	p.estB = f.trend != NoTrend && s.Beta == nil
+	p.estG = f.season != NoSeason && s.Gamma == nil
+	p.estP = f.trend.damped() && s.Phi == nil
+	p.estL = s.InitLevel == nil
+	p.estT = f.trend != NoTrend && s.InitTrend == nil
+	p.estS = f.season != NoSeason && s.InitSeason == nil
+	p.fix.Phi = 1
+	if s.Alpha != nil {
+		p.fix.Alpha = *s.Alpha
+	}
+	if s.Beta != nil && f.trend != NoTrend {
+		p.fix.Beta = *s.Beta
+	}
+	if s.Gamma != nil && f.season != NoSeason {
+		p.fix.Gamma = *s.Gamma
+	}
+	if s.Phi != nil && f.trend.damped() {
+		p.fix.Phi = *s.Phi
+	}
+	if s.InitLevel != nil {
+		p.fixL = *s.InitLevel / scale
+	}
+	if f.trend.multiplicative() {
+		p.fixT = 1
+	}
+	if s.InitTrend != nil && f.trend != NoTrend {
+		p.fixT = *s.InitTrend
+		if !f.trend.multiplicative() {
+			p.fixT /= scale
+		}
+	}
+	if s.InitSeason != nil && f.season != NoSeason {
+		p.fixS = slices.Clone(s.InitSeason)
+		if f.season == AdditiveSeason {
+			for i := range p.fixS {
+				p.fixS[i] /= scale
+			}
+		}
+	}
+	return p
+}
+
+// start returns the optimiser's starting vector.
+func (p *problem) start() []float64 {
+	l0, b0, s0 := startValues(p.f, p.y)
+	x := make([]float64, 0, p.dim())
+	usual := p.bounds != AdmissibleBounds
+	ratio := func(v, hi float64) float64 { return logit((v - boxLo) / (hi - boxLo)) }
+	alpha := 0.3
+	if !p.estA {
+		alpha = p.fix.Alpha
+	}
+	if p.estA {
+		if usual {
+			x = append(x, ratio(alpha, boxHi))
+		} else {
+			x = append(x, ratio(alpha, admAlpha))
+		}
+	}
+	if p.estB {
+		if usual {
+			x = append(x, ratio(0.1, boxHi))
+		} else {
+			x = append(x, ratio(0.1*alpha, admBeta))
+		}
+	}
+	if p.estG {
+		if usual {
+			x = append(x, ratio(0.1, boxHi))
+		} else {
+			x = append(x, ratio(0.1*math.Abs(1-alpha), admGamma))
+		}
+	}
+	if p.estP {
+		x = append(x, logit((0.95-phiLo)/(phiHi-phiLo)))
+	}
+	if p.estL {
+		x = append(x, l0)
+	}
+	if p.estT {
+		x = append(x, b0)
+	}
+	if p.estS {
+		x = append(x, s0[:p.f.m-1]...)
+	}
+	return x
+}
+
+func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	f, err := s.resolve(y)
+	if err != nil {
+		return nil, err
+	}
+	n := y.Len()
+	scale := 0.0
+	for _, v := range y.Values {
+		scale += math.Abs(v)
+	}
+	scale /= float64(n)
+	if scale == 0 {
+		scale = 1
+	}
+	ys := make([]float64, n)
+	for i, v := range y.Values {
+		ys[i] = v / scale
+	}
+	p := s.newProblem(f, ys, scale)
+	free := p.dim()
+	if p.estS && n < 2*f.m {
+		return nil, fmt.Errorf("smoothing: %v: %w: estimating %d seasonal states needs at least two full seasons (%d observations), have %d", s, almanac.ErrTooShort, f.m, 2*f.m, n)
+	}
+	if n < free+2 {
+		return nil, fmt.Errorf("smoothing: %v: %w: %d parameters to estimate need at least %d observations, have %d", s, almanac.ErrTooShort, free, free+2, n)
+	}
+	x := p.start()
+	converged := true
+	if y.IsConstant() {
+		// Nothing to estimate: the start values reproduce the series.
+	} else if len(x) > 0 {
+		if p.estA {
+			x = p.bestAlphaStart(x)
+		}
+		var fx float64
+		x, fx, converged, err = p.optimise(ctx, x)
+		if err != nil {
+			return nil, fmt.Errorf("smoothing: %v: %w", s, err)
+		}
+		if fx >= penalty {
+			return nil, fmt.Errorf("smoothing: %v: %w: no parameter values in the %v region give a finite likelihood", s, almanac.ErrNotFitted, s.Bounds)
+		}
+	}
+	par, l0, b0, ok := p.decode(x)
+	if !ok {
+		return nil, fmt.Errorf("smoothing: %v: %w: initial states left the model's domain", s, almanac.ErrNotFitted)
+	}
+	// Back to the data's scale.
+	l0 *= scale
+	if !f.trend.multiplicative() {
+		b0 *= scale
+	}
+	var s0 []float64
+	if f.season != NoSeason {
+		s0 = slices.Clone(p.ws)
+		if f.season == AdditiveSeason {
+			for i := range s0 {
+				s0[i] *= scale
+			}
+		}
+	}
+	if f.trend == NoTrend {
+		b0 = 0
+	}
+	if !s.Trend.damped() {
+		par.Phi = 1
+	}
+	out, err := newFitted(s, f, y, par, l0, b0, s0)
+	if err != nil {
+		return nil, err
+	}
+	out.Converged = converged
+	out.free = free
+	out.DF = free + 1
+	if p.estS {
+		out.DF++
+	}
+	fn, k := float64(n), float64(out.DF)
+	out.AIC = -2*out.LogLik + 2*k
+	out.AICc = out.AIC + 2*k*(k+1)/(fn-k-1)
+	if fn-k-1 <= 0 {
+		out.AICc = math.Inf(1)
+	}
+	out.BIC = -2*out.LogLik + math.Log(fn)*k
+	return out, nil
+}
+
+// bestAlphaStart tries a few starting values of α (the first coordinate)
+// and keeps the best, a cheap guard against a poor local optimum.
+func (p *problem) bestAlphaStart(x []float64) []float64 {
+	best := slices.Clone(x)
+	fb := p.objective(best)
+	hi := boxHi
+	if p.bounds == AdmissibleBounds {
+		hi = admAlpha
+	}
+	try := slices.Clone(x)
+	for _, a := range []float64{0.1, 0.5, 0.8} {
+		try[0] = logit((a - boxLo) / (hi - boxLo))
+		if v := p.objective(try); v < fb {
+			fb = v
+			copy(best, try)
+		}
+	}
+	return best
+}
+
+// newFitted runs the filter over y with the given parameters and initial
+// states and fills a Fitted (information criteria left to the caller).
+func newFitted(s Spec, f form, y almanac.Series, par Params, l0, b0 float64, s0 []float64) (*Fitted, error) {
+	n := y.Len()
+	s.Period = f.m
+	out := &Fitted{
+		Params: par, InitLevel: l0, InitTrend: b0, InitSeason: slices.Clone(s0),
+		spec: s, f: f, series: y.Clone(), Converged: true,
+		fitted: make([]float64, n), resid: make([]float64, n),
+		level: make([]float64, n+1),
+	}
+	out.level[0] = l0
+	tr := &trace{fitted: out.fitted, resid: out.resid, level: out.level[1:]}
+	if f.trend != NoTrend {
+		out.trend = make([]float64, n+1)
+		out.trend[0] = b0
+		tr.trend = out.trend[1:]
+	}
+	ring := make([]float64, f.m)
+	if f.season != NoSeason {
+		out.seas = make([]float64, n+f.m)
+		copy(out.seas, s0)
+		tr.season = out.seas[f.m:]
+		copy(ring, s0)
+	}
+	sse, sumlog, lEnd, bEnd, ok := f.filter(out.series.Values, par, l0, b0, ring, 0, tr)
+	if !ok {
+		return nil, fmt.Errorf("smoothing: %v: %w: the recursion leaves the model's domain (non-positive forecast or non-finite state)", s, almanac.ErrNotFitted)
+	}
+	out.lEnd, out.bEnd, out.ring = lEnd, bEnd, ring
+	out.Sigma2 = sse / float64(n)
+	if sse == 0 {
+		out.LogLik = math.Inf(1)
+	} else {
+		out.LogLik = logLik(n, sse, sumlog)
+	}
+	return out, nil
+}
+
+// String returns the model in taxonomy notation, e.g. "ETS(M,Ad,M)".
+func (m *Fitted) String() string { return m.f.String() }
+
+// Spec returns the specification that was fitted, with Period resolved.
+func (m *Fitted) Spec() Spec { return m.spec }
+
+// Period returns the seasonal period (1 without a season).
+func (m *Fitted) Period() int { return m.f.m }
+
+// FittedValues returns the one-step forecasts ŷ_t.
+func (m *Fitted) FittedValues() []float64 { return slices.Clone(m.fitted) }
+
+// Residuals returns the innovations e_t on the model's scale: y − ŷ for
+// additive error and (y − ŷ)/ŷ for multiplicative error (the convention
+// of the reference fixtures). ResponseResiduals gives y − ŷ for both.
+func (m *Fitted) Residuals() []float64 { return slices.Clone(m.resid) }
+
+// ResponseResiduals returns y_t − ŷ_t.
+func (m *Fitted) ResponseResiduals() []float64 {
+	r := make([]float64, len(m.fitted))
+	for i, v := range m.series.Values {
+		r[i] = v - m.fitted[i]
+	}
+	return r
+}
+
+// States returns a copy of the state sequence.
+func (m *Fitted) States() States {
+	return States{Level: slices.Clone(m.level), Trend: slices.Clone(m.trend), Season: slices.Clone(m.seas)}
+}
+
+// NumParams returns the number of freely estimated parameters (smoothing
+// parameters and initial states, with m−1 free seasonal states), not
+// counting σ².
+func (m *Fitted) NumParams() int { return m.free }
+
+// Update returns the model with newY appended to the series, running the
+// filter forward from the final states with the parameters unchanged (no
+// re-estimation). The states equal those of a filter run over the whole
+// series from the same initial states. Sigma2, LogLik and the criteria
+// are recomputed over the whole series with the same DF.
+//
+// newY must be finite (and positive for multiplicative components).
+func (m *Fitted) Update(newY []float64) (*Fitted, error) {
+	all := almanac.Series{Key: m.series.Key, Start: m.series.Start, Freq: m.series.Freq,
+		Values: append(slices.Clone(m.series.Values), newY...)}
+	if _, err := m.spec.resolve(all); err != nil {
+		return nil, err
+	}
+	n0, n := m.series.Len(), all.Len()
+	out := &Fitted{
+		Params: m.Params, InitLevel: m.InitLevel, InitTrend: m.InitTrend, InitSeason: slices.Clone(m.InitSeason),
+		DF: m.DF, Converged: m.Converged, spec: m.spec, f: m.f, series: all, free: m.free,
+		fitted: append(slices.Clone(m.fitted), make([]float64, len(newY))...),
+		resid:  append(slices.Clone(m.resid), make([]float64, len(newY))...),
+		level:  append(slices.Clone(m.level), make([]float64, len(newY))...),
+		ring:   slices.Clone(m.ring),
+	}
+	tr := &trace{fitted: out.fitted[n0:], resid: out.resid[n0:], level: out.level[n0+1:]}
+	if m.trend != nil {
+		out.trend = append(slices.Clone(m.trend), make([]float64, len(newY))...)
+		tr.trend = out.trend[n0+1:]
+	}
+	if m.seas != nil {
+		out.seas = append(slices.Clone(m.seas), make([]float64, len(newY))...)
+		tr.season = out.seas[n0+m.f.m:]
+	}
+	_, _, lEnd, bEnd, ok := m.f.filter(newY, m.Params, m.lEnd, m.bEnd, out.ring, n0%m.f.m, tr)
+	if !ok {
+		return nil, fmt.Errorf("smoothing: %v: %w: the recursion leaves the model's domain on the new data", m, almanac.ErrNotFitted)
+	}
+	out.lEnd, out.bEnd = lEnd, bEnd
+	sse, sumlog := 0.0, 0.0
+	for i, e := range out.resid {
+		sse += e * e
+		if m.f.err == MultiplicativeError {
+			sumlog += math.Log(out.fitted[i])
+		}
+	}
+	out.Sigma2 = sse / float64(n)
+	out.LogLik = math.Inf(1)
+	if sse > 0 {
+		out.LogLik = logLik(n, sse, sumlog)
+	}
+	fn, k := float64(n), float64(out.DF)
+	out.AIC = -2*out.LogLik + 2*k
+	out.AICc = out.AIC + 2*k*(k+1)/(fn-k-1)
+	if fn-k-1 <= 0 {
+		out.AICc = math.Inf(1)
+	}
+	out.BIC = -2*out.LogLik + math.Log(fn)*k
+	return out, nil
+}

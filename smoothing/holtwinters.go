@@ -1,0 +1,280 @@
+package smoothing
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/internal/seasonal"
+)
+
+var (
+	_ almanac.Model  = HoltWinters{}
+	_ almanac.Fitted = (*HoltWintersFit)(nil)
+)
+
+// HoltWinters is the classical Holt-Winters seasonal method (Holt 1957;
+// Winters 1960) in its error-correction form with fixed smoothing
+// constants, computed exactly as R's stats::HoltWinters with
+// start.periods = 2: start values from a classical decomposition of the
+// first two seasons (trend regressed on time for the level and slope),
+// the recursion from observation m+1, and R's prediction-interval formula
+// (predict.HoltWinters). Unlike Spec it is not a statistical model: the
+// constants are used as given (not estimated) and the intervals follow
+// R's ψ-weight formula with the sample variance of the one-step errors.
+//
+// A HoltWinters value is immutable and safe to share between goroutines.
+type HoltWinters struct {
+	// Alpha, Beta and Gamma are the level, slope and seasonal smoothing
+	// constants of the classical form, each in [0, 1].
+	Alpha, Beta, Gamma float64
+	// Multiplicative selects multiplicative seasonality; the zero value
+	// is additive.
+	Multiplicative bool
+	// Period is the seasonal period; 0 takes it from the series.
+	Period int
+}
+
+// HoltWintersFit is a fitted Holt-Winters recursion. Read-only after Fit.
+type HoltWintersFit struct {
+	spec HoltWinters
+	m    int
+	y    almanac.Series
+	// StartLevel, StartSlope and StartSeason are the start values
+	// (states at observation m; StartSeason[j] is used for observation
+	// j+1, 1-based).
+	StartLevel, StartSlope float64
+	StartSeason            []float64
+	// Level, Slope and Season hold, for observations m+1..n, the states
+	// used for their one-step forecast (level and slope after the
+	// previous observation, the seasonal state m steps back).
+	Level, Slope, Season []float64
+	// SSE is the sum of squared one-step errors over observations m+1..n.
+	SSE float64
+	// A, B and S are the final level, slope and the last m seasonal
+	// states (S[0] belongs to the first forecast step's position).
+	A, B float64
+	S    []float64
+	// ResidualVariance is the sample variance (denominator n−m−1) of the
+	// one-step errors, used by the intervals.
+	ResidualVariance float64
+
+	xhat []float64
+}
+
+// String returns "Holt-Winters(additive)" or "Holt-Winters(multiplicative)".
+func (h HoltWinters) String() string {
+	if h.Multiplicative {
+		return "Holt-Winters(multiplicative)"
+	}
+	return "Holt-Winters(additive)"
+}
+
+// Fit runs the recursion on y. y must be complete, hold at least two full
+// seasons plus one observation, and be positive for multiplicative
+// seasonality.
+func (h HoltWinters) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	f, err := h.fit(ctx, y)
+	if err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+func (h HoltWinters) fit(ctx context.Context, y almanac.Series) (*HoltWintersFit, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	for _, c := range []float64{h.Alpha, h.Beta, h.Gamma} {
+		if !(c >= 0 && c <= 1) {
+			return nil, fmt.Errorf("smoothing: %v: %w: smoothing constants must lie in [0, 1], have α=%v β=%v γ=%v", h, errInvalid, h.Alpha, h.Beta, h.Gamma)
+		}
+	}
+	if err := y.Validate(); err != nil {
+		return nil, fmt.Errorf("smoothing: %v: %w", h, err)
+	}
+	if err := y.CheckComplete(); err != nil {
+		return nil, fmt.Errorf("smoothing: %v needs complete data; fill the gaps first (e.g. the interpolation in package decompose): %w", h, err)
+	}
+	if h.Multiplicative {
+		if err := y.CheckPositive(); err != nil {
+			return nil, fmt.Errorf("smoothing: %v needs positive data: %w", h, err)
+		}
+	}
+	m := h.Period
+	if m == 0 {
+		m = y.Period()
+	}
+	if m < 2 {
+		return nil, fmt.Errorf("smoothing: %v: %w: seasonal period %d, need at least 2", h, errInvalid, m)
+	}
+	x := y.Values
+	n := len(x)
+	if n < 2*m+1 {
+		return nil, fmt.Errorf("smoothing: %v: %w: start values need two full seasons and one more observation (%d), have %d", h, almanac.ErrTooShort, 2*m+1, n)
+	}
+	dec, err := seasonal.Classical(x[:2*m], m, h.Multiplicative)
+	if err != nil {
+		return nil, fmt.Errorf("smoothing: %v: %w: %v", h, almanac.ErrTooShort, err)
+	}
+	// Least squares of the defined trend values on 1..k.
+	var tv []float64
+	for _, v := range dec.Trend {
+		if !math.IsNaN(v) {
+			tv = append(tv, v)
+		}
+	}
+	k := float64(len(tv))
+	xbar := (k + 1) / 2
+	ybar := 0.0
+	for _, v := range tv {
+		ybar += v
+	}
+	ybar /= k
+	sxy, sxx := 0.0, 0.0
+	for i, v := range tv {
+		dx := float64(i+1) - xbar
+		sxy += dx * (v - ybar)
+		sxx += dx * dx
+	}
+	slope := sxy / sxx
+	out := &HoltWintersFit{spec: h, m: m, y: y.Clone(), StartLevel: ybar - slope*xbar, StartSlope: slope, StartSeason: slices.Clone(dec.Figure)}
+	cnt := n - m
+	out.Level = make([]float64, cnt)
+	out.Slope = make([]float64, cnt)
+	out.Season = make([]float64, cnt)
+	out.xhat = make([]float64, cnt)
+	seas := make([]float64, n) // seas[i] = seasonal state of observation i (0-based)
+	copy(seas, dec.Figure)
+	level, trend := out.StartLevel, out.StartSlope
+	a, b, g := h.Alpha, h.Beta, h.Gamma
+	for i := m; i < n; i++ {
+		s := seas[i-m]
+		k := i - m
+		out.Level[k], out.Slope[k], out.Season[k] = level, trend, s
+		var xh, lv float64
+		if h.Multiplicative {
+			xh = (level + trend) * s
+			lv = a*(x[i]/s) + (1-a)*(level+trend)
+		} else {
+			xh = level + trend + s
+			lv = a*(x[i]-s) + (1-a)*(level+trend)
+		}
+		out.xhat[k] = xh
+		out.SSE += (x[i] - xh) * (x[i] - xh)
+		tr := b*(lv-level) + (1-b)*trend
+		if h.Multiplicative {
+			seas[i] = g*(x[i]/lv) + (1-g)*s
+		} else {
+			seas[i] = g*(x[i]-lv) + (1-g)*s
+		}
+		level, trend = lv, tr
+	}
+	out.A, out.B = level, trend
+	out.S = slices.Clone(seas[n-m:])
+	mean := 0.0
+	for k, xh := range out.xhat {
+		mean += x[m+k] - xh
+	}
+	mean /= float64(cnt)
+	ss := 0.0
+	for k, xh := range out.xhat {
+		d := x[m+k] - xh - mean
+		ss += d * d
+	}
+	out.ResidualVariance = ss / float64(cnt-1)
+	return out, nil
+}
+
+// String returns the method's name with its seasonal form.
+func (f *HoltWintersFit) String() string { return f.spec.String() }
+
+// FittedValues returns the one-step forecasts, NaN for the first m
+// observations (used for the start values).
+func (f *HoltWintersFit) FittedValues() []float64 {
+	out := make([]float64, f.y.Len())
+	for i := range f.m {
+		out[i] = math.NaN()
+	}
+	copy(out[f.m:], f.xhat)
+	return out
+}
+
+// Residuals returns y − ŷ, NaN for the first m observations.
+func (f *HoltWintersFit) Residuals() []float64 {
+	out := f.FittedValues()
+	for i := range out {
+		out[i] = f.y.Values[i] - out[i]
+	}
+	return out
+}
+
+// Variance returns the forecast-error variances of R's predict.HoltWinters:
+// σ̂²(1 + Σ_{j=1}^{h−1} ψ_j²) (additive) with ψ_j = α(1 + jβ) + [j mod m
+// = 0]γ(1 − α), and for multiplicative seasonality
+// σ̂² Σ_{j=0}^{h−1} (ψ_j c[2+r]/c[2+((r−j) mod m)])², r = 1 + (h−1) mod m,
+// c = (a, b, s_1, …, s_m) 1-based — including R's pick of c[2] = b when
+// (r−j) mod m = 0, reproduced as R computes it.
+func (f *HoltWintersFit) Variance(H int) []float64 {
+	h := f.spec
+	m := f.m
+	psi := func(j int) float64 {
+		v := h.Alpha * (1 + float64(j)*h.Beta)
+		if j%m == 0 {
+			v += h.Gamma * (1 - h.Alpha)
+		}
+		return v
+	}
+	c := append([]float64{f.A, f.B}, f.S...) // c[i-1] is R's c[i]
+	out := make([]float64, H)
+	for hh := 1; hh <= H; hh++ {
+		sum := 0.0
+		if !h.Multiplicative {
+			sum = 1
+			for j := 1; j < hh; j++ {
+				sum += psi(j) * psi(j)
+			}
+		} else {
+			rel := 1 + (hh-1)%m
+			for j := 0; j < hh; j++ {
+				r := ((rel-j)%m + m) % m
+				v := psi(j) * c[2+rel-1] / c[2+r-1]
+				sum += v * v
+			}
+		}
+		out[hh-1] = f.ResidualVariance * sum
+	}
+	return out
+}
+
+// Forecast returns (a + h·b) (+) s forecasts with Gaussian intervals of
+// variance Variance(h) (R's predict.HoltWinters).
+func (f *HoltWintersFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	if err := almanac.CheckHorizon(h); err != nil {
+		return almanac.Forecast{}, fmt.Errorf("smoothing: %w", err)
+	}
+	if err := almanac.CheckLevels(levels...); err != nil {
+		return almanac.Forecast{}, fmt.Errorf("smoothing: %w", err)
+	}
+	mean := make([]float64, h)
+	for i := range mean {
+		s := f.S[i%f.m]
+		if f.spec.Multiplicative {
+			mean[i] = (f.A + float64(i+1)*f.B) * s
+		} else {
+			mean[i] = f.A + float64(i+1)*f.B + s
+		}
+	}
+	v := f.Variance(h)
+	sd := make([]float64, h)
+	for i := range v {
+		sd[i] = math.Sqrt(v[i])
+	}
+	fc, err := almanac.NewForecast(f.y.Time(f.y.Len()), f.y.Freq, mean, &almanac.Normal{Mean: mean, SD: sd}, levels...)
+	if err != nil {
+		return almanac.Forecast{}, fmt.Errorf("smoothing: %w", err)
+	}
+	return fc, nil
+}
