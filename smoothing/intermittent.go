@@ -1,0 +1,481 @@
+package smoothing
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"strconv"
+	"time"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
+)
+
+// Default smoothing constants and the search range used when they are
+// estimated. 0.1 is the customary fixed value for intermittent demand
+// (common practice; Croston 1972 and Syntetos & Boylan 2005 study values
+// between 0.05 and 0.3).
+const (
+	intermittentDefault = 0.1
+	intermittentLower   = 0.01
+	intermittentUpper   = 1
+	intermittentGridN   = 20
+)
+
+// CrostonVariant selects the forecast formula of Croston's method. The
+// zero value is CrostonClassic. Programs should not rely on the numeric
+// values of the constants.
+type CrostonVariant int
+
+const (
+	// CrostonClassic forecasts z/p (Croston 1972).
+	CrostonClassic CrostonVariant = iota
+	// CrostonSBA forecasts (1 − α/2)·z/p, the Syntetos–Boylan
+	// approximation that removes most of the bias of z/p (Syntetos &
+	// Boylan 2005).
+	CrostonSBA
+)
+
+// String returns "classic" or "SBA", or "CrostonVariant(n)" for a value
+// outside the defined set.
+func (v CrostonVariant) String() string {
+	switch v {
+	case CrostonClassic:
+		return "classic"
+	case CrostonSBA:
+		return "SBA"
+	}
+	return "CrostonVariant(" + strconv.Itoa(int(v)) + ")"
+}
+
+// Croston is Croston's (1972) method for intermittent demand, optionally
+// with the Syntetos–Boylan (2005) bias correction. It implements
+// almanac.Model:
+//
+//	smoothing.Croston{}                                      // α = 0.1, forecast z/p
+//	smoothing.Croston{Variant: smoothing.CrostonSBA}         // (1 − α/2)·z/p
+//	smoothing.Croston{Alpha: 0.2}                            // fixed α = 0.2
+//	smoothing.Croston{Variant: smoothing.CrostonSBA, EstimateAlpha: true}
+//
+// Simple exponential smoothing with the same constant α is applied
+// separately to the non-zero demand sizes (z) and to the intervals
+// between demands (p), both updated only in periods with demand:
+//
+//	z ← z + α(y_t − z),  p ← p + α(q_t − p)   when y_t > 0,
+//
+// where q_t is the number of periods since the previous demand. The
+// forecast for every horizon is z/p (or (1 − α/2)·z/p for CrostonSBA).
+// Initialisation, fitted values, the all-zero series and the absence of
+// intervals are described at [IntermittentFit].
+//
+// With EstimateAlpha, α is chosen in [0.01, 1] to minimise the mean
+// squared one-step error of the method's own forecasts (variant
+// included) over the periods after the first demand, by a grid search
+// refined with Brent's method. Estimation needs at least two periods
+// after the first demand. Croston values are specifications and safe for
+// concurrent use.
+type Croston struct {
+	// Variant selects the forecast formula. Default CrostonClassic.
+	Variant CrostonVariant
+	// Alpha is the smoothing constant for sizes and intervals, in
+	// (0, 1]. 0 means 0.1, or estimated when EstimateAlpha is set (then
+	// Alpha must be 0).
+	Alpha float64
+	// EstimateAlpha estimates Alpha by minimum in-sample MSE.
+	EstimateAlpha bool
+}
+
+// TSB is the method of Teunter, Syntetos & Babai (2011) for intermittent
+// demand. It implements almanac.Model:
+//
+//	smoothing.TSB{}                            // α = β = 0.1
+//	smoothing.TSB{Alpha: 0.2, Beta: 0.05}
+//	smoothing.TSB{Estimate: true}
+//
+// Unlike Croston's method it smooths the probability of demand every
+// period, so the forecast decays while no demand occurs (useful for items
+// going obsolete):
+//
+//	π ← π + β(1{y_t > 0} − π)  every period,
+//	z ← z + α(y_t − z)           when y_t > 0,
+//
+// and the forecast for every horizon is π·z. Initialisation, fitted
+// values, the all-zero series and the absence of intervals are described
+// at [IntermittentFit].
+//
+// With Estimate, α and β are chosen in [0.01, 1]² to minimise the mean
+// squared one-step error over the periods after the first demand: for
+// each β the best α is found by a one-dimensional search (grid refined by
+// Brent's method), and β by the same search over that profile. TSB
+// values are specifications and safe for concurrent use.
+type TSB struct {
+	// Alpha smooths the demand sizes, in (0, 1]. 0 means 0.1 (or
+	// estimated with Estimate; then Alpha must be 0).
+	Alpha float64
+	// Beta smooths the demand probability, in (0, 1]. 0 means 0.1 (or
+	// estimated with Estimate; then Beta must be 0).
+	Beta float64
+	// Estimate estimates Alpha and Beta by minimum in-sample MSE.
+	Estimate bool
+}
+
+var (
+	_ almanac.Model = Croston{}
+	_ almanac.Model = TSB{}
+)
+
+// IntermittentFit is a Croston, SBA or TSB model fitted to one series:
+// an intermittent-demand series of non-negative quantities with many zero
+// periods (spare parts, slow-moving items), forecast as a demand rate per
+// period, the same for every horizon. It implements almanac.Fitted and
+// almanac.ParamCounter. It is read-only after Fit returns and safe for
+// concurrent use; do not modify its fields.
+//
+// Conventions shared by Croston, SBA and TSB:
+//
+//   - Initialisation: the states start at the first period with demand,
+//     k (0-based): the smoothed size is that first demand y_k, and the
+//     smoothed interval is k + 1, the number of periods up to and
+//     including the first demand, as if a demand had occurred just
+//     before the series began (TSB: the demand probability starts at
+//     1/(k + 1)). Starting from the first demand and its interval is
+//     common practice (recalled from memory; implementations differ,
+//     some average over the first few demands instead). The recursions
+//     then run over periods k+1, ..., n−1.
+//   - Fitted values are the one-step forecasts made from the states after
+//     the previous period; there is none (NaN) up to and including
+//     period k, since the states are built from it.
+//   - No distribution: these methods estimate a mean demand rate and
+//     have no agreed forecast distribution, so Forecast returns point
+//     forecasts only (Dist nil); asking for interval levels gives an
+//     error wrapping almanac.ErrNoDistribution.
+//   - A series with no demand at all (every value 0) is forecast as 0,
+//     with fitted values and residuals 0.
+//   - Negative values give an error wrapping almanac.ErrNonPositive, NaN
+//     one wrapping almanac.ErrMissing.
+type IntermittentFit struct {
+	// Method is "Croston", "SBA" or "TSB" (also returned by String).
+	Method string
+	// Alpha is the smoothing constant of the sizes (Croston and SBA: of
+	// the intervals too); Beta the one of the demand probability (TSB
+	// only, 0 otherwise).
+	Alpha, Beta float64
+	// Estimated reports whether the constants were estimated.
+	Estimated bool
+	// Size is the final smoothed demand size z.
+	Size float64
+	// Interval is the final smoothed interval p between demands
+	// (Croston and SBA; 0 for TSB).
+	Interval float64
+	// Probability is the final smoothed demand probability (TSB; 1/p for
+	// Croston and SBA).
+	Probability float64
+	// Rate is the point forecast for every horizon (demand per period).
+	Rate float64
+	// FirstDemand is the 0-based index of the first period with demand,
+	// −1 when the series has none.
+	FirstDemand int
+	// MSE is the mean squared one-step error over the periods after the
+	// first demand (NaN when there are none).
+	MSE float64
+
+	start  time.Time
+	freq   calendar.Frequency
+	fitted []float64
+	resid  []float64
+}
+
+// checkDemand validates an intermittent-demand series and returns the
+// index of its first demand (−1 when there is none).
+func checkDemand(name string, y almanac.Series) (int, error) {
+	if err := y.Validate(); err != nil {
+		return 0, fmt.Errorf("smoothing: %s: %w", name, err)
+	}
+	if err := y.CheckComplete(); err != nil {
+		return 0, fmt.Errorf("smoothing: %s needs complete data (record zero demand as 0): %w", name, err)
+	}
+	first := -1
+	for i, v := range y.Values {
+		if v < 0 {
+			return 0, fmt.Errorf("smoothing: %s: demand must be ≥ 0: %w", name, &almanac.SeriesError{Key: y.Key, Index: i, Err: almanac.ErrNonPositive})
+		}
+		if v > 0 && first < 0 {
+			first = i
+		}
+	}
+	return first, nil
+}
+
+// checkConstant validates a smoothing constant given by the caller: 0
+// (default or estimated) or a value in (0, 1].
+func checkConstant(name, field string, v float64, estimate bool) error {
+	if estimate && v != 0 {
+		return fmt.Errorf("smoothing: %s: %w: %s = %v given together with estimation; leave it 0", name, almanac.ErrInvalid, field, v)
+	}
+	if v != 0 && !(v > 0 && v <= 1) {
+		return fmt.Errorf("smoothing: %s: %w: %s = %v, need a value in (0, 1] (0 means the default 0.1)", name, almanac.ErrInvalid, field, v)
+	}
+	return nil
+}
+
+// crostonRun runs Croston's recursion on y from the first demand k with
+// constant alpha and forecast factor (1, or 1 − α/2 for SBA). When fitted
+// is not nil it receives the one-step forecasts of periods k+1..n−1. It
+// returns the final size and interval and the sum of squared one-step
+// errors. It allocates nothing.
+func crostonRun(fitted, y []float64, k int, alpha, factor float64) (z, p, sse float64) {
+	z, p = y[k], float64(k+1)
+	q := 1.0
+	for t := k + 1; t < len(y); t++ {
+		f := factor * z / p
+		if fitted != nil {
+			fitted[t] = f
+		}
+		v := y[t]
+		e := v - f
+		sse += e * e
+		if v > 0 {
+			z += alpha * (v - z)
+			p += alpha * (q - p)
+			q = 1
+		} else {
+			q++
+		}
+	}
+	return z, p, sse
+}
+
+// tsbRun runs the TSB recursion on y from the first demand k; see
+// crostonRun for fitted and the results (prob is the final probability).
+func tsbRun(fitted, y []float64, k int, alpha, beta float64) (z, prob, sse float64) {
+	z, prob = y[k], 1/float64(k+1)
+	for t := k + 1; t < len(y); t++ {
+		f := prob * z
+		if fitted != nil {
+			fitted[t] = f
+		}
+		v := y[t]
+		e := v - f
+		sse += e * e
+		if v > 0 {
+			prob += beta * (1 - prob)
+			z += alpha * (v - z)
+		} else {
+			prob -= beta * prob
+		}
+	}
+	return z, prob, sse
+}
+
+// newIntermittentFit prepares the result for y with fitted values NaN up
+// to and including the first demand (0 everywhere when there is none).
+func newIntermittentFit(method string, y almanac.Series, first int) *IntermittentFit {
+	n := y.Len()
+	f := &IntermittentFit{
+		Method:      method,
+		FirstDemand: first,
+		MSE:         math.NaN(),
+		start:       y.Time(n),
+		freq:        y.Freq,
+		fitted:      make([]float64, n),
+		resid:       make([]float64, n),
+	}
+	if first < 0 {
+		return f // all zero: forecasts, fitted values and residuals 0
+	}
+	for t := 0; t <= first; t++ {
+		f.fitted[t] = math.NaN()
+	}
+	return f
+}
+
+// finish fills the residuals and the MSE from the fitted values.
+func (f *IntermittentFit) finish(y []float64, sse float64) {
+	for t, v := range y {
+		f.resid[t] = v - f.fitted[t]
+	}
+	if m := len(y) - f.FirstDemand - 1; f.FirstDemand >= 0 && m > 0 {
+		f.MSE = sse / float64(m)
+	}
+}
+
+// Fit estimates Croston's method (or SBA) on y.
+//
+// Special cases:
+//   - Alpha outside (0, 1], Alpha set together with EstimateAlpha, or an
+//     unknown Variant: error wrapping almanac.ErrInvalid;
+//   - an invalid series: the error of almanac.Series.Validate; a missing
+//     value: almanac.ErrMissing; a negative value: almanac.ErrNonPositive;
+//   - EstimateAlpha with fewer than two periods after the first demand:
+//     almanac.ErrTooShort;
+//   - no demand at all: a fit whose forecasts are 0.
+func (c Croston) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	const name = "croston"
+	if err := ctx.Err(); err != nil {
+		return nil, fmt.Errorf("smoothing: %s: %w", name, err)
+	}
+	if c.Variant < CrostonClassic || c.Variant > CrostonSBA {
+		return nil, fmt.Errorf("smoothing: %s: %w: unknown Variant %v", name, almanac.ErrInvalid, c.Variant)
+	}
+	if err := checkConstant(name, "Alpha", c.Alpha, c.EstimateAlpha); err != nil {
+		return nil, err
+	}
+	k, err := checkDemand(name, y)
+	if err != nil {
+		return nil, err
+	}
+	method := "Croston"
+	if c.Variant == CrostonSBA {
+		method = "SBA"
+	}
+	f := newIntermittentFit(method, y, k)
+	factorOf := func(a float64) float64 {
+		if c.Variant == CrostonSBA {
+			return 1 - a/2
+		}
+		return 1
+	}
+	alpha := c.Alpha
+	if alpha == 0 {
+		alpha = intermittentDefault
+	}
+	if k < 0 {
+		f.Alpha = alpha
+		return f, nil
+	}
+	x := y.Values
+	if c.EstimateAlpha {
+		if len(x)-k-1 < 2 {
+			return nil, fmt.Errorf("smoothing: %s: %w: estimating Alpha needs at least 2 periods after the first demand (period %d of %d)", name, almanac.ErrTooShort, k+1, len(x))
+		}
+		obj := func(a float64) float64 {
+			_, _, sse := crostonRun(nil, x, k, a, factorOf(a))
+			return sse
+		}
+		alpha, _ = minimize1D(obj, intermittentLower, intermittentUpper, intermittentGridN)
+		f.Estimated = true
+	}
+	f.Alpha = alpha
+	z, p, sse := crostonRun(f.fitted, x, k, alpha, factorOf(alpha))
+	f.Size, f.Interval, f.Probability = z, p, 1/p
+	f.Rate = factorOf(alpha) * z / p
+	f.finish(x, sse)
+	return f, nil
+}
+
+// Fit estimates the TSB method on y.
+//
+// Special cases:
+//   - Alpha or Beta outside (0, 1], or set together with Estimate: error
+//     wrapping almanac.ErrInvalid;
+//   - an invalid series: the error of almanac.Series.Validate; a missing
+//     value: almanac.ErrMissing; a negative value: almanac.ErrNonPositive;
+//   - Estimate with fewer than two periods after the first demand:
+//     almanac.ErrTooShort;
+//   - no demand at all: a fit whose forecasts are 0.
+func (s TSB) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	const name = "tsb"
+	if err := ctx.Err(); err != nil {
+		return nil, fmt.Errorf("smoothing: %s: %w", name, err)
+	}
+	if err := checkConstant(name, "Alpha", s.Alpha, s.Estimate); err != nil {
+		return nil, err
+	}
+	if err := checkConstant(name, "Beta", s.Beta, s.Estimate); err != nil {
+		return nil, err
+	}
+	k, err := checkDemand(name, y)
+	if err != nil {
+		return nil, err
+	}
+	f := newIntermittentFit("TSB", y, k)
+	alpha, beta := s.Alpha, s.Beta
+	if alpha == 0 {
+		alpha = intermittentDefault
+	}
+	if beta == 0 {
+		beta = intermittentDefault
+	}
+	if k < 0 {
+		f.Alpha, f.Beta = alpha, beta
+		return f, nil
+	}
+	x := y.Values
+	if s.Estimate {
+		if len(x)-k-1 < 2 {
+			return nil, fmt.Errorf("smoothing: %s: %w: estimation needs at least 2 periods after the first demand (period %d of %d)", name, almanac.ErrTooShort, k+1, len(x))
+		}
+		// Profile: for each β the best α, then the best β.
+		inner := func(b float64) (float64, float64) {
+			obj := func(a float64) float64 {
+				_, _, sse := tsbRun(nil, x, k, a, b)
+				return sse
+			}
+			return minimize1D(obj, intermittentLower, intermittentUpper, intermittentGridN)
+		}
+		outer := func(b float64) float64 {
+			_, sse := inner(b)
+			return sse
+		}
+		beta, _ = minimize1D(outer, intermittentLower, intermittentUpper, intermittentGridN)
+		alpha, _ = inner(beta)
+		f.Estimated = true
+	}
+	f.Alpha, f.Beta = alpha, beta
+	z, prob, sse := tsbRun(f.fitted, x, k, alpha, beta)
+	f.Size, f.Probability = z, prob
+	f.Rate = prob * z
+	f.finish(x, sse)
+	return f, nil
+}
+
+// Forecast returns the point forecast Rate for each of h steps after the
+// end of the series. The forecast has no distribution (Dist nil).
+//
+// Special cases: h < 1 gives an error wrapping almanac.ErrHorizon; any
+// level gives an error wrapping almanac.ErrNoDistribution (after a level
+// outside (0, 100) one wrapping almanac.ErrLevel), since these methods
+// have no agreed forecast distribution.
+func (f *IntermittentFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	if err := almanac.CheckHorizon(h); err != nil {
+		return almanac.Forecast{}, fmt.Errorf("smoothing: %s: %w", f.Method, err)
+	}
+	if err := almanac.CheckLevels(levels...); err != nil {
+		return almanac.Forecast{}, fmt.Errorf("smoothing: %s: %w", f.Method, err)
+	}
+	if len(levels) > 0 {
+		return almanac.Forecast{}, fmt.Errorf("smoothing: %s: %w: intermittent-demand methods give point forecasts only", f.Method, almanac.ErrNoDistribution)
+	}
+	mean := make([]float64, h)
+	for i := range mean {
+		mean[i] = f.Rate
+	}
+	fc, err := almanac.NewForecast(f.start, f.freq, mean, nil)
+	if err != nil {
+		return almanac.Forecast{}, fmt.Errorf("smoothing: %s: %w", f.Method, err)
+	}
+	return fc, nil
+}
+
+// FittedValues returns the in-sample one-step forecasts (NaN up to and
+// including the first demand). Returns a fresh copy.
+func (f *IntermittentFit) FittedValues() []float64 { return append([]float64(nil), f.fitted...) }
+
+// Residuals returns y − FittedValues() (NaN where there is no fitted
+// value). Returns a fresh copy.
+func (f *IntermittentFit) Residuals() []float64 { return append([]float64(nil), f.resid...) }
+
+// NumParams returns the number of estimated constants (0 when they were
+// fixed; the initial states follow a rule and are not estimated).
+func (f *IntermittentFit) NumParams() int {
+	switch {
+	case !f.Estimated:
+		return 0
+	case f.Method == "TSB":
+		return 2
+	}
+	return 1
+}
+
+// String returns the method's published name: "Croston", "SBA" or "TSB".
+func (f *IntermittentFit) String() string { return f.Method }
