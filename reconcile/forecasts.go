@@ -1,0 +1,268 @@
+package reconcile
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/almanac-go/almanac"
+	"gonum.org/v1/gonum/mat"
+)
+
+// Forecasts reconciles one base forecast per node (in the structure's
+// node order) and returns one coherent forecast per node, with a central
+// interval at each level (percentages in (0, 100)).
+//
+// Point forecasts are reconciled as by Reconcile. The distributions are
+// reconciled as follows:
+//
+//   - When every base forecast carries sample paths (*almanac.Sample) with
+//     the same number of paths, path i of every node is taken as one
+//     joint draw and reconciled by the same map as the point forecasts;
+//     the reconciled forecasts carry the reconciled paths (Panagiotelis,
+//     Gamakumara, Athanasopoulos & Hyndman 2023). If the base paths were
+//     drawn independently node by node, the reconciled paths treat the
+//     base errors as independent.
+//   - When every base forecast is Gaussian (*almanac.Normal), the base
+//     covariance at step t is Σ_t = D_t R D_t, with D_t the base
+//     standard deviations and R the correlation matrix of the residual
+//     covariance (the sample one for MethodMinTSample, the shrinkage one
+//     otherwise) when spec.Residuals is set, the identity when it is not.
+//     The reconciled forecasts are Gaussian with covariance
+//     S G_t Σ_t G_t' S' (G_t the map at step t).
+//   - Otherwise the reconciled forecasts carry no distribution, and asking
+//     for levels is an error wrapping almanac.ErrNoDistribution.
+//
+// NonNegative works with sample paths (each path is projected) but not
+// with Gaussian forecasts, whose non-negative reconciliation is not
+// Gaussian (error wrapping almanac.ErrInvalid).
+//
+// Errors also wrap ErrDimension with almanac.ErrLength (wrong number of
+// forecasts, different horizons or path counts), almanac.ErrFrequency or
+// almanac.ErrInvalid (different frequencies or start times),
+// almanac.ErrLevel, almanac.ErrHorizon, and everything Reconcile returns.
+func Forecasts(st Structure, fcs []almanac.Forecast, spec Spec, levels ...float64) ([]almanac.Forecast, error) {
+	if st == nil {
+		return nil, fmt.Errorf("reconcile: %w: nil structure", almanac.ErrInvalid)
+	}
+	if err := almanac.CheckLevels(levels...); err != nil {
+		return nil, fmt.Errorf("reconcile: %w", err)
+	}
+	c := st.tree()
+	n := c.n()
+	if len(fcs) != n {
+		return nil, fmt.Errorf("reconcile: %w: %w: %d forecasts for %d nodes", ErrDimension, almanac.ErrLength, len(fcs), n)
+	}
+	h := len(fcs[0].Mean)
+	if err := almanac.CheckHorizon(h); err != nil {
+		return nil, fmt.Errorf("reconcile: %w", err)
+	}
+	base := mat.NewDense(h, n, nil)
+	for i, f := range fcs {
+		if len(f.Mean) != h {
+			return nil, fmt.Errorf("reconcile: %w: %w: forecast of %q has %d steps, the first has %d", ErrDimension, almanac.ErrLength, c.names[i], len(f.Mean), h)
+		}
+		if !f.Freq.Equal(fcs[0].Freq) {
+			return nil, fmt.Errorf("reconcile: %w: forecast of %q is %v, the first is %v", almanac.ErrFrequency, c.names[i], f.Freq, fcs[0].Freq)
+		}
+		if !f.Start.Equal(fcs[0].Start) {
+			return nil, fmt.Errorf("reconcile: %w: forecast of %q starts at %v, the first at %v", almanac.ErrInvalid, c.names[i], f.Start, fcs[0].Start)
+		}
+		base.SetCol(i, f.Mean)
+	}
+	y, err := baseRows(c, base)
+	if err != nil {
+		return nil, err
+	}
+	p, err := newPlan(st, spec, y)
+	if err != nil {
+		return nil, err
+	}
+	means, err := p.apply(y)
+	if err != nil {
+		return nil, err
+	}
+	dists, err := reconcileDists(p, spec, fcs, h)
+	if err != nil {
+		return nil, err
+	}
+	if dists == nil && len(levels) > 0 {
+		return nil, fmt.Errorf("reconcile: %w: intervals need every base forecast to carry sample paths, or every one a Gaussian distribution", almanac.ErrNoDistribution)
+	}
+	out := make([]almanac.Forecast, n)
+	for i := range out {
+		mean := mat.Col(nil, i, means)
+		var d almanac.Distribution
+		if dists != nil {
+			d = dists[i]
+		}
+		out[i], err = almanac.NewForecast(fcs[i].Start, fcs[i].Freq, mean, d, levels...)
+		if err != nil {
+			return nil, fmt.Errorf("reconcile: %w", err)
+		}
+	}
+	return out, nil
+}
+
+// reconcileDists returns one reconciled distribution per node, or nil
+// when the base distributions are not all of one supported kind.
+func reconcileDists(p *plan, spec Spec, fcs []almanac.Forecast, h int) ([]almanac.Distribution, error) {
+	var samples []*almanac.Sample
+	var normals []*almanac.Normal
+	for _, f := range fcs {
+		switch d := f.Dist.(type) {
+		case *almanac.Sample:
+			samples = append(samples, d)
+		case *almanac.Normal:
+			normals = append(normals, d)
+		}
+	}
+	switch {
+	case len(samples) == len(fcs):
+		return reconcileSamples(p, samples, h)
+	case len(normals) == len(fcs):
+		if spec.NonNegative {
+			return nil, fmt.Errorf("reconcile: %w: non-negative reconciliation of Gaussian forecasts is not Gaussian; give sample paths instead", almanac.ErrInvalid)
+		}
+		return reconcileNormals(p, spec, normals, h)
+	}
+	return nil, nil
+}
+
+func reconcileSamples(p *plan, samples []*almanac.Sample, h int) ([]almanac.Distribution, error) {
+	c := p.c
+	n := c.n()
+	np := len(samples[0].Paths)
+	if np == 0 {
+		return nil, fmt.Errorf("reconcile: %w: the sample of %q has no paths", almanac.ErrEmpty, c.names[0])
+	}
+	for i, s := range samples {
+		if len(s.Paths) != np {
+			return nil, fmt.Errorf("reconcile: %w: %w: %q has %d sample paths, %q has %d", ErrDimension, almanac.ErrLength, c.names[i], len(s.Paths), c.names[0], np)
+		}
+		for k, path := range s.Paths {
+			if len(path) < h {
+				return nil, fmt.Errorf("reconcile: %w: %w: path %d of %q has %d steps, need %d", ErrDimension, almanac.ErrLength, k, c.names[i], len(path), h)
+			}
+		}
+	}
+	paths := make([][][]float64, n) // paths[node][k][t]
+	for i := range paths {
+		paths[i] = make([][]float64, np)
+		for k := range paths[i] {
+			paths[i][k] = make([]float64, h)
+		}
+	}
+	y := make([]float64, n)
+	b := make([]float64, c.m)
+	rec := make([]float64, n)
+	for k := 0; k < np; k++ {
+		for t := 0; t < h; t++ {
+			for i, s := range samples {
+				v := s.Paths[k][t]
+				if err := finite(c, "sample path value", v, t, i); err != nil {
+					return nil, err
+				}
+				y[i] = v
+			}
+			if err := p.bottomsTo(b, y, t); err != nil {
+				return nil, err
+			}
+			c.aggregateRow(rec, b)
+			for i, v := range rec {
+				paths[i][k][t] = v
+			}
+		}
+	}
+	out := make([]almanac.Distribution, n)
+	for i := range out {
+		out[i] = &almanac.Sample{Paths: paths[i]}
+	}
+	return out, nil
+}
+
+func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]almanac.Distribution, error) {
+	c := p.c
+	n := c.n()
+	for i, d := range normals {
+		if len(d.Mean) < h || len(d.SD) < h {
+			return nil, fmt.Errorf("reconcile: %w: %w: the distribution of %q has fewer than %d steps", ErrDimension, almanac.ErrLength, c.names[i], h)
+		}
+		for t := 0; t < h; t++ {
+			if sd := d.SD[t]; !(sd >= 0) || math.IsInf(sd, 0) {
+				return nil, fmt.Errorf("reconcile: %w: standard deviation %v of %q at step %d", almanac.ErrNonFinite, sd, c.names[i], t+1)
+			}
+		}
+	}
+	// Correlation of the base forecast errors.
+	var corr *mat.SymDense
+	if spec.Residuals != nil {
+		kind := Shrinkage
+		if p.method == MethodMinTSample {
+			kind = SampleCovariance
+		}
+		est, err := estimateCov(c, spec.Residuals, kind)
+		if err != nil {
+			return nil, err
+		}
+		corr = mat.NewSymDense(n, nil)
+		for i := 0; i < n; i++ {
+			for j := i; j < n; j++ {
+				corr.SetSym(i, j, est.W.At(i, j)/math.Sqrt(est.W.At(i, i)*est.W.At(j, j)))
+			}
+		}
+	}
+	means := make([][]float64, n)
+	sds := make([][]float64, n)
+	for i := range means {
+		means[i] = make([]float64, h)
+		sds[i] = make([]float64, h)
+	}
+	y := make([]float64, n)
+	b := make([]float64, c.m)
+	rec := make([]float64, n)
+	var sg, a mat.Dense
+	for t := 0; t < h; t++ {
+		for i, d := range normals {
+			y[i] = d.Mean[t]
+		}
+		if err := p.bottomsTo(b, y, t); err != nil {
+			return nil, err
+		}
+		c.aggregateRow(rec, b)
+		// M = S G_t D_t; variance of node i = m_i R m_i'.
+		sg.Mul(c.s, p.gAt(t))
+		for i := 0; i < n; i++ {
+			row := sg.RawRowView(i)
+			for k := range row {
+				row[k] *= normals[k].SD[t]
+			}
+		}
+		for i := 0; i < n; i++ {
+			means[i][t] = rec[i]
+		}
+		if corr == nil {
+			for i := 0; i < n; i++ {
+				var v float64
+				for _, x := range sg.RawRowView(i) {
+					v += x * x
+				}
+				sds[i][t] = math.Sqrt(v)
+			}
+			continue
+		}
+		a.Mul(&sg, corr)
+		for i := 0; i < n; i++ {
+			ai, mi := a.RawRowView(i), sg.RawRowView(i)
+			var v float64
+			for k := range ai {
+				v += ai[k] * mi[k]
+			}
+			sds[i][t] = math.Sqrt(max(v, 0))
+		}
+	}
+	out := make([]almanac.Distribution, n)
+	for i := range out {
+		out[i] = &almanac.Normal{Mean: means[i], SD: sds[i]}
+	}
+	return out, nil
+}
