@@ -1,0 +1,579 @@
+package accuracy
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"runtime"
+	"slices"
+	"sync"
+	"sync/atomic"
+	"time"
+
+	"github.com/almanac-go/almanac"
+)
+
+// WindowKind is the shape of the training window of a backtest.
+type WindowKind int
+
+const (
+	// Expanding trains at each origin on every observation before it
+	// (the zero value).
+	Expanding WindowKind = iota
+	// Sliding trains at each origin on the Length observations just
+	// before it.
+	Sliding
+)
+
+// String returns "expanding" or "sliding", and WindowKind(n) otherwise.
+func (k WindowKind) String() string {
+	switch k {
+	case Expanding:
+		return "expanding"
+	case Sliding:
+		return "sliding"
+	}
+	return fmt.Sprintf("WindowKind(%d)", int(k))
+}
+
+// Candidate is a model taking part in a backtest, under a name of the
+// caller's choosing (names must be distinct within one backtest).
+type Candidate struct {
+	Name  string
+	Model almanac.Model
+}
+
+// Names of the default benchmark candidates.
+const (
+	NaiveName         = "naive"
+	SeasonalNaiveName = "seasonal naive"
+)
+
+// Backtest is a rolling-origin evaluation (Tashman 2000): for each origin
+// o the models are fitted to the observations before o and forecast the
+// Horizon observations from o on, which are then compared with what
+// happened. Origins are First, First+Step, First+2·Step, ...; an origin
+// is used only when all Horizon observations after it exist.
+//
+// The zero value is usable: horizon one seasonal period, origins from
+// the middle of the series to the end, an expanding window, the naive
+// and seasonal naive benchmarks, relative scores against the seasonal
+// naive (the naive for non-seasonal data). Write it with keyed fields:
+//
+//	accuracy.Backtest{Horizon: 12, Origins: 24, Levels: []float64{80, 95}}
+//
+// A Backtest is a plain specification, safe to share between
+// goroutines.
+type Backtest struct {
+	// Horizon is the number of steps forecast from each origin. 0 means
+	// the seasonal period (see Period), and 1 for non-seasonal data.
+	Horizon int
+	// First is the number of observations before the first origin. 0
+	// means automatic: the latest first origin that leaves room for
+	// Origins origins when Origins > 0, else half the series.
+	First int
+	// Origins caps the number of origins. 0 means as many as fit.
+	Origins int
+	// Step is the distance between consecutive origins. 0 means 1.
+	Step int
+	// Window is the training window shape (default Expanding).
+	Window WindowKind
+	// Length is the training window length of a Sliding window. 0 means
+	// First. Ignored for an Expanding window.
+	Length int
+	// Levels are the prediction-interval levels to score, percentages in
+	// (0, 100). None means no interval scores.
+	Levels []float64
+	// Period is the seasonal period used for the MASE/RMSSE/MSIS scale,
+	// the default Horizon and the seasonal naive benchmark. 0 means the
+	// series' own (Series.Period: 12 monthly, 4 quarterly, 1 yearly).
+	Period int
+	// Benchmarks are evaluated alongside the models. Nil means the naive
+	// method ("naive") and, for a seasonal Period, the seasonal naive
+	// method ("seasonal naive"); see also NoBenchmarks.
+	Benchmarks []Candidate
+	// NoBenchmarks evaluates only the models given to Run.
+	NoBenchmarks bool
+	// Baseline names the candidate the relative scores are against. ""
+	// means "seasonal naive" when it takes part, else "naive", else the
+	// first model.
+	Baseline string
+	// Workers is the number of goroutines fitting (candidate, origin)
+	// pairs. 0 means runtime.GOMAXPROCS(0). Results do not depend on it.
+	Workers int
+}
+
+// Origin describes one forecast origin of a backtest of one series.
+type Origin struct {
+	Index      int       // observations before the origin; forecasts cover [Index, Index+Horizon)
+	TrainStart int       // first observation of the training window
+	Time       time.Time // time of the first forecast step
+	// Scale and ScaleSq are the naive in-sample scales (NaiveScale) of the
+	// training window with the backtest's period; NaN when undefined.
+	Scale, ScaleSq float64
+}
+
+// Run is one candidate's results on one series.
+type Run struct {
+	Name string
+	// Fits holds the fitted model's published notation (Fitted.String) at
+	// each origin.
+	Fits []string
+	// Forecasts holds the forecast made at each origin.
+	Forecasts []almanac.Forecast
+	// Errors[o][h] is actual − forecast at origin o and step h+1 (NaN
+	// where the actual value is missing).
+	Errors [][]float64
+	// ByStep[h] scores step h+1 over all origins.
+	ByStep []Scores
+	// Overall scores every (origin, step) cell.
+	Overall Scores
+	// Relative holds Overall divided by the baseline's Overall.
+	Relative Ratios
+}
+
+// Comparison is the result of a backtest on one series: every
+// candidate's forecasts and scores at the same origins.
+type Comparison struct {
+	Key      string // series key
+	Horizon  int
+	Period   int
+	Window   WindowKind
+	Levels   []float64
+	Origins  []Origin
+	Actual   [][]float64 // Actual[o][h]: the observation forecast at origin o, step h+1
+	Runs     []Run       // the models in the order given, then the benchmarks
+	Baseline string      // name of the run the relative scores are against
+}
+
+// Run returns the run named name.
+func (c *Comparison) Run(name string) (*Run, bool) {
+	for i := range c.Runs {
+		if c.Runs[i].Name == name {
+			return &c.Runs[i], true
+		}
+	}
+	return nil, false
+}
+
+// plan is a resolved backtest of one series.
+type plan struct {
+	y          almanac.Series
+	period     int
+	h          int
+	origins    []Origin
+	candidates []Candidate
+	baseline   int
+	levels     []float64
+}
+
+func (b Backtest) candidates(models []Candidate, period int) ([]Candidate, int, error) {
+	all := slices.Clone(models)
+	if !b.NoBenchmarks {
+		bench := b.Benchmarks
+		if bench == nil {
+			bench = []Candidate{{Name: NaiveName, Model: almanac.Naive{}}}
+			if period > 1 {
+				bench = append(bench, Candidate{Name: SeasonalNaiveName, Model: almanac.SeasonalNaive{Period: period}})
+			}
+		}
+		all = append(all, bench...)
+	}
+	if len(all) == 0 {
+		return nil, 0, fmt.Errorf("accuracy: backtest: %w: no model to evaluate", almanac.ErrInvalid)
+	}
+	for i, c := range all {
+		if c.Model == nil {
+			return nil, 0, fmt.Errorf("accuracy: backtest: %w: candidate %q has no model", almanac.ErrInvalid, c.Name)
+		}
+		if c.Name == "" {
+			return nil, 0, fmt.Errorf("accuracy: backtest: %w: candidate %d has no name", almanac.ErrInvalid, i)
+		}
+		for _, d := range all[:i] {
+			if d.Name == c.Name {
+				return nil, 0, fmt.Errorf("accuracy: backtest: %w: two candidates named %q", almanac.ErrInvalid, c.Name)
+			}
+		}
+	}
+	find := func(name string) int {
+		return slices.IndexFunc(all, func(c Candidate) bool { return c.Name == name })
+	}
+	base := 0
+	switch {
+	case b.Baseline != "":
+		if base = find(b.Baseline); base < 0 {
+			return nil, 0, fmt.Errorf("accuracy: backtest: %w: baseline %q is not a candidate", almanac.ErrInvalid, b.Baseline)
+		}
+	case find(SeasonalNaiveName) >= 0:
+		base = find(SeasonalNaiveName)
+	case find(NaiveName) >= 0:
+		base = find(NaiveName)
+	}
+	return all, base, nil
+}
+
+// resolve checks the specification against y and lays out the origins.
+func (b Backtest) resolve(y almanac.Series, models []Candidate) (*plan, error) {
+	if err := y.Validate(); err != nil {
+		return nil, fmt.Errorf("accuracy: backtest: %w", err)
+	}
+	for _, l := range b.Levels {
+		if err := almanac.CheckLevels(l); err != nil {
+			return nil, fmt.Errorf("accuracy: backtest: %w", err)
+		}
+	}
+	bad := func(what string, v int) error {
+		return fmt.Errorf("accuracy: backtest: %w: %s %d is negative", almanac.ErrInvalid, what, v)
+	}
+	switch {
+	case b.Horizon < 0:
+		return nil, bad("horizon", b.Horizon)
+	case b.First < 0:
+		return nil, bad("first origin", b.First)
+	case b.Origins < 0:
+		return nil, bad("origin count", b.Origins)
+	case b.Step < 0:
+		return nil, bad("step", b.Step)
+	case b.Length < 0:
+		return nil, bad("window length", b.Length)
+	case b.Period < 0:
+		return nil, bad("period", b.Period)
+	case b.Workers < 0:
+		return nil, bad("worker count", b.Workers)
+	case b.Window != Expanding && b.Window != Sliding:
+		return nil, fmt.Errorf("accuracy: backtest: %w: window %v", almanac.ErrInvalid, b.Window)
+	}
+	p := &plan{y: y, period: b.Period, levels: slices.Clone(b.Levels)}
+	if p.period == 0 {
+		p.period = max(y.Period(), 1)
+	}
+	p.h = b.Horizon
+	if p.h == 0 {
+		p.h = p.period
+	}
+	step := max(b.Step, 1)
+	n := y.Len()
+	first := b.First
+	if first == 0 {
+		if b.Origins > 0 {
+			first = n - p.h - (b.Origins-1)*step
+		} else {
+			first = n / 2
+		}
+	}
+	if first < 1 || first+p.h > n {
+		return nil, fmt.Errorf("accuracy: backtest: series %q: %w: %d observations cannot hold a first origin after %d observations and %d steps ahead", y.Key, almanac.ErrTooShort, n, first, p.h)
+	}
+	count := (n-p.h-first)/step + 1
+	if b.Origins > 0 {
+		if b.Origins > count {
+			return nil, fmt.Errorf("accuracy: backtest: series %q: %w: %d origins of %d steps every %d from %d need %d observations, have %d", y.Key, almanac.ErrTooShort, b.Origins, p.h, step, first, first+(b.Origins-1)*step+p.h, n)
+		}
+		count = b.Origins
+	}
+	length := b.Length
+	if length == 0 {
+		length = first
+	}
+	if b.Window == Sliding && length > first {
+		return nil, fmt.Errorf("accuracy: backtest: %w: sliding window of %d observations is longer than the %d before the first origin", almanac.ErrInvalid, length, first)
+	}
+	for k := range count {
+		o := first + k*step
+		start := 0
+		if b.Window == Sliding {
+			start = o - length
+		}
+		sc, sq, err := NaiveScale(y.Values[start:o], p.period)
+		if err != nil {
+			sc, sq = math.NaN(), math.NaN()
+		}
+		p.origins = append(p.origins, Origin{Index: o, TrainStart: start, Time: y.Time(o), Scale: sc, ScaleSq: sq})
+	}
+	var err error
+	if p.candidates, p.baseline, err = b.candidates(models, p.period); err != nil {
+		return nil, err
+	}
+	return p, nil
+}
+
+// job is one (series, candidate, origin) fit.
+type job struct{ series, cand, origin int }
+
+// outcome is the result of one job.
+type outcome struct {
+	fit      string
+	forecast almanac.Forecast
+	err      error
+}
+
+// execute runs every job of the plans on the worker pool and returns the
+// outcomes in job order, or the error of the first failed job in that
+// order (so the error, like the results, does not depend on scheduling).
+func (b Backtest) execute(ctx context.Context, plans []*plan) ([][][]outcome, error) {
+	var jobs []job
+	out := make([][][]outcome, len(plans))
+	for s, p := range plans {
+		out[s] = make([][]outcome, len(p.candidates))
+		for c := range p.candidates {
+			out[s][c] = make([]outcome, len(p.origins))
+			for o := range p.origins {
+				jobs = append(jobs, job{s, c, o})
+			}
+		}
+	}
+	workers := b.Workers
+	if workers == 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = min(workers, len(jobs))
+	var next atomic.Int64
+	var firstFail atomic.Int64
+	firstFail.Store(int64(len(jobs)))
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= len(jobs) || ctx.Err() != nil {
+					return
+				}
+				if int64(i) > firstFail.Load() {
+					continue // a lower-numbered job already failed
+				}
+				j := jobs[i]
+				p := plans[j.series]
+				r := &out[j.series][j.cand][j.origin]
+				*r = runOne(ctx, p, p.candidates[j.cand], p.origins[j.origin])
+				if r.err != nil {
+					for {
+						cur := firstFail.Load()
+						if int64(i) >= cur || firstFail.CompareAndSwap(cur, int64(i)) {
+							break
+						}
+					}
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	if err := ctx.Err(); err != nil {
+		return nil, fmt.Errorf("accuracy: backtest: %w", err)
+	}
+	if f := int(firstFail.Load()); f < len(jobs) {
+		j := jobs[f]
+		return nil, out[j.series][j.cand][j.origin].err
+	}
+	return out, nil
+}
+
+func runOne(ctx context.Context, p *plan, c Candidate, o Origin) outcome {
+	fail := func(what string, err error) outcome {
+		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+			return outcome{err: err}
+		}
+		return outcome{err: fmt.Errorf("accuracy: %w: series %q, model %q, origin %d (%s): %s: %w",
+			ErrBacktest, p.y.Key, c.Name, o.Index, o.Time.Format(time.DateOnly), what, err)}
+	}
+	train := p.y.Window(o.TrainStart, o.Index)
+	fit, err := c.Model.Fit(ctx, train)
+	if err != nil {
+		return fail("fit", err)
+	}
+	if fit == nil {
+		return fail("fit", fmt.Errorf("%w: nil fitted model", almanac.ErrNotFitted))
+	}
+	fc, err := fit.Forecast(p.h, p.levels...)
+	if err != nil {
+		return fail("forecast", err)
+	}
+	if len(fc.Mean) != p.h {
+		return fail("forecast", fmt.Errorf("%w: %d forecasts for horizon %d", almanac.ErrLength, len(fc.Mean), p.h))
+	}
+	return outcome{fit: fit.String(), forecast: fc}
+}
+
+// assemble turns the outcomes of one plan into a Comparison.
+func (b Backtest) assemble(p *plan, outs [][]outcome) *Comparison {
+	h := p.h
+	no := len(p.origins)
+	c := &Comparison{
+		Key: p.y.Key, Horizon: h, Period: p.period, Window: b.Window,
+		Levels: slices.Clone(b.Levels), Origins: p.origins,
+		Baseline: p.candidates[p.baseline].Name,
+	}
+	c.Actual = make([][]float64, no)
+	for o, org := range p.origins {
+		c.Actual[o] = slices.Clone(p.y.Values[org.Index : org.Index+h])
+	}
+	cl := &cells{h: h, levels: b.Levels}
+	size := no * h
+	cl.actual = make([]float64, size)
+	cl.mean = make([]float64, size)
+	cl.scale = make([]float64, size)
+	cl.scaleSq = make([]float64, size)
+	cl.crps = make([]float64, size)
+	cl.lower = make([][]float64, len(b.Levels))
+	cl.upper = make([][]float64, len(b.Levels))
+	for k := range b.Levels {
+		cl.lower[k] = make([]float64, size)
+		cl.upper[k] = make([]float64, size)
+	}
+	var sorted []float64
+	for ci, cand := range p.candidates {
+		r := Run{Name: cand.Name, Fits: make([]string, no), Forecasts: make([]almanac.Forecast, no), Errors: make([][]float64, no)}
+		for o, org := range p.origins {
+			oc := outs[ci][o]
+			r.Fits[o] = oc.fit
+			r.Forecasts[o] = oc.forecast
+			r.Errors[o] = make([]float64, h)
+			for s := range h {
+				i := o*h + s
+				a, f := c.Actual[o][s], oc.forecast.Mean[s]
+				r.Errors[o][s] = a - f
+				cl.actual[i], cl.mean[i] = a, f
+				cl.scale[i], cl.scaleSq[i] = org.Scale, org.ScaleSq
+				cl.crps[i], sorted = cellCRPS(a, oc.forecast, s, sorted)
+				for k, level := range b.Levels {
+					cl.lower[k][i], cl.upper[k][i] = boundsAt(oc.forecast, level, s)
+				}
+			}
+		}
+		r.ByStep, r.Overall = cl.byStep(no)
+		c.Runs = append(c.Runs, r)
+	}
+	base := c.Runs[p.baseline].Overall
+	for i := range c.Runs {
+		c.Runs[i].Relative = c.Runs[i].Overall.RelativeTo(base)
+	}
+	return c
+}
+
+// cellCRPS is the CRPS of forecast step s at y for a normal or sample
+// distribution, NaN otherwise (and NaN for a missing y).
+func cellCRPS(y float64, f almanac.Forecast, s int, buf []float64) (float64, []float64) {
+	if math.IsNaN(y) {
+		return math.NaN(), buf
+	}
+	switch d := f.Dist.(type) {
+	case *almanac.Normal:
+		if s < len(d.Mean) && s < len(d.SD) && d.SD[s] >= 0 {
+			return crpsNormal(y, d.Mean[s], d.SD[s]), buf
+		}
+	case *almanac.Sample:
+		buf = buf[:0]
+		for _, p := range d.Paths {
+			if s < len(p) && !math.IsNaN(p[s]) && !math.IsInf(p[s], 0) {
+				buf = append(buf, p[s])
+			}
+		}
+		if len(buf) > 0 {
+			slices.Sort(buf)
+			return crpsSorted(y, buf), buf
+		}
+	}
+	return math.NaN(), buf
+}
+
+// boundsAt returns the interval at level for step s, from Intervals (or
+// NaN when the forecast has none at that level).
+func boundsAt(f almanac.Forecast, level float64, s int) (lo, hi float64) {
+	for _, iv := range f.Intervals {
+		if iv.Level == level && s < len(iv.Lower) && s < len(iv.Upper) {
+			return iv.Lower[s], iv.Upper[s]
+		}
+	}
+	return math.NaN(), math.NaN()
+}
+
+// Run backtests the models on y, together with the benchmarks, and
+// returns every candidate's forecasts and scores at the same origins.
+//
+// Special cases: an invalid series or specification gives an error
+// wrapping the root sentinel (ErrTooShort when the series cannot hold the
+// origins, ErrInvalid for a bad option, ErrLevel for a bad level); a
+// model that fails to fit or forecast at some origin gives an error
+// wrapping ErrBacktest and the model's own error (the failure of the
+// first candidate, then the earliest origin); a cancelled ctx gives
+// ctx.Err() wrapped.
+func (b Backtest) Run(ctx context.Context, y almanac.Series, models ...Candidate) (*Comparison, error) {
+	p, err := b.resolve(y, models)
+	if err != nil {
+		return nil, err
+	}
+	outs, err := b.execute(ctx, []*plan{p})
+	if err != nil {
+		return nil, err
+	}
+	return b.assemble(p, outs[0]), nil
+}
+
+// BatchComparison is the result of a backtest of many series.
+type BatchComparison struct {
+	Series []*Comparison // one per series, in input order
+	// Names lists the candidates in the order of each Comparison's Runs.
+	Names    []string
+	Baseline string
+	// Mean[c] averages candidate c's Overall scores over the series,
+	// measure by measure (NaN when the measure is NaN for any series; N
+	// is the total number of cells).
+	Mean []Scores
+	// Relative[c] is Mean[c] divided by the baseline's Mean, measure by
+	// measure: the ratio of averages across series, as the M4 competition
+	// relates sMAPE and MASE to its benchmark.
+	Relative []Ratios
+}
+
+// RunBatch backtests the models on every series, fitting all (series,
+// candidate, origin) triples on one worker pool. The same specification
+// applies to each series (origins are laid out per series, so series may
+// differ in length). Special cases as for Run; the error names the series.
+func (b Backtest) RunBatch(ctx context.Context, ys []almanac.Series, models ...Candidate) (*BatchComparison, error) {
+	if len(ys) == 0 {
+		return nil, fmt.Errorf("accuracy: backtest: %w: no series", almanac.ErrEmpty)
+	}
+	plans := make([]*plan, len(ys))
+	for i, y := range ys {
+		p, err := b.resolve(y, models)
+		if err != nil {
+			return nil, fmt.Errorf("accuracy: backtest: series %d: %w", i, err)
+		}
+		if i > 0 && len(p.candidates) != len(plans[0].candidates) {
+			return nil, fmt.Errorf("accuracy: backtest: %w: series %d has %d candidates and series 0 has %d (the default benchmarks depend on the period; set Period or Benchmarks)", almanac.ErrInvalid, i, len(p.candidates), len(plans[0].candidates))
+		}
+		if i > 0 {
+			for c := range p.candidates {
+				if p.candidates[c].Name != plans[0].candidates[c].Name {
+					return nil, fmt.Errorf("accuracy: backtest: %w: candidates differ between series 0 and %d (set Period or Benchmarks)", almanac.ErrInvalid, i)
+				}
+			}
+		}
+		plans[i] = p
+	}
+	outs, err := b.execute(ctx, plans)
+	if err != nil {
+		return nil, err
+	}
+	bc := &BatchComparison{Baseline: plans[0].candidates[plans[0].baseline].Name}
+	for _, c := range plans[0].candidates {
+		bc.Names = append(bc.Names, c.Name)
+	}
+	for i, p := range plans {
+		bc.Series = append(bc.Series, b.assemble(p, outs[i]))
+	}
+	per := make([]Scores, len(ys))
+	for c := range bc.Names {
+		for i, cmp := range bc.Series {
+			per[i] = cmp.Runs[c].Overall
+		}
+		bc.Mean = append(bc.Mean, meanScores(per))
+	}
+	base := bc.Mean[plans[0].baseline]
+	for c := range bc.Names {
+		bc.Relative = append(bc.Relative, bc.Mean[c].RelativeTo(base))
+	}
+	return bc, nil
+}

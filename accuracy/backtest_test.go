@@ -1,0 +1,386 @@
+package accuracy_test
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"sync"
+	"testing"
+	"time"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/accuracy"
+	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/internal/numtest"
+	"github.com/almanac-go/almanac/internal/reftest"
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+)
+
+// airPassengers returns the 144 monthly AirPassengers values (Box, Jenkins
+// & Reinsel, Series G; R datasets), read from the dataset block of the
+// Box.test fixture so the numbers are not retyped.
+func airPassengers(t testing.TB) almanac.Series {
+	t.Helper()
+	f, err := reftest.Load("testdata/reference/boxtest_airpassengers_log_airline_resid.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	v := f.Floats(t, "dataset.values")
+	if len(v) != 144 {
+		t.Fatalf("AirPassengers: %d values", len(v))
+	}
+	return almanac.Series{Key: "AirPassengers", Start: time.Date(1949, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly, Values: v}
+}
+
+// lhSeries returns R's lh series (48 values, no seasonality) from the acf
+// fixture, as a yearly series.
+func lhSeries(t testing.TB) almanac.Series {
+	t.Helper()
+	f, err := reftest.Load("testdata/reference/acf_lh.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return almanac.Series{Key: "lh", Start: time.Date(1, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Yearly, Values: f.Floats(t, "input")}
+}
+
+var equateNaN = cmp.Options{cmpopts.EquateNaNs(), cmp.AllowUnexported()}
+
+// TestInSampleMASEIsOne: the in-sample MASE of the naive method's own
+// one-step fitted values is exactly 1, and that of the seasonal naive
+// method with the seasonal scale likewise (Hyndman & Koehler 2006: the
+// scale is the in-sample MAE of that very method).
+func TestInSampleMASEIsOne(t *testing.T) {
+	y := airPassengers(t)
+	for _, c := range []struct {
+		name  string
+		model almanac.Model
+		m     int
+	}{
+		{"naive", almanac.Naive{}, 1},
+		{"seasonal naive", almanac.SeasonalNaive{}, 12},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			fit, err := c.model.Fit(context.Background(), y)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, err := accuracy.MASE(y.Values, fit.FittedValues(), y.Values, c.m)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got != 1 {
+				t.Errorf("in-sample MASE = %.17g, want exactly 1", got)
+			}
+			got, err = accuracy.RMSSE(y.Values, fit.FittedValues(), y.Values, c.m)
+			if err != nil {
+				t.Fatal(err)
+			}
+			numtest.Scalar(t, "in-sample RMSSE", got, 1, 0, 1e-15)
+		})
+	}
+}
+
+// TestBacktestByHand lays out a small backtest and recomputes its errors
+// and scores with the stand-alone measures.
+func TestBacktestByHand(t *testing.T) {
+	y := lhSeries(t)
+	bt := accuracy.Backtest{Horizon: 3, First: 40, Step: 2, Levels: []float64{80}, Workers: 3}
+	c, err := bt.Run(context.Background(), y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Origins 40, 42, 44 (44 + 3 ≤ 48; 46 + 3 > 48).
+	if got := len(c.Origins); got != 3 {
+		t.Fatalf("%d origins, want 3", got)
+	}
+	for k, o := range c.Origins {
+		if o.Index != 40+2*k || o.TrainStart != 0 {
+			t.Errorf("origin %d = %+v", k, o)
+		}
+		if !o.Time.Equal(y.Time(o.Index)) {
+			t.Errorf("origin %d time %v, want %v", k, o.Time, y.Time(o.Index))
+		}
+	}
+	// Yearly data: period 1, so the only benchmark is the naive method and
+	// it is the baseline.
+	if len(c.Runs) != 1 || c.Runs[0].Name != accuracy.NaiveName || c.Baseline != accuracy.NaiveName {
+		t.Fatalf("runs %v baseline %q", len(c.Runs), c.Baseline)
+	}
+	r := c.Runs[0]
+	var act, fc, scaled []float64
+	for k, o := range c.Origins {
+		last := y.Values[o.Index-1] // the naive forecast
+		scale, _, err := accuracy.NaiveScale(y.Values[:o.Index], 1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for s := range 3 {
+			a := y.Values[o.Index+s]
+			if r.Forecasts[k].Mean[s] != last {
+				t.Errorf("origin %d step %d forecast %v, want %v", k, s, r.Forecasts[k].Mean[s], last)
+			}
+			if r.Errors[k][s] != a-last {
+				t.Errorf("origin %d step %d error %v, want %v", k, s, r.Errors[k][s], a-last)
+			}
+			act = append(act, a)
+			fc = append(fc, last)
+			scaled = append(scaled, math.Abs(a-last)/scale)
+		}
+		if r.Fits[k] != "Naive" {
+			t.Errorf("fit %q", r.Fits[k])
+		}
+	}
+	want := map[string]func() (float64, error){
+		"MAE":   func() (float64, error) { return accuracy.MAE(act, fc) },
+		"RMSE":  func() (float64, error) { return accuracy.RMSE(act, fc) },
+		"ME":    func() (float64, error) { return accuracy.ME(act, fc) },
+		"MdAE":  func() (float64, error) { return accuracy.MdAE(act, fc) },
+		"sMAPE": func() (float64, error) { return accuracy.SMAPE(act, fc) },
+		"MAPE":  func() (float64, error) { return accuracy.MAPE(act, fc) },
+		"MASE":  func() (float64, error) { return accuracy.MAE(scaled, make([]float64, len(scaled))) },
+	}
+	got := map[string]float64{
+		"MAE": r.Overall.MAE, "RMSE": r.Overall.RMSE, "ME": r.Overall.ME, "MdAE": r.Overall.MdAE,
+		"sMAPE": r.Overall.SMAPE, "MAPE": r.Overall.MAPE, "MASE": r.Overall.MASE,
+	}
+	for name, fn := range want {
+		w, err := fn()
+		if err != nil {
+			t.Fatal(err)
+		}
+		numtest.Scalar(t, name, got[name], w, 0, 1e-14)
+	}
+	if r.Overall.N != 9 {
+		t.Errorf("N = %d, want 9", r.Overall.N)
+	}
+	// Step 2 alone: the three second-step cells.
+	w, _ := accuracy.MAE([]float64{act[1], act[4], act[7]}, []float64{fc[1], fc[4], fc[7]})
+	numtest.Scalar(t, "step 2 MAE", r.ByStep[1].MAE, w, 0, 1e-15)
+	// The baseline's ratios are 1 (or NaN for an undefined measure).
+	numtest.Scalar(t, "relative MAE", r.Relative.MAE, 1, 0, 0)
+	// Interval scores against the stand-alone functions on the forecasts'
+	// own 80% bounds.
+	var lo, hi []float64
+	for k := range c.Origins {
+		lo = append(lo, r.Forecasts[k].Intervals[0].Lower...)
+		hi = append(hi, r.Forecasts[k].Intervals[0].Upper...)
+	}
+	cov, _ := accuracy.Coverage(act, lo, hi)
+	is, _ := accuracy.IntervalScore(act, lo, hi, 80)
+	iv, ok := r.Overall.Interval(80)
+	if !ok {
+		t.Fatal("no 80% interval scores")
+	}
+	numtest.Scalar(t, "coverage", iv.Coverage, cov, 0, 0)
+	numtest.Scalar(t, "interval score", iv.Score, is, 0, 1e-14)
+	// CRPS from the normal distributions.
+	var mu, sd []float64
+	for k := range c.Origins {
+		d := r.Forecasts[k].Dist.(*almanac.Normal)
+		mu = append(mu, d.Mean...)
+		sd = append(sd, d.SD...)
+	}
+	crps, _ := accuracy.CRPSNormal(act, mu, sd)
+	numtest.Scalar(t, "CRPS", r.Overall.CRPS, crps, 0, 1e-14)
+}
+
+// TestBacktestWorkersIdentical: results are bit-identical whatever the
+// number of workers (DESIGN.md, "Numbers").
+func TestBacktestWorkersIdentical(t *testing.T) {
+	y := airPassengers(t)
+	bt := accuracy.Backtest{Horizon: 12, Origins: 12, Levels: []float64{80, 95}}
+	models := []accuracy.Candidate{{Name: "drift", Model: almanac.Drift{}}, {Name: "mean", Model: almanac.Mean{}}}
+	var ref *accuracy.Comparison
+	for _, w := range []int{1, 2, 5, 64} {
+		bt.Workers = w
+		c, err := bt.Run(context.Background(), y, models...)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if ref == nil {
+			ref = c
+			continue
+		}
+		if d := cmp.Diff(ref, c, equateNaN); d != "" {
+			t.Errorf("workers %d differ from workers 1 (-1 +%d):\n%s", w, w, d)
+		}
+	}
+	if got := []string{ref.Runs[0].Name, ref.Runs[1].Name, ref.Runs[2].Name, ref.Runs[3].Name}; !cmp.Equal(got, []string{"drift", "mean", "naive", "seasonal naive"}) {
+		t.Errorf("runs %v", got)
+	}
+	if ref.Baseline != accuracy.SeasonalNaiveName {
+		t.Errorf("baseline %q", ref.Baseline)
+	}
+}
+
+// TestBatchMatchesSingle: a batch backtest gives each series exactly what
+// a single-series backtest gives, and Mean averages them.
+func TestBatchMatchesSingle(t *testing.T) {
+	a := airPassengers(t)
+	b := a.Window(24, 144)
+	b.Key = "AirPassengers from 1951"
+	bt := accuracy.Backtest{Horizon: 6, Origins: 5, Step: 3, Levels: []float64{90}, Workers: 2}
+	m := []accuracy.Candidate{{Name: "drift", Model: almanac.Drift{}}}
+	batch, err := bt.RunBatch(context.Background(), []almanac.Series{a, b}, m...)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, y := range []almanac.Series{a, b} {
+		single, err := bt.Run(context.Background(), y, m...)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if d := cmp.Diff(single, batch.Series[i], equateNaN); d != "" {
+			t.Errorf("series %d: batch differs from single (-single +batch):\n%s", i, d)
+		}
+	}
+	for c, name := range batch.Names {
+		x, y := batch.Series[0].Runs[c].Overall, batch.Series[1].Runs[c].Overall
+		numtest.Scalar(t, name+" mean MASE", batch.Mean[c].MASE, (x.MASE+y.MASE)/2, 0, 1e-15)
+		numtest.Scalar(t, name+" mean coverage", batch.Mean[c].Intervals[0].Coverage, (x.Intervals[0].Coverage+y.Intervals[0].Coverage)/2, 0, 1e-15)
+		if batch.Mean[c].N != x.N+y.N {
+			t.Errorf("%s: N %d, want %d", name, batch.Mean[c].N, x.N+y.N)
+		}
+	}
+	base := slicesIndex(batch.Names, batch.Baseline)
+	numtest.Scalar(t, "baseline relative MASE", batch.Relative[base].MASE, 1, 0, 0)
+}
+
+func slicesIndex(xs []string, s string) int {
+	for i, x := range xs {
+		if x == s {
+			return i
+		}
+	}
+	return -1
+}
+
+// windowRecorder is a test-only model that records the training windows
+// it is given and forecasts the last value with a unit normal.
+type windowRecorder struct {
+	mu   *sync.Mutex
+	seen map[time.Time]int // start of the training window → its length
+	// failAt makes Fit fail on the window ending there (0: never).
+	failAt int
+}
+
+type lastValue struct{ v float64 }
+
+func (w windowRecorder) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	w.seen[y.Start] = y.Len()
+	if w.failAt != 0 && y.Len() >= w.failAt {
+		return nil, fmt.Errorf("test model: %w: refusing %d observations", almanac.ErrNotFitted, y.Len())
+	}
+	return lastValue{y.Values[y.Len()-1]}, nil
+}
+
+func (f lastValue) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	mean := make([]float64, h)
+	sd := make([]float64, h)
+	for i := range mean {
+		mean[i], sd[i] = f.v, 1
+	}
+	return almanac.NewForecast(time.Time{}, calendar.Monthly, mean, &almanac.Normal{Mean: mean, SD: sd}, levels...)
+}
+func (f lastValue) FittedValues() []float64 { return nil }
+func (f lastValue) Residuals() []float64    { return nil }
+func (f lastValue) String() string          { return "LastValue" }
+
+func TestBacktestSlidingWindow(t *testing.T) {
+	y := airPassengers(t)
+	rec := windowRecorder{mu: &sync.Mutex{}, seen: map[time.Time]int{}}
+	bt := accuracy.Backtest{Horizon: 4, First: 100, Step: 10, Window: accuracy.Sliding, Length: 36, NoBenchmarks: true}
+	c, err := bt.Run(context.Background(), y, accuracy.Candidate{Name: "rec", Model: rec})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Origins 100, 110, ..., 140 (140 + 4 ≤ 144).
+	if len(c.Origins) != 5 {
+		t.Fatalf("%d origins", len(c.Origins))
+	}
+	for k, o := range c.Origins {
+		if o.Index != 100+10*k || o.TrainStart != o.Index-36 {
+			t.Errorf("origin %d: %+v", k, o)
+		}
+	}
+	if len(rec.seen) != 5 {
+		t.Errorf("%d fits, want 5", len(rec.seen))
+	}
+	for _, n := range rec.seen {
+		if n != 36 {
+			t.Errorf("window of %d observations, want 36", n)
+		}
+	}
+	if c.Baseline != "rec" {
+		t.Errorf("baseline %q, want the only model", c.Baseline)
+	}
+}
+
+func TestBacktestErrors(t *testing.T) {
+	y := airPassengers(t)
+	ctx := context.Background()
+	failing := windowRecorder{mu: &sync.Mutex{}, seen: map[time.Time]int{}, failAt: 130}
+	cancelled, cancel := context.WithCancel(ctx)
+	cancel()
+	tests := []struct {
+		name    string
+		bt      accuracy.Backtest
+		ctx     context.Context
+		y       almanac.Series
+		models  []accuracy.Candidate
+		wantErr error
+	}{
+		{"too many origins", accuracy.Backtest{Horizon: 12, Origins: 200}, ctx, y, nil, almanac.ErrTooShort},
+		{"first too late", accuracy.Backtest{Horizon: 12, First: 140}, ctx, y, nil, almanac.ErrTooShort},
+		{"negative step", accuracy.Backtest{Step: -1}, ctx, y, nil, almanac.ErrInvalid},
+		{"bad level", accuracy.Backtest{Levels: []float64{150}}, ctx, y, nil, almanac.ErrLevel},
+		{"unknown baseline", accuracy.Backtest{Baseline: "oracle"}, ctx, y, nil, almanac.ErrInvalid},
+		{"duplicate name", accuracy.Backtest{}, ctx, y, []accuracy.Candidate{{Name: "naive", Model: almanac.Naive{}}}, almanac.ErrInvalid},
+		{"nil model", accuracy.Backtest{}, ctx, y, []accuracy.Candidate{{Name: "x"}}, almanac.ErrInvalid},
+		{"nothing to run", accuracy.Backtest{NoBenchmarks: true}, ctx, y, nil, almanac.ErrInvalid},
+		{"sliding too long", accuracy.Backtest{First: 50, Window: accuracy.Sliding, Length: 60}, ctx, y, nil, almanac.ErrInvalid},
+		{"bad window kind", accuracy.Backtest{Window: 7}, ctx, y, nil, almanac.ErrInvalid},
+		{"empty series", accuracy.Backtest{}, ctx, almanac.Series{Freq: calendar.Monthly}, nil, almanac.ErrEmpty},
+		{"model fails", accuracy.Backtest{Horizon: 6, First: 120, Workers: 4}, ctx, y, []accuracy.Candidate{{Name: "flaky", Model: failing}}, accuracy.ErrBacktest},
+		{"model fails, inner sentinel", accuracy.Backtest{Horizon: 6, First: 120, Workers: 4}, ctx, y, []accuracy.Candidate{{Name: "flaky", Model: failing}}, almanac.ErrNotFitted},
+		{"cancelled", accuracy.Backtest{}, cancelled, y, nil, context.Canceled},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			c, err := tt.bt.Run(tt.ctx, tt.y, tt.models...)
+			if !errors.Is(err, tt.wantErr) {
+				t.Fatalf("error %v, want %v", err, tt.wantErr)
+			}
+			if c != nil {
+				t.Error("result alongside an error")
+			}
+		})
+	}
+}
+
+// TestBacktestFailureDeterministic: the reported failure is the earliest
+// failing origin, whatever the number of workers.
+func TestBacktestFailureDeterministic(t *testing.T) {
+	y := airPassengers(t)
+	var first string
+	for _, w := range []int{1, 3, 8} {
+		failing := windowRecorder{mu: &sync.Mutex{}, seen: map[time.Time]int{}, failAt: 125}
+		bt := accuracy.Backtest{Horizon: 3, First: 110, Workers: w}
+		_, err := bt.Run(context.Background(), y, accuracy.Candidate{Name: "flaky", Model: failing})
+		if err == nil {
+			t.Fatal("no error")
+		}
+		if first == "" {
+			first = err.Error()
+		} else if err.Error() != first {
+			t.Errorf("workers %d: %q, want %q", w, err, first)
+		}
+	}
+}

@@ -1,0 +1,257 @@
+package accuracy
+
+import (
+	"math"
+	"slices"
+)
+
+// Scores summarises the forecasts of one model over a set of (origin,
+// step) cells of a backtest: all cells, or those of one horizon step.
+// Each field follows the function of the same name; a measure that is
+// undefined on the cells (see the package documentation, "Undefined
+// values") is NaN, never a silent number, and the other measures are kept.
+//
+// MASE, RMSSE and MSIS scale each cell's error by the naive (or seasonal
+// naive) in-sample scale of its own origin's training window, then
+// average: MASE = mean(|e|/scale), RMSSE = √mean(e²/scale²-mean), the
+// usual rolling-origin form of Hyndman & Koehler (2006).
+type Scores struct {
+	// N is the number of cells with both an actual value and a forecast.
+	N int
+
+	ME, MAE, MSE, RMSE, MAPE, SMAPE, MdAE float64
+	MASE, RMSSE                          float64
+	TrackingSignal                       float64
+	// CRPS is the mean continuous ranked probability score: exact for a
+	// normal (almanac.Normal) or sample-path (almanac.Sample) forecast
+	// distribution, NaN when a forecast carries another distribution or
+	// none.
+	CRPS float64
+	// Intervals holds one entry per requested level, in order.
+	Intervals []IntervalScores
+}
+
+// IntervalScores scores the central prediction intervals at one level.
+type IntervalScores struct {
+	Level    float64 // percentage in (0, 100)
+	Coverage float64 // fraction of actual values inside the interval
+	Score    float64 // mean interval (Winkler) score, data units
+	MSIS     float64 // mean scaled interval score
+}
+
+// Interval returns the scores at level and whether it was requested.
+func (s Scores) Interval(level float64) (IntervalScores, bool) {
+	for _, iv := range s.Intervals {
+		if iv.Level == level {
+			return iv, true
+		}
+	}
+	return IntervalScores{}, false
+}
+
+// Ratios are a model's scores divided by the baseline model's scores on
+// the same cells: below 1 the model did better than the baseline. A ratio
+// whose denominator is 0 or NaN is NaN.
+type Ratios struct {
+	MAE, RMSE, MdAE, SMAPE, MASE, RMSSE, CRPS float64
+}
+
+func ratio(a, b float64) float64 {
+	if b == 0 || math.IsNaN(b) || math.IsNaN(a) {
+		return math.NaN()
+	}
+	return a / b
+}
+
+// RelativeTo returns s divided by base, measure by measure.
+func (s Scores) RelativeTo(base Scores) Ratios {
+	return Ratios{
+		MAE:   ratio(s.MAE, base.MAE),
+		RMSE:  ratio(s.RMSE, base.RMSE),
+		MdAE:  ratio(s.MdAE, base.MdAE),
+		SMAPE: ratio(s.SMAPE, base.SMAPE),
+		MASE:  ratio(s.MASE, base.MASE),
+		RMSSE: ratio(s.RMSSE, base.RMSSE),
+		CRPS:  ratio(s.CRPS, base.CRPS),
+	}
+}
+
+// cells holds a model's per-(origin, step) inputs to the scores, each
+// slice indexed origin*H + step.
+type cells struct {
+	h        int
+	actual   []float64
+	mean     []float64
+	scale    []float64 // naive in-sample MAE scale of the cell's origin
+	scaleSq  []float64 // naive in-sample MSE scale of the cell's origin
+	crps     []float64
+	lower    [][]float64 // [level][cell]
+	upper    [][]float64
+	levels   []float64
+	absWork  []float64
+	selected []int
+}
+
+// summarize computes the Scores of the cells whose index is in idx.
+func (c *cells) summarize(idx []int) Scores {
+	s := Scores{N: 0}
+	var sumE, sumAbs, sumSq, sumPct, sumSym, sumScaled, sumScaledSq, sumCRPS float64
+	mapeOK, smapeOK, scaleOK, crpsOK := true, true, true, true
+	abs := c.absWork[:0]
+	for _, i := range idx {
+		a, f := c.actual[i], c.mean[i]
+		if !observed(a, f) {
+			continue
+		}
+		s.N++
+		e := a - f
+		ae := math.Abs(e)
+		sumE += e
+		sumAbs += ae
+		sumSq += e * e
+		abs = append(abs, ae)
+		if a == 0 {
+			mapeOK = false
+		} else {
+			sumPct += ae / math.Abs(a)
+		}
+		if d := math.Abs(a) + math.Abs(f); d == 0 {
+			smapeOK = false
+		} else {
+			sumSym += 2 * ae / d
+		}
+		if sc, sq := c.scale[i], c.scaleSq[i]; sc > 0 && sq > 0 {
+			sumScaled += ae / sc
+			sumScaledSq += e * e / sq
+		} else {
+			scaleOK = false
+		}
+		if v := c.crps[i]; math.IsNaN(v) {
+			crpsOK = false
+		} else {
+			sumCRPS += v
+		}
+	}
+	c.absWork = abs
+	nan := math.NaN()
+	s.ME, s.MAE, s.MSE, s.RMSE, s.MAPE, s.SMAPE, s.MdAE = nan, nan, nan, nan, nan, nan, nan
+	s.MASE, s.RMSSE, s.TrackingSignal, s.CRPS = nan, nan, nan, nan
+	if s.N > 0 {
+		n := float64(s.N)
+		s.ME = sumE / n
+		s.MAE = sumAbs / n
+		s.MSE = sumSq / n
+		s.RMSE = math.Sqrt(s.MSE)
+		s.MdAE = median(abs)
+		if mapeOK {
+			s.MAPE = 100 * sumPct / n
+		}
+		if smapeOK {
+			s.SMAPE = 100 * sumSym / n
+		}
+		if scaleOK {
+			s.MASE = sumScaled / n
+			s.RMSSE = math.Sqrt(sumScaledSq / n)
+		}
+		if s.MAE > 0 {
+			s.TrackingSignal = sumE / s.MAE
+		}
+		if crpsOK {
+			s.CRPS = sumCRPS / n
+		}
+	}
+	for k, level := range c.levels {
+		iv := IntervalScores{Level: level, Coverage: nan, Score: nan, MSIS: nan}
+		alpha := 1 - level/100
+		var in, m int
+		var sum, sumScaled float64
+		ok := true
+		for _, i := range idx {
+			a, l, u := c.actual[i], c.lower[k][i], c.upper[k][i]
+			if math.IsNaN(a) || math.IsNaN(c.mean[i]) {
+				continue
+			}
+			if math.IsNaN(l) || math.IsNaN(u) {
+				ok = false
+				continue
+			}
+			m++
+			if a >= l && a <= u {
+				in++
+			}
+			w := winkler(a, l, u, alpha)
+			sum += w
+			if sc := c.scale[i]; sc > 0 {
+				sumScaled += w / sc
+			} else {
+				ok = false
+			}
+		}
+		if m > 0 {
+			iv.Coverage = float64(in) / float64(m)
+			iv.Score = sum / float64(m)
+			if ok {
+				iv.MSIS = sumScaled / float64(m)
+			}
+		}
+		s.Intervals = append(s.Intervals, iv)
+	}
+	return s
+}
+
+// byStep returns the scores of each horizon step and of all cells.
+func (c *cells) byStep(origins int) (steps []Scores, all Scores) {
+	idx := c.selected[:0]
+	steps = make([]Scores, c.h)
+	for h := range c.h {
+		idx = idx[:0]
+		for o := range origins {
+			idx = append(idx, o*c.h+h)
+		}
+		steps[h] = c.summarize(idx)
+	}
+	idx = idx[:0]
+	for i := range origins * c.h {
+		idx = append(idx, i)
+	}
+	all = c.summarize(idx)
+	c.selected = idx
+	return steps, all
+}
+
+// meanScores averages scores over series, field by field (NaN when any
+// series has NaN); N is the total.
+func meanScores(list []Scores) Scores {
+	var out Scores
+	if len(list) == 0 {
+		return out
+	}
+	n := float64(len(list))
+	fields := func(s *Scores) []*float64 {
+		return []*float64{&s.ME, &s.MAE, &s.MSE, &s.RMSE, &s.MAPE, &s.SMAPE, &s.MdAE, &s.MASE, &s.RMSSE, &s.TrackingSignal, &s.CRPS}
+	}
+	dst := fields(&out)
+	for _, s := range list {
+		out.N += s.N
+		for k, p := range fields(&s) {
+			*dst[k] += *p
+		}
+	}
+	for _, p := range dst {
+		*p /= n
+	}
+	out.Intervals = slices.Clone(list[0].Intervals)
+	for k := range out.Intervals {
+		iv := &out.Intervals[k]
+		iv.Coverage, iv.Score, iv.MSIS = 0, 0, 0
+		for _, s := range list {
+			iv.Coverage += s.Intervals[k].Coverage
+			iv.Score += s.Intervals[k].Score
+			iv.MSIS += s.Intervals[k].MSIS
+		}
+		iv.Coverage /= n
+		iv.Score /= n
+		iv.MSIS /= n
+	}
+	return out
+}
