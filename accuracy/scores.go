@@ -20,8 +20,8 @@ type Scores struct {
 	N int
 
 	ME, MAE, MSE, RMSE, MAPE, SMAPE, MdAE float64
-	MASE, RMSSE                          float64
-	TrackingSignal                       float64
+	MASE, RMSSE                           float64
+	TrackingSignal                        float64
 	// CRPS is the mean continuous ranked probability score: exact for a
 	// normal (almanac.Normal) or sample-path (almanac.Sample) forecast
 	// distribution, NaN when a forecast carries another distribution or
