@@ -344,7 +344,7 @@ func (p *problem) optimise(ctx context.Context, x0 []float64) ([]float64, float6
 	sx := newSimplex(d)
 	converged := false
 	for restart := 0; restart < 6; restart++ {
-		f, conv, err := sx.nelderMead(ctx, p.objective, x, fx, steps, 1e-10, 2000*d)
+		f, conv, err := sx.nelderMead(ctx, p.objective, x, fx, steps, 1e-8, 2000*d)
 		if err != nil {
 			return nil, 0, false, err
 		}

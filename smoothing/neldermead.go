@@ -73,8 +73,9 @@ func (s *simplex) nelderMead(ctx context.Context, fn func([]float64) float64, x 
 		if evals >= maxEval {
 			break
 		}
-		// Collapse test: all values equal and vertices coincide.
-		if s.f[hi]-fl <= 1e-15*math.Abs(fl) && s.diameter() < 1e-12 {
+		// Spread test (the relative criterion of R's optim Nelder–Mead):
+		// the simplex values agree to ftol.
+		if s.f[hi]-fl <= ftol*(math.Abs(fl)+ftol) {
 			converged = true
 			break
 		}
