@@ -106,7 +106,10 @@ func TestDiagnose(t *testing.T) {
 			wantErr error
 		}{
 			{"nil fit", func() error { _, err := accuracy.Residuals{}.Diagnose(nil); return err }, almanac.ErrInvalid},
-			{"constant", func() error { _, err := accuracy.Residuals{}.DiagnoseValues([]float64{1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1}); return err }, almanac.ErrConstant},
+			{"constant", func() error {
+				_, err := accuracy.Residuals{}.DiagnoseValues([]float64{1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1})
+				return err
+			}, almanac.ErrConstant},
 			{"all NaN", func() error { _, err := accuracy.Residuals{}.DiagnoseValues([]float64{nan, nan}); return err }, almanac.ErrAllMissing},
 			{"no df left", func() error { _, err := accuracy.Residuals{Lag: 3, FitDF: 3}.DiagnoseValues(res); return err }, almanac.ErrInvalid},
 			{"lag too long", func() error { _, err := accuracy.LjungBox([]float64{1, 2, 3}, 3, 0); return err }, almanac.ErrTooShort},
