@@ -1,18 +1,10 @@
 package calendar
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"time"
 )
-
-// ErrFrequency reports an unset or invalid frequency.
-var ErrFrequency = errors.New("invalid frequency")
-
-// ErrNotAligned reports a time that does not fall a whole number of
-// periods from a reference time.
-var ErrNotAligned = errors.New("time not aligned to frequency")
 
 // Unit is the base unit of a Frequency. The zero Unit is unset.
 // Programs should not rely on the numeric values of the constants.
@@ -196,7 +188,9 @@ func (f Frequency) Between(a, b time.Time) (int, error) {
 		if d%step != 0 {
 			return 0, fmt.Errorf("calendar: %w: %v is not a whole number of %v periods from %v", ErrNotAligned, b, f, a)
 		}
-		return int(d / step), nil
+		// Sub saturates beyond about 292 years; the check below
+		// catches that.
+		n = int(d / step)
 	case Day, Week:
 		days := civilDays(b) - civilDays(a)
 		per := f.mult()
