@@ -1,0 +1,107 @@
+// Package arima fits seasonal ARIMA models, with optional regressors
+// (regression with ARIMA errors), by exact Gaussian maximum likelihood
+// through a state-space Kalman filter or by conditional sum of squares,
+// and forecasts them with exact mean-squared errors.
+//
+// A model is a Spec, itself an almanac.Model:
+//
+//	spec := arima.Spec{P: 0, D: 1, Q: 1, SP: 0, SD: 1, SQ: 1} // airline model
+//	fit, err := spec.Fit(ctx, y)
+//	fc, err := fit.Forecast(24, 80, 95)
+//
+// The model is φ(B)Φ(B^s)(1−B)^d(1−B^s)^D (y_t − x_t'β) = θ(B)Θ(B^s) e_t
+// with AR polynomials 1 − φ₁B − … and MA polynomials 1 + θ₁B + … (the sign
+// conventions of R's stats::arima). Coefficients are named ar1.., ma1..,
+// sar1.., sma1.., mean (the process mean when d + D = 0), drift (the slope
+// of a linear trend when d + D = 1) and the regressor names.
+//
+// Defaults: Constant's zero value includes a mean in undifferenced models
+// only (no drift unless asked for with ConstantInclude, because a drift is
+// a trend assumption the caller should make knowingly); Method's zero
+// value is CSS then ML; Period 0 takes the period from the series'
+// frequency.
+//
+// # Missing values
+//
+// NaN observations are allowed with the ML methods: the Kalman filter
+// skips them (the state is propagated without an update), wherever they
+// are, because the differencing is part of the state vector rather than
+// applied to the data. The residual at a missing time is NaN. CSSThenML
+// goes straight to ML when values are missing; CSS alone needs complete
+// data (almanac.ErrMissing). Regressor values must all be finite.
+//
+// # Numerical notes
+//
+// Likelihood. The state space is Harvey's (1989) form with
+// r = max(p + sP, q + sQ + 1) ARMA states followed by d + sD states for
+// the differencing (Durbin & Koopman 2012, §3.4). The ARMA block starts
+// from its exact stationary covariance, the solution of
+// Q0 = T Q0 T' + R R' (found from the process autocovariances, Brockwell &
+// Davis 1991 §3.3, then element by element); it is the same matrix as the
+// method of Gardner, Harvey & Phillips (1980). The differencing states get
+// the finite prior variance κ = 10⁶·σ² and observations whose innovation
+// variance F_t is 10⁴·σ² or more are left out of the likelihood. These are
+// the choices of R's stats::arima: we reproduce its scheme deliberately so
+// that log-likelihoods, AIC values and forecasts agree with R's (to 1e-9
+// in the reference tests). This is not the exact diffuse likelihood: for
+// differenced models it differs from the exact likelihood of the
+// differenced series by an amount that depends on the data scale (3·10⁻³
+// for the airline model on log air passengers); an exact diffuse
+// initialisation is not implemented.
+//
+// The reported log-likelihood is
+// −½(n log(ssq/ν) + (n/ν) Σ log F_t + n + n log 2π), n the number of
+// observed values minus d + sD, ν those in the likelihood; σ² = ssq/n.
+// AIC = −2 log L + 2(k+1), AICc adds 2(k+1)(k+2)/(n−k−2), BIC =
+// −2 log L + log(n)(k+1), k the number of estimated coefficients. For
+// Method CSS the log-likelihood is the conditional one,
+// −½ n (log 2π + 1 + log σ²) with σ² the mean squared conditional residual.
+//
+// Estimation. ML minimises ½(log(ssq/ν) + Σ log F_t/ν) (σ² concentrated
+// out); CSS minimises ½ log of the mean squared conditional residual, with
+// the first d + sD + p + sP residuals conditioned on. During ML the AR and
+// seasonal AR blocks are kept stationary by the partial-autocorrelation
+// reparameterisation (tanh, then the Durbin–Levinson recursion; Jones
+// 1980, Monahan 1984) when every coefficient of the block is estimated;
+// afterwards MA and seasonal MA polynomials with roots inside the unit
+// circle are replaced by their invertible equivalents. With two or more
+// regression columns (mean and drift included) and none fixed, the
+// regression coefficients are optimised in the basis of the singular
+// vectors of the regression matrix, scaled by ten least-squares standard
+// errors. The minimiser is a quasi-Newton (BFGS) method with central
+// difference gradients (step 10⁻⁵ in those units); it stands in for
+// gonum/optimize, which cannot be built with the module's current go.sum.
+// Standard errors come from inv(n·H), H the central-difference Hessian of
+// the objective with step 10⁻³ in the same units, AR coefficients
+// untransformed.
+//
+// Regressors whose columns are linearly dependent after the model's
+// differencing are rejected (ErrCollinear) with their names.
+//
+// # Concurrency
+//
+// A Spec is a plain value, safe to share; Fit starts no goroutine and can
+// be called concurrently. A *Fitted is read-only after Fit and safe for
+// concurrent use (each forecast works on its own copy of the filter
+// state). Results are deterministic: the same input gives bit-identical
+// output, whatever else runs.
+//
+// # References
+//
+//   - Box, G.E.P., Jenkins, G.M., Reinsel, G.C. (1994). Time Series
+//     Analysis: Forecasting and Control, 3rd ed. Prentice Hall.
+//   - Brockwell, P.J., Davis, R.A. (1991). Time Series: Theory and
+//     Methods, 2nd ed. Springer.
+//   - Durbin, J., Koopman, S.J. (2012). Time Series Analysis by State Space
+//     Methods, 2nd ed. Oxford University Press.
+//   - Gardner, G., Harvey, A.C., Phillips, G.D.A. (1980). Algorithm AS 154.
+//     Applied Statistics 29, 311–322.
+//   - Harvey, A.C. (1989). Forecasting, Structural Time Series Models and
+//     the Kalman Filter. Cambridge University Press.
+//   - Jones, R.H. (1980). Maximum likelihood fitting of ARMA models to time
+//     series with missing observations. Technometrics 22, 389–395.
+//   - Monahan, J.F. (1984). A note on enforcing stationarity in
+//     autoregressive-moving average models. Biometrika 71, 403–404.
+//   - Nash, J.C. (1990). Compact Numerical Methods for Computers, 2nd ed.
+//     Adam Hilger (the variable-metric algorithm).
+package arima

@@ -1,0 +1,247 @@
+package arima
+
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"github.com/almanac-go/almanac"
+	"gonum.org/v1/gonum/mat"
+)
+
+func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, fmt.Errorf("arima: %w", err)
+	}
+	if err := y.Validate(); err != nil {
+		return nil, fmt.Errorf("arima: %w", err)
+	}
+	lay, err := s.resolve(y)
+	if err != nil {
+		return nil, err
+	}
+	n := y.Len()
+	x := make([][]float64, 0, lay.nreg())
+	if lay.mean {
+		col := make([]float64, n)
+		for i := range col {
+			col[i] = 1
+		}
+		x = append(x, col)
+	}
+	if lay.drift {
+		col := make([]float64, n)
+		for i := range col {
+			col[i] = float64(i + 1)
+		}
+		x = append(x, col)
+	}
+	for _, r := range s.Regressors {
+		x = append(x, append([]float64(nil), r.Values...))
+	}
+	yv := y.Slice()
+	pr := newProblem(lay, yv, x, s.Fixed)
+	k := len(pr.free)
+	nd := lay.d + lay.s*lay.sd
+	if pr.nUsed < k+2 {
+		return nil, fmt.Errorf("arima: %w: %s with %d estimated coefficients needs at least %d observed values after %d lost to differencing, have %d", almanac.ErrTooShort, lay.orders(), k, k+2, nd, max(pr.nUsed, 0))
+	}
+	missing := y.Missing() > 0
+	method := s.Method
+	if method == CSS {
+		if err := y.CheckComplete(); err != nil {
+			return nil, fmt.Errorf("arima: method CSS: %w", err)
+		}
+	}
+	if method != ML && !missing && n-pr.ncond < k+1 {
+		if method == CSS {
+			return nil, fmt.Errorf("arima: %w: CSS for %s conditions on %d values and estimates %d coefficients, have %d observations", almanac.ErrTooShort, lay.orders(), pr.ncond, k, n)
+		}
+		method = ML
+	}
+	if method == CSSThenML && missing {
+		method = ML
+	}
+
+	// Starting values: zero ARMA coefficients, least squares for the
+	// regression part (on the differenced data), with the parameter scale
+	// 10 standard errors of that fit.
+	na := lay.narma()
+	start := append([]float64(nil), pr.base...)
+	if len(x) > 0 {
+		// Rotate the regression coordinates (SVD basis) when there are two
+		// or more regression columns and none is fixed.
+		rotate := len(x) >= 2
+		for _, name := range lay.names[na:] {
+			if _, ok := s.Fixed[name]; ok {
+				rotate = false
+			}
+		}
+		beta, se, rot, err := regressionStart(lay, yv, x, rotate)
+		if err != nil {
+			return nil, err
+		}
+		if rot != nil {
+			pr.rot = rot
+			pr.tmp = make([]float64, len(x))
+		}
+		for i, idx := range pr.free {
+			if idx >= na {
+				start[idx] = beta[idx-na]
+				if sc := 10 * se[idx-na]; sc > 0 && !math.IsInf(sc, 0) {
+					pr.scale[i] = sc
+				}
+			}
+		}
+		for name, v := range s.Fixed {
+			for i, nm := range lay.names {
+				if nm == name {
+					start[i] = v
+				}
+			}
+		}
+	}
+
+	f := &Fitted{spec: s, lay: lay, key: y.Key, start: y.Start, freq: y.Freq, n: n, method: method, nUsed: pr.nUsed}
+	f.y = yv
+	f.x = x
+	coef := start
+	var cov *mat.SymDense
+	converged := true
+	if method == CSS || method == CSSThenML {
+		if k > 0 {
+			x0, _ := pr.paramsFrom(coef, false)
+			obj := func(v []float64) float64 { return pr.cssObjective(v) }
+			if obj(x0) >= badObjective {
+				return nil, fmt.Errorf("arima: %w: %s: conditional sum of squares not finite at the starting values", almanac.ErrNotFitted, lay.orders())
+			}
+			xs, _, conv, err := minimize(ctx, obj, x0)
+			if err != nil {
+				if ctx.Err() != nil {
+					return nil, err
+				}
+				return nil, fmt.Errorf("arima: %w: %s by CSS: %v", almanac.ErrNotFitted, lay.orders(), err)
+			}
+			converged = conv
+			coef = append([]float64(nil), pr.coefFrom(xs, false)...)
+			if method == CSS {
+				cov = pr.covariance(obj, xs)
+			}
+		}
+	}
+	if method == CSSThenML {
+		// The CSS optimum starts ML unless its AR part is not stationary
+		// (then the ARMA part starts from zero) and with invertible MA.
+		l := lay
+		ok := arStationary(coef[l.arOff():l.arOff()+l.p]) && arStationary(coef[l.sarOff():l.sarOff()+l.sp])
+		if !ok {
+			for i := 0; i < na; i++ {
+				if _, fixed := s.Fixed[l.names[i]]; !fixed {
+					coef[i] = 0
+				}
+			}
+		}
+		invertBlocks(pr, coef)
+	}
+	if method == ML || method == CSSThenML {
+		if k > 0 {
+			x0, ok := pr.paramsFrom(coef, true)
+			if !ok {
+				return nil, fmt.Errorf("arima: %w: %s: starting values not stationary", almanac.ErrNotFitted, lay.orders())
+			}
+			obj := func(v []float64) float64 { return pr.mlObjective(v, true) }
+			if obj(x0) >= badObjective {
+				return nil, fmt.Errorf("arima: %w: %s: likelihood not finite at the starting values", almanac.ErrNotFitted, lay.orders())
+			}
+			xs, _, conv, err := minimize(ctx, obj, x0)
+			if err != nil {
+				if ctx.Err() != nil {
+					return nil, err
+				}
+				return nil, fmt.Errorf("arima: %w: %s by ML: %v", almanac.ErrNotFitted, lay.orders(), err)
+			}
+			converged = conv
+			coef = append([]float64(nil), pr.coefFrom(xs, true)...)
+			invertBlocks(pr, coef)
+			xr, _ := pr.paramsFrom(coef, false)
+			raw := func(v []float64) float64 { return pr.mlObjective(v, false) }
+			cov = pr.covariance(raw, xr)
+		}
+	}
+
+	// Final quantities at the estimate.
+	f.coef = coef
+	f.free = pr.free
+	f.cov = cov
+	f.converged = converged
+	f.resid = make([]float64, n)
+	res, ok := pr.likelihood(coef, f.resid)
+	if !ok && method != CSS {
+		return nil, fmt.Errorf("arima: %w: %s: the estimated AR part is not stationary", almanac.ErrNotFitted, lay.orders())
+	}
+	if method == CSS {
+		ssq, nu := pr.cssAt(coef)
+		if nu == 0 {
+			return nil, fmt.Errorf("arima: %w: no conditional residuals", almanac.ErrNotFitted)
+		}
+		f.sigma2 = ssq / float64(nu)
+		f.loglik = -0.5 * float64(pr.nUsed) * (math.Log(2*math.Pi) + 1 + math.Log(f.sigma2))
+		copy(f.resid, pr.css.resid)
+		if !ok {
+			// No stationary state-space form: forecasts are not available.
+			f.kal = nil
+		}
+	} else {
+		if res.nu == 0 {
+			return nil, fmt.Errorf("arima: %w: no observation entered the likelihood", almanac.ErrNotFitted)
+		}
+		nu, nobs := float64(res.nu), float64(pr.nUsed)
+		f.sigma2 = res.ssq / nobs
+		f.loglik = -0.5 * (nobs*math.Log(res.ssq/nu) + (nobs/nu)*res.sumlog + nobs + nobs*math.Log(2*math.Pi))
+	}
+	if ok {
+		f.kal = pr.kal.clone()
+	}
+	f.ncond = 0
+	if method == CSS {
+		f.ncond = pr.ncond
+	}
+	return f, nil
+}
+
+// invertBlocks replaces non-invertible MA and seasonal MA blocks of coef
+// (when every coefficient of the block is estimated) by their invertible
+// equivalents.
+func invertBlocks(pr *problem, coef []float64) {
+	l := pr.lay
+	isFree := make([]bool, l.ncoef())
+	for _, i := range pr.free {
+		isFree[i] = true
+	}
+	blockFree := func(off, n int) bool {
+		for i := off; i < off+n; i++ {
+			if !isFree[i] {
+				return false
+			}
+		}
+		return n > 0
+	}
+	if blockFree(l.maOff(), l.q) {
+		copy(coef[l.maOff():l.maOff()+l.q], maInvert(coef[l.maOff():l.maOff()+l.q]))
+	}
+	if blockFree(l.smaOff(), l.sq) {
+		copy(coef[l.smaOff():l.smaOff()+l.sq], maInvert(coef[l.smaOff():l.smaOff()+l.sq]))
+	}
+}
+
+// clone returns an independent copy of the filter (state and model).
+func (k *kalman) clone() *kalman {
+	c := &kalman{}
+	c.resize(k.p, len(k.theta), k.delta)
+	copy(c.phi, k.phi)
+	copy(c.theta, k.theta)
+	copy(c.a, k.a)
+	copy(c.pm, k.pm)
+	copy(c.pnew, k.pnew)
+	return c
+}
