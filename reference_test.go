@@ -1,10 +1,14 @@
 package almanac_test
 
 import (
+	"context"
 	"math"
+	"strconv"
 	"testing"
+	"time"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
 	"github.com/almanac-go/almanac/internal/numtest"
 	"github.com/almanac-go/almanac/internal/reftest"
 )
@@ -13,8 +17,64 @@ import (
 // from the shared reference set; source and call are logged per case).
 func TestReference(t *testing.T) {
 	reftest.Run(t, "testdata/reference", map[string]reftest.Handler{
-		"boxcox": checkBoxCoxFixture,
+		"boxcox":            checkBoxCoxFixture,
+		"accuracy_measures": checkBenchmarkForecastFixture,
 	})
+}
+
+// checkBenchmarkForecastFixture checks the benchmark forecasts stored as
+// inputs of an accuracy fixture (M3 open data; forecasts, standard
+// deviations, 95% bounds and quantiles computed with numpy/scipy by the
+// fixture generator: "seasonal naive (m > 1) or naive from the in-sample
+// part; sd from the RMS of in-sample lag-m differences times sqrt(number
+// of seasons ahead)"). That is our SeasonalNaive / Naive with σ̂² = Σe²/R,
+// K = 0. The error measures themselves belong to the accuracy package.
+func checkBenchmarkForecastFixture(t *testing.T, f *reftest.Fixture) {
+	abs, rel, ok := f.Tol("*")
+	if !ok {
+		t.Fatal("fixture has no tolerance")
+	}
+	insample := f.Floats(t, "spec.insample")
+	m := int(f.Float(t, "spec.m"))
+	level := f.Float(t, "spec.level")
+	want := f.Floats(t, "spec.forecast")
+	h := len(want)
+	freq := calendar.Monthly
+	var model almanac.Model = almanac.SeasonalNaive{Period: m}
+	if m == 1 {
+		freq, model = calendar.Yearly, almanac.Naive{}
+	}
+	y := almanac.Series{Key: f.Case, Start: time.Date(2000, 1, 1, 0, 0, 0, 0, time.UTC), Freq: freq, Values: insample}
+	fit, err := model.Fit(context.Background(), y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fc, err := fit.Forecast(h, level)
+	if err != nil {
+		t.Fatal(err)
+	}
+	numtest.Slice(t, "forecast", fc.Mean, want, abs, rel)
+	numtest.Slice(t, "sd", fc.Dist.(*almanac.Normal).SD, f.Floats(t, "spec.sd"), abs, rel)
+	lo, hi, err := fc.Bounds(level)
+	if err != nil {
+		t.Fatal(err)
+	}
+	numtest.Slice(t, "lower", lo, f.Floats(t, "spec.lower"), abs, rel)
+	numtest.Slice(t, "upper", hi, f.Floats(t, "spec.upper"), abs, rel)
+	for _, p := range []string{"0.1", "0.5", "0.9"} {
+		prob, _ := strconv.ParseFloat(p, 64)
+		q, err := fc.Quantile(prob)
+		if err != nil {
+			t.Fatal(err)
+		}
+		v, _ := f.Get("spec.quantiles")
+		arr := v.(map[string]any)[p].([]any)
+		wantQ := make([]float64, len(arr))
+		for i, x := range arr {
+			wantQ[i] = x.(float64)
+		}
+		numtest.Slice(t, "quantile "+p, q, wantQ, abs, rel)
+	}
 }
 
 // checkBoxCoxFixture checks the transform and the log-likelihood against
