@@ -1,4 +1,142 @@
 // Package reconcile makes forecasts of hierarchical and grouped series
-// coherent, so that forecasts of totals equal the sums of the forecasts of
-// their parts.
+// coherent, so that the forecast of every total equals the sum of the
+// forecasts of its parts.
+//
+// A Structure fixes n series (nodes), the last m of which are the bottom
+// series, and the n × m summing matrix S with y = S b for every vector b
+// of bottom values. NewHierarchy (parent links) and HierarchyFromPaths
+// ("total/north/store1") build a tree, a *Hierarchy; NewGrouped builds a
+// cross-classified structure, a *Grouped (for example region × product
+// family, with aggregates for every factor and every combination of
+// factors). Every matrix handed to or returned by the package has one
+// column per node in the structure's node order and one row per forecast
+// step (or per observation, for history and residuals).
+//
+// The methods map base forecasts ŷ (h × n, made independently node by
+// node) to reconciled ones S b:
+//
+//	reconcile.BottomUp(st, base)
+//	reconcile.TopDown(h, base, reconcile.ForecastProportions, nil)
+//	reconcile.MiddleOut(h, 1, base, reconcile.AverageHistoricalProportions, history)
+//	reconcile.OLS(st, base)
+//	reconcile.WLSStructural(st, base)
+//	reconcile.WLSVariance(st, base, residuals)
+//	reconcile.MinT(st, base, residuals, reconcile.Shrinkage)
+//	reconcile.Reconcile(st, base, reconcile.Spec{Residuals: residuals, NonNegative: true})
+//
+// The projection methods use b = G ŷ with G = (S' W⁻¹ S)⁻¹ S' W⁻¹: W = I
+// (OLS), W = diag(S 1) (WLS, structural scaling), W = diag(W1) (WLS,
+// variance scaling), W = W1 (MinT, sample) or the shrinkage estimate
+// (MinT, shrinkage), where W1 = E'E / T is the uncentred covariance of the
+// in-sample one-step residuals E (see EstimateCovariance). Forecasts
+// reconciles whole []almanac.Forecast values including their
+// distributions: sample paths are reconciled path by path, Gaussian
+// forecasts get the covariance S G Σ G' S' (ReconciledCovariance).
+//
+// # Non-negative reconciliation
+//
+// With Spec.NonNegative the bottom level is the exact minimiser of
+// (ŷ − S b)' W⁻¹ (ŷ − S b) over b ≥ 0 in the method's own metric W (the
+// problem of Wickramasuriya, Athanasopoulos & Hyndman 2020), a convex
+// quadratic programme with bounds. It is solved by the Lawson–Hanson
+// active-set method on the normal equations Q = S' W⁻¹ S, c = S' W⁻¹ ŷ:
+// free variables are added one at a time by largest gradient, each
+// passive-set system is solved by Cholesky, and steps are cut back to
+// keep b ≥ 0, until the KKT conditions hold. When the unconstrained
+// solution is already non-negative it is returned unchanged. For
+// bottom-up the solution is the bottom level clipped at zero.
+// Top-down and middle-out are non-negative whenever their inputs are.
+//
+// # Missing values
+//
+// Base forecasts must be complete: NaN gives an error wrapping
+// almanac.ErrMissing, ±Inf one wrapping almanac.ErrNonFinite. Rows of
+// residuals or history that hold a NaN are dropped (complete cases), so
+// the first residual of a model that has none (NaN) costs one row; ±Inf
+// there is an error.
+//
+// # Numerical notes
+//
+// No inverse is formed. A full W is first equilibrated to its correlation
+// matrix and factorised by Cholesky; a factorisation that fails or whose
+// condition estimate exceeds 1e12 is reported as ErrSingular, with the
+// advice to use the shrinkage estimator (the sample covariance is
+// singular when T < n, and whenever the residuals themselves add up, as
+// those of naive forecasts do). G is then computed in whichever of two
+// equal forms has the smaller system: through the m × m matrix S' W⁻¹ S,
+// or through the (n−m) × (n−m) matrix U' W U of the constraint
+// formulation g = J − J W U (U' W U)⁻¹ U' (Wickramasuriya et al. 2019);
+// the second is used when there are no more aggregates than bottom series,
+// which makes MinT cost O(n³/3) for the check of W plus O(n² (n−m)).
+// Both forms reproduce the reference values to about 1e-15 relative.
+//
+// The shrinkage intensity is λ = Σ_{i≠j} Var(r_ij) / Σ_{i≠j} r_ij², with
+// r the correlations of W1 and Var(r_ij) = Σ_t (w_tij − w̄_ij)² / (T(T−1)),
+// w_tij = z_ti z_tj for the standardised residuals z, computed in two
+// passes, clipped to [0, 1].
+//
+// Forecast proportions split a node among children whose base forecasts
+// are all zero in equal parts; children whose base forecasts have mixed
+// signs and sum to zero give ErrProportion.
+//
+// # Concurrency
+//
+// Structures are immutable after construction and safe for concurrent
+// use; every function is a pure function of its arguments (it reads the
+// matrices it is given and returns fresh ones) and starts no goroutines.
+// Results are bit-identical from run to run and whatever the number of
+// goroutines. Reconcile many independent structures (or forecast
+// origins) in parallel from the caller.
+//
+// # Performance
+//
+// Measured with go test -bench on a 2-core machine shared with other
+// jobs, so the figures are indicative: MinT with shrinkage for a
+// hierarchy total → 10 regions → 200 shops (n = 211), 60 residual rows
+// and h = 12 takes about 5–9 ms (about 2.2 MB allocated); the same with
+// 600 shops (n = 631) about 60 ms; OLS and WLS for n = 211 about 1 ms,
+// bottom-up 0.6 ms, top-down with forecast proportions 0.09 ms; the
+// non-negative MinT with many active bounds about 16 ms. Reconciling
+// Gaussian forecasts for n = 211 and h = 12 (a dense n × n covariance per
+// step) takes about 100 ms.
+//
+// # References
+//
+// Athanasopoulos, G., Ahmed, R. A. & Hyndman, R. J. (2009). Hierarchical
+// forecasts for Australian domestic tourism. International Journal of
+// Forecasting 25(1), 146–166. (Forecast proportions.)
+//
+// Athanasopoulos, G., Hyndman, R. J., Kourentzes, N. & Petropoulos, F.
+// (2017). Forecasting with temporal hierarchies. European Journal of
+// Operational Research 262(1), 60–74. (WLS with structural scaling.)
+//
+// Gross, C. W. & Sohl, J. E. (1990). Disaggregation methods to expedite
+// product line forecasting. Journal of Forecasting 9(3), 233–254.
+// (Top-down historical proportions.)
+//
+// Hyndman, R. J., Ahmed, R. A., Athanasopoulos, G. & Shang, H. L. (2011).
+// Optimal combination forecasts for hierarchical time series.
+// Computational Statistics & Data Analysis 55(9), 2579–2589. (OLS.)
+//
+// Lawson, C. L. & Hanson, R. J. (1974). Solving Least Squares Problems.
+// Prentice-Hall, chapter 23. (The active-set method.)
+//
+// Panagiotelis, A., Gamakumara, P., Athanasopoulos, G. & Hyndman, R. J.
+// (2023). Probabilistic forecast reconciliation: properties, evaluation
+// and score optimisation. European Journal of Operational Research
+// 306(2), 693–706. (Reconciling sample paths.)
+//
+// Schäfer, J. & Strimmer, K. (2005). A shrinkage approach to large-scale
+// covariance matrix estimation and implications for functional genomics.
+// Statistical Applications in Genetics and Molecular Biology 4(1),
+// article 32.
+//
+// Wickramasuriya, S. L., Athanasopoulos, G. & Hyndman, R. J. (2019).
+// Optimal forecast reconciliation for hierarchical and grouped time series
+// through trace minimization. Journal of the American Statistical
+// Association 114(526), 804–819. (MinT.)
+//
+// Wickramasuriya, S. L., Turlach, B. A. & Hyndman, R. J. (2020). Optimal
+// non-negative forecast reconciliation. Statistics and Computing 30,
+// 1167–1182.
 package reconcile

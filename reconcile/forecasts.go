@@ -220,7 +220,7 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 	y := make([]float64, n)
 	b := make([]float64, c.m)
 	rec := make([]float64, n)
-	var sg, a mat.Dense
+	var sg0, sg, a mat.Dense
 	for t := 0; t < h; t++ {
 		for i, d := range normals {
 			y[i] = d.Mean[t]
@@ -230,7 +230,10 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 		}
 		c.aggregateRow(rec, b)
 		// M = S G_t D_t; variance of node i = m_i R m_i'.
-		sg.Mul(c.s, p.gAt(t))
+		if t == 0 || p.split != nil && !p.split.fixed {
+			sg0.Mul(c.s, p.gAt(t))
+		}
+		sg.CloneFrom(&sg0)
 		for i := 0; i < n; i++ {
 			row := sg.RawRowView(i)
 			for k := range row {

@@ -8,73 +8,136 @@ import (
 )
 
 // condLimit is the largest condition number (1-norm estimate) accepted for
-// the equilibrated covariance and for S' W⁻¹ S. Beyond it the solve would
-// lose more than about 12 of the 16 significant digits.
+// the equilibrated covariance, for S' W⁻¹ S and for U' W U. Beyond it a
+// solve would lose more than about 12 of the 16 significant digits.
 const condLimit = 1e12
 
+// Which algebraic form computes the projection; see newGLSMap. Tests
+// force each form to check both against the fixtures.
+type projectionForm int
+
+const (
+	formAuto projectionForm = iota
+	formBottom
+	formConstraint
+)
+
+var forcedForm = formAuto
+
 // glsMap holds the generalised-least-squares reconciliation of one
-// structure under one weight matrix W:
+// structure under one weight matrix W: the reconciled bottom series are
+// b = g ŷ and the reconciled forecasts S b, with
 //
-//	x = W⁻¹ S (n × m),  q = S' W⁻¹ S (m × m),  g = q⁻¹ x' (m × n),
+//	g = (S' W⁻¹ S)⁻¹ S' W⁻¹   (m × n)
 //
-// so that the reconciled bottom series are b = g ŷ and the reconciled
-// forecasts S b (the projection of Hyndman et al. 2011 and Wickramasuriya
-// et al. 2019). x and q also define the non-negative problem.
+// (Hyndman et al. 2011; Wickramasuriya et al. 2019). For the
+// non-negative problem it also keeps x = W⁻¹ S (n × m) and
+// q = S' W⁻¹ S (m × m).
 type glsMap struct {
 	g *mat.Dense
 	x *mat.Dense
 	q *mat.SymDense
 }
 
-// newGLSMap solves for g without forming W⁻¹. Exactly one of diag
-// (the diagonal of a diagonal W) and full is non-nil.
-func newGLSMap(c *core, diag []float64, full mat.Symmetric, what string) (*glsMap, error) {
-	n, m := c.n(), c.m
-	x := mat.NewDense(n, m, nil)
+// weights is a validated weight matrix W: either diagonal (diag) or full,
+// in which case chol factorises the equilibrated matrix D⁻¹ W D⁻¹ with
+// D = diag(d).
+type weights struct {
+	diag []float64
+	full mat.Symmetric
+	d    []float64
+	chol mat.Cholesky
+}
+
+// newWeights checks that W is positive definite and not too close to
+// singular. The test is made on the correlation scale so that it does not
+// depend on the units of the series.
+func newWeights(c *core, diag []float64, full mat.Symmetric, what string) (*weights, error) {
+	n := c.n()
+	w := &weights{diag: diag, full: full}
 	if diag != nil {
 		for i := 0; i < n; i++ {
 			if !(diag[i] > 0) || math.IsInf(diag[i], 0) {
 				return nil, fmt.Errorf("reconcile: %w: %s weight of node %q is %v, need a positive finite value", ErrSingular, what, c.names[i], diag[i])
 			}
+		}
+		return w, nil
+	}
+	w.d = make([]float64, n)
+	for i := range w.d {
+		v := full.At(i, i)
+		if !(v > 0) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("reconcile: %w: %s: variance of node %q is %v", ErrSingular, what, c.names[i], v)
+		}
+		w.d[i] = math.Sqrt(v)
+	}
+	r := mat.NewSymDense(n, nil)
+	for i := 0; i < n; i++ {
+		for j := i; j < n; j++ {
+			r.SetSym(i, j, full.At(i, j)/(w.d[i]*w.d[j]))
+		}
+	}
+	if ok := w.chol.Factorize(r); !ok || w.chol.Cond() > condLimit {
+		return nil, fmt.Errorf("reconcile: %w: the %s covariance is singular or nearly so (use the shrinkage estimator)", ErrSingular, what)
+	}
+	return w, nil
+}
+
+// newGLSMap computes g in one of two algebraically equal forms, never
+// forming an inverse:
+//
+//   - bottom form: x = W⁻¹ S by Cholesky solves, q = S' x, g = q⁻¹ x'
+//     (an m × m system);
+//   - constraint form (Wickramasuriya et al. 2019, with
+//     U' = [I  −C] for S = [C; I]): g = J − J W U (U' W U)⁻¹ U', where J
+//     picks the bottom rows (an (n−m) × (n−m) system).
+//
+// The constraint form is used when there are no more aggregates than
+// bottom series (the usual hierarchy, where it is much cheaper) unless
+// the non-negative problem needs x and q.
+func newGLSMap(c *core, w *weights, needQ bool, what string) (*glsMap, error) {
+	na := c.n() - c.m
+	form := forcedForm
+	if form == formAuto {
+		form = formBottom
+		if na <= c.m {
+			form = formConstraint
+		}
+	}
+	if needQ || form == formBottom || na == 0 {
+		return bottomForm(c, w, what)
+	}
+	g, err := constraintForm(c, w, what)
+	if err != nil {
+		return nil, err
+	}
+	return &glsMap{g: g}, nil
+}
+
+func bottomForm(c *core, w *weights, what string) (*glsMap, error) {
+	n, m := c.n(), c.m
+	x := mat.NewDense(n, m, nil)
+	if w.diag != nil {
+		for i := 0; i < n; i++ {
 			for _, j := range c.bottoms[i] {
-				x.Set(i, j, 1/diag[i])
+				x.Set(i, j, 1/w.diag[i])
 			}
 		}
 	} else {
-		// Equilibrate: W = D R D with D = diag(√W_ii), factorise the
-		// correlation-scale matrix R, so the singularity test does not
-		// depend on the units of the series.
-		d := make([]float64, n)
-		for i := range d {
-			v := full.At(i, i)
-			if !(v > 0) || math.IsInf(v, 0) {
-				return nil, fmt.Errorf("reconcile: %w: %s: variance of node %q is %v", ErrSingular, what, c.names[i], v)
-			}
-			d[i] = math.Sqrt(v)
-		}
-		r := mat.NewSymDense(n, nil)
-		for i := 0; i < n; i++ {
-			for j := i; j < n; j++ {
-				r.SetSym(i, j, full.At(i, j)/(d[i]*d[j]))
-			}
-		}
-		var chol mat.Cholesky
-		if ok := chol.Factorize(r); !ok || chol.Cond() > condLimit {
-			return nil, fmt.Errorf("reconcile: %w: the %s covariance is singular or nearly so (use the shrinkage estimator)", ErrSingular, what)
-		}
+		// W⁻¹ S = D⁻¹ R⁻¹ D⁻¹ S.
 		y := mat.NewDense(n, m, nil)
 		for i := 0; i < n; i++ {
 			for _, j := range c.bottoms[i] {
-				y.Set(i, j, 1/d[i])
+				y.Set(i, j, 1/w.d[i])
 			}
 		}
-		if err := chol.SolveTo(x, y); err != nil {
+		if err := w.chol.SolveTo(x, y); err != nil {
 			return nil, fmt.Errorf("reconcile: %w: the %s covariance: %v (use the shrinkage estimator)", ErrSingular, what, err)
 		}
 		for i := 0; i < n; i++ {
 			row := x.RawRowView(i)
 			for j := range row {
-				row[j] /= d[i]
+				row[j] /= w.d[i]
 			}
 		}
 	}
@@ -98,4 +161,65 @@ func newGLSMap(c *core, diag []float64, full mat.Symmetric, what string) (*glsMa
 		return nil, fmt.Errorf("reconcile: %w: S' W⁻¹ S for the %s weights: %v", ErrSingular, what, err)
 	}
 	return &glsMap{g: g, x: x, q: q}, nil
+}
+
+func constraintForm(c *core, w *weights, what string) (*mat.Dense, error) {
+	n, m := c.n(), c.m
+	na := n - m
+	wAt := func(i, j int) float64 {
+		if w.diag != nil {
+			if i == j {
+				return w.diag[i]
+			}
+			return 0
+		}
+		return w.full.At(i, j)
+	}
+	// wu = W U (n × na): column a is W[:, a] − Σ_{j ∈ B_a} W[:, na+j].
+	wu := mat.NewDense(n, na, nil)
+	for a := 0; a < na; a++ {
+		for i := 0; i < n; i++ {
+			v := wAt(i, a)
+			for _, j := range c.bottoms[a] {
+				v -= wAt(i, na+j)
+			}
+			wu.Set(i, a, v)
+		}
+	}
+	// uwu = U' W U (na × na): row a of U' is e_a − Σ_{j ∈ B_a} e_{na+j}.
+	uwu := mat.NewSymDense(na, nil)
+	for a := 0; a < na; a++ {
+		for b := a; b < na; b++ {
+			v := wu.At(a, b)
+			for _, j := range c.bottoms[a] {
+				v -= wu.At(na+j, b)
+			}
+			uwu.SetSym(a, b, v)
+		}
+	}
+	var ch mat.Cholesky
+	if ok := ch.Factorize(uwu); !ok || ch.Cond() > condLimit {
+		return nil, fmt.Errorf("reconcile: %w: U' W U is singular or nearly so for the %s weights", ErrSingular, what)
+	}
+	// k = (U' W U)⁻¹ (J W U)'  (na × m).
+	var k mat.Dense
+	if err := ch.SolveTo(&k, wu.Slice(na, n, 0, na).T()); err != nil {
+		return nil, fmt.Errorf("reconcile: %w: U' W U for the %s weights: %v", ErrSingular, what, err)
+	}
+	// g = J − k' U': g[j, a] = −k[a, j] for aggregates a;
+	// g[j, na+l] = δ_jl + Σ_{a ∋ l} k[a, j].
+	g := mat.NewDense(m, n, nil)
+	for j := 0; j < m; j++ {
+		g.Set(j, na+j, 1)
+	}
+	for a := 0; a < na; a++ {
+		ka := k.RawRowView(a)
+		for j := 0; j < m; j++ {
+			g.Set(j, a, -ka[j])
+			for _, l := range c.bottoms[a] {
+				g.Set(j, na+l, g.At(j, na+l)+ka[j])
+			}
+		}
+	}
+	return g, nil
 }

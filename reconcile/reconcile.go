@@ -109,16 +109,18 @@ func newPlan(st Structure, spec Spec, y [][]float64) (*plan, error) {
 	n, m := c.n(), c.m
 	switch method {
 	case MethodBottomUp:
-		x := mat.NewDense(n, m, nil)
 		g := mat.NewDense(m, n, nil)
-		q := mat.NewSymDense(m, nil)
 		for j := 0; j < m; j++ {
-			x.Set(c.bottomNode(j), j, 1)
 			g.Set(j, c.bottomNode(j), 1)
-			q.SetSym(j, j, 1)
 		}
 		p.g = g
 		if spec.NonNegative {
+			x := mat.NewDense(n, m, nil)
+			q := mat.NewSymDense(m, nil)
+			for j := 0; j < m; j++ {
+				x.Set(c.bottomNode(j), j, 1)
+				q.SetSym(j, j, 1)
+			}
 			p.nn = newNNSolver(q, x)
 		}
 		return p, nil
@@ -176,7 +178,11 @@ func newPlan(st Structure, spec Spec, y [][]float64) (*plan, error) {
 		}
 		p.w = w
 	}
-	gm, err := newGLSMap(c, diag, full, method.String())
+	w, err := newWeights(c, diag, full, method.String())
+	if err != nil {
+		return nil, err
+	}
+	gm, err := newGLSMap(c, w, spec.NonNegative, method.String())
 	if err != nil {
 		return nil, err
 	}

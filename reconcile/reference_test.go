@@ -245,13 +245,20 @@ func checkReconciliation(t *testing.T, f *reftest.Fixture) {
 			continue
 		}
 		checked[m.key] = true
-		t.Run(m.key, func(t *testing.T) {
-			got, err := reconcile.Reconcile(st, base, m.spec)
-			if err != nil {
-				t.Fatal(err)
-			}
-			compareMatrix(t, m.key, got, f.Matrix(t, "expect."+m.key), abs, rel)
-		})
+		// The projection methods are checked in both algebraic forms
+		// (through S' W⁻¹ S and through U' W U); the others do not use
+		// them.
+		for _, form := range []string{"bottom", "constraint", "auto"} {
+			t.Run(m.key+"/"+form, func(t *testing.T) {
+				reconcile.ProjectionForms[form]()
+				defer reconcile.ProjectionForms["auto"]()
+				got, err := reconcile.Reconcile(st, base, m.spec)
+				if err != nil {
+					t.Fatal(err)
+				}
+				compareMatrix(t, m.key, got, f.Matrix(t, "expect."+m.key), abs, rel)
+			})
+		}
 	}
 	if f.Has("expect.mint_shrink_lambda") {
 		checked["mint_shrink_lambda"] = true

@@ -1,0 +1,135 @@
+package reconcile_test
+
+import (
+	"fmt"
+	"time"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/reconcile"
+	"gonum.org/v1/gonum/mat"
+)
+
+// An invented bakery chain: two regions with two shops each. Node order
+// is total, north, south, then the four shops.
+func bakery() *reconcile.Hierarchy {
+	h, err := reconcile.HierarchyFromPaths([]string{
+		"chain/north/harbour",
+		"chain/north/old-town",
+		"chain/south/station",
+		"chain/south/campus",
+	}, "/")
+	if err != nil {
+		panic(err)
+	}
+	return h
+}
+
+func ExampleHierarchyFromPaths() {
+	h := bakery()
+	fmt.Println(h.Names())
+	fmt.Println(mat.Formatted(h.Summing()))
+	// Output:
+	// [chain chain/north chain/south chain/north/harbour chain/north/old-town chain/south/station chain/south/campus]
+	// ⎡1  1  1  1⎤
+	// ⎢1  1  0  0⎥
+	// ⎢0  0  1  1⎥
+	// ⎢1  0  0  0⎥
+	// ⎢0  1  0  0⎥
+	// ⎢0  0  1  0⎥
+	// ⎣0  0  0  1⎦
+}
+
+func ExampleNewGrouped() {
+	g, err := reconcile.NewGrouped([]string{"region", "family"}, [][]string{
+		{"north", "bread"}, {"north", "cake"},
+		{"south", "bread"}, {"south", "cake"},
+	})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(g.Names())
+	// Output:
+	// [total region=north region=south family=bread family=cake north|bread north|cake south|bread south|cake]
+}
+
+func ExampleBottomUp() {
+	h := bakery()
+	// Two months of base forecasts (loaves per day), one column per node.
+	base := mat.NewDense(2, 7, []float64{
+		1000, 560, 430, 300, 250, 240, 200,
+		1010, 570, 420, 310, 255, 230, 195,
+	})
+	rec, err := reconcile.BottomUp(h, base)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for t := 0; t < 2; t++ {
+		fmt.Printf("month %d: chain %.3f north %.3f south %.3f\n", t+1, rec.At(t, 0), rec.At(t, 1), rec.At(t, 2))
+	}
+	// Output:
+	// month 1: chain 990.000 north 550.000 south 440.000
+	// month 2: chain 990.000 north 565.000 south 425.000
+}
+
+func ExampleMinT() {
+	h := bakery()
+	base := mat.NewDense(1, 7, []float64{1000, 560, 430, 300, 250, 240, 200})
+	// In-sample one-step errors of the base models, one column per node.
+	resid := mat.NewDense(6, 7, []float64{
+		12, 8, 5, 4, 3, 2, 4,
+		-9, -4, -6, -3, -2, -4, -1,
+		15, 9, 4, 5, 5, 1, 2,
+		-11, -7, -3, -2, -4, -2, -2,
+		6, 2, 5, 0, 1, 3, 1,
+		-8, -5, -2, -3, -1, -1, -2,
+	})
+	rec, err := reconcile.MinT(h, base, resid, reconcile.Shrinkage)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for i, name := range h.Names() {
+		fmt.Printf("%-22s %9.3f -> %9.3f\n", name, base.At(0, i), rec.At(0, i))
+	}
+	// Output:
+	// chain                   1000.000 ->   985.640
+	// chain/north              560.000 ->   550.224
+	// chain/south              430.000 ->   435.416
+	// chain/north/harbour      300.000 ->   300.253
+	// chain/north/old-town     250.000 ->   249.970
+	// chain/south/station      240.000 ->   239.467
+	// chain/south/campus       200.000 ->   195.949
+}
+
+func ExampleForecasts() {
+	h := bakery()
+	start := time.Date(2027, time.March, 1, 0, 0, 0, 0, time.UTC)
+	means := []float64{1000, 560, 430, 300, 250, 240, 200}
+	sds := []float64{40, 25, 20, 15, 12, 12, 10}
+	fcs := make([]almanac.Forecast, len(means))
+	for i := range fcs {
+		f, err := almanac.NewForecast(start, calendar.Monthly, []float64{means[i]},
+			&almanac.Normal{Mean: []float64{means[i]}, SD: []float64{sds[i]}})
+		if err != nil {
+			fmt.Println(err)
+			return
+		}
+		fcs[i] = f
+	}
+	rec, err := reconcile.Forecasts(h, fcs, reconcile.Spec{Method: reconcile.MethodWLSStructural}, 80)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for i, name := range h.Names()[:3] {
+		iv := rec[i].Intervals[0]
+		fmt.Printf("%-12s %.3f [%.3f, %.3f]\n", name, rec[i].Mean[0], iv.Lower[0], iv.Upper[0])
+	}
+	// Output:
+	// chain        993.333 [969.025, 1017.642]
+	// chain/north  556.667 [537.594, 575.739]
+	// chain/south  436.667 [420.297, 453.036]
+}
