@@ -120,8 +120,10 @@ type TSB struct {
 }
 
 var (
-	_ almanac.Model = Croston{}
-	_ almanac.Model = TSB{}
+	_ almanac.Model        = Croston{}
+	_ almanac.Model        = TSB{}
+	_ almanac.Fitted       = (*IntermittentFit)(nil)
+	_ almanac.ParamCounter = (*IntermittentFit)(nil)
 )
 
 // IntermittentFit is a Croston, SBA or TSB model fitted to one series:

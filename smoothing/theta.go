@@ -120,7 +120,11 @@ type Theta struct {
 	Alpha float64
 }
 
-var _ almanac.Model = Theta{}
+var (
+	_ almanac.Model        = Theta{}
+	_ almanac.Fitted       = (*ThetaFit)(nil)
+	_ almanac.ParamCounter = (*ThetaFit)(nil)
+)
 
 // ThetaFit is a Theta method fitted to one series. It implements
 // almanac.Fitted and almanac.ParamCounter. It is read-only after Fit
