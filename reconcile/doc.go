@@ -102,6 +102,8 @@
 //
 // # References
 //
+// Volume, issue and page numbers below are recalled from memory.
+//
 // Athanasopoulos, G., Ahmed, R. A. & Hyndman, R. J. (2009). Hierarchical
 // forecasts for Australian domestic tourism. International Journal of
 // Forecasting 25(1), 146–166. (Forecast proportions.)

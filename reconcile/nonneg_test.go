@@ -50,8 +50,8 @@ func TestNonNegativeByHand(t *testing.T) {
 }
 
 // Property: the non-negative solution satisfies the KKT conditions of
-// min (ŷ − S b)' W⁻¹ (ŷ − S b) s.t. b ≥ 0 (Wickramasuriya, Athanasopoulos
-// & Hyndman 2020): b ≥ 0, and with w = S'W⁻¹(ŷ − S b), w_j = 0 where
+// min (ŷ − S b)' W⁻¹ (ŷ − S b) s.t. b ≥ 0 (Wickramasuriya, Turlach &
+// Hyndman 2020; KKT conditions of a convex QP, common practice): b ≥ 0, and with w = S'W⁻¹(ŷ − S b), w_j = 0 where
 // b_j > 0 and w_j ≤ 0 where b_j = 0. Q, c are recomputed here with an
 // explicit Cholesky of W, independently of the package's solve.
 func TestNonNegativeKKT(t *testing.T) {
