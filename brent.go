@@ -6,8 +6,9 @@ import "math"
 // with parabolic interpolation): R. P. Brent, Algorithms for Minimization
 // without Derivatives, Prentice-Hall 1973, chapter 5, procedure "localmin"
 // (the algorithm behind R's optimize and netlib's fmin). tol is the
-// absolute tolerance on x; the result is within about 3·tol of a local
-// minimum. It evaluates f at most maxIter+1 times and never allocates.
+// absolute tolerance on x; the result is within about
+// 2(1.5e-8·|x| + tol/3) of a local minimum (Brent's relative term is
+// √ε). It evaluates f at most maxIter+1 times and never allocates.
 // gonum/optimize has no univariate bounded minimiser, hence this one.
 func brentMin(f func(float64) float64, a, b, tol float64, maxIter int) (xmin, fmin float64) {
 	const (

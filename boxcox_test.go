@@ -1,0 +1,385 @@
+package almanac_test
+
+import (
+	"context"
+	"errors"
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/internal/numtest"
+	"github.com/almanac-go/almanac/internal/reftest"
+)
+
+// airPassengers returns the AirPassengers data from the scipy Box-Cox
+// fixture (Box, Jenkins & Reinsel, Series G).
+func airPassengers(t testing.TB) []float64 {
+	t.Helper()
+	f, err := reftest.Load("testdata/reference/boxcox_airpassengers.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return f.Floats(t, "input")
+}
+
+// powerSeries builds k subseries of length 4 with means m_h = 10·1.3^h
+// and standard deviations exactly proportional to m_h^(1−λ0): y = m_h +
+// 0.1·10^λ0·m_h^(1−λ0)·p with a fixed zero-mean pattern p. Guerrero's criterion —
+// the coefficient of variation of s_h/m_h^(1−λ) — is then exactly zero at
+// λ = λ0 (s_h/m_h^(1−λ0) is constant), so the method must return λ0.
+func powerSeries(lambda0 float64, k int) []float64 {
+	p := []float64{-1.5, 0.5, 1.5, -0.5}
+	var y []float64
+	for h := range k {
+		m := 10 * math.Pow(1.3, float64(h))
+		for _, q := range p {
+			y = append(y, m+0.1*m*math.Pow(m/10, -lambda0)*q)
+		}
+	}
+	return y
+}
+
+// TestLambdaGuerreroHandChecked checks Guerrero's method (Guerrero 1993,
+// J. Forecasting 12:37–48) on series whose variance-stabilising power is
+// known by construction: sd ∝ level → λ = 0 (log), sd ∝ √level → λ = 0.5,
+// constant sd → λ = 1.
+func TestLambdaGuerreroHandChecked(t *testing.T) {
+	for _, tt := range []struct {
+		name   string
+		lambda float64
+	}{{"sd proportional to level", 0}, {"sd proportional to sqrt level", 0.5}, {"constant sd", 1}, {"sd grows faster than level", -0.5}} {
+		t.Run(tt.name, func(t *testing.T) {
+			got, err := almanac.LambdaGuerrero(powerSeries(tt.lambda, 10), 4, 0, 0)
+			if err != nil {
+				t.Fatal(err)
+			}
+			numtest.Scalar(t, "lambda", got, tt.lambda, 1e-6, 0)
+		})
+	}
+}
+
+// TestLambdaGuerreroAirPassengers: a widely used implementation of
+// Guerrero's method gives λ ≈ −0.2947 for AirPassengers with subseries of
+// 12 and bounds [−1, 2] (recalled from memory; checked loosely).
+func TestLambdaGuerreroAirPassengers(t *testing.T) {
+	got, err := almanac.LambdaGuerrero(airPassengers(t), 12, -1, 2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	numtest.Scalar(t, "lambda", got, -0.2947, 1e-3, 0)
+}
+
+func TestLambdaErrors(t *testing.T) {
+	nan, inf := math.NaN(), math.Inf(1)
+	tests := []struct {
+		name string
+		fn   func() error
+		want error
+	}{
+		{"guerrero negative", func() error { _, err := almanac.LambdaGuerrero([]float64{1, 2, -3, 4, 5, 6}, 2, 0, 0); return err }, almanac.ErrNonPositive},
+		{"guerrero zero", func() error { _, err := almanac.LambdaGuerrero([]float64{1, 2, 0, 4, 5, 6}, 2, 0, 0); return err }, almanac.ErrNonPositive},
+		{"guerrero inf", func() error { _, err := almanac.LambdaGuerrero([]float64{1, 2, inf, 4}, 2, 0, 0); return err }, almanac.ErrNonFinite},
+		{"guerrero one subseries", func() error { _, err := almanac.LambdaGuerrero([]float64{1, 2, 3}, 2, 0, 0); return err }, almanac.ErrTooShort},
+		{"guerrero empty", func() error { _, err := almanac.LambdaGuerrero(nil, 2, 0, 0); return err }, almanac.ErrTooShort},
+		{"guerrero all missing", func() error { _, err := almanac.LambdaGuerrero([]float64{nan, nan, nan, nan}, 2, 0, 0); return err }, almanac.ErrTooShort},
+		{"guerrero constant", func() error { _, err := almanac.LambdaGuerrero([]float64{3, 3, 3, 3, 3, 3}, 2, 0, 0); return err }, almanac.ErrConstant},
+		{"guerrero reversed bounds", func() error { _, err := almanac.LambdaGuerrero([]float64{1, 2, 3, 4}, 2, 2, -1); return err }, almanac.ErrInvalid},
+		{"ml constant", func() error { _, err := almanac.LambdaML([]float64{2, 2, 2}, 0, 0); return err }, almanac.ErrConstant},
+		{"ml one value", func() error { _, err := almanac.LambdaML([]float64{2, nan}, 0, 0); return err }, almanac.ErrTooShort},
+		{"ml non-positive", func() error { _, err := almanac.LambdaML([]float64{2, 0, 3}, 0, 0); return err }, almanac.ErrNonPositive},
+		{"ml infinite bound", func() error { _, err := almanac.LambdaML([]float64{2, 1, 3}, -inf, 1); return err }, almanac.ErrInvalid},
+		{"llf NaN lambda", func() error { _, err := almanac.BoxCoxLLF([]float64{2, 1, 3}, nan); return err }, almanac.ErrInvalid},
+		{"llf inf value", func() error { _, err := almanac.BoxCoxLLF([]float64{2, inf, 3}, 1); return err }, almanac.ErrNonFinite},
+		{"transform negative", func() error { _, err := almanac.BoxCoxTransform(nil, []float64{2, -1}, 0.5); return err }, almanac.ErrNonPositive},
+		{"transform zero at lambda 0", func() error { _, err := almanac.BoxCoxTransform(nil, []float64{2, 0}, 0); return err }, almanac.ErrNonPositive},
+		{"transform inf", func() error { _, err := almanac.BoxCoxTransform(nil, []float64{inf}, 1); return err }, almanac.ErrNonFinite},
+		{"transform dst length", func() error { _, err := almanac.BoxCoxTransform(make([]float64, 1), []float64{1, 2}, 1); return err }, almanac.ErrLength},
+		{"inverse dst length", func() error { _, err := almanac.BoxCoxInverse(make([]float64, 3), []float64{1, 2}, 1); return err }, almanac.ErrLength},
+		{"inverse inf lambda", func() error { _, err := almanac.BoxCoxInverse(nil, []float64{1, 2}, inf); return err }, almanac.ErrInvalid},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			if err := tt.fn(); !errors.Is(err, tt.want) {
+				t.Errorf("err = %v, want %v", err, tt.want)
+			}
+		})
+	}
+}
+
+func TestBoxCoxTransformEdges(t *testing.T) {
+	nan := math.NaN()
+	z, err := almanac.BoxCoxTransform(nil, []float64{nan, 0, 1, 4}, 0.5)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// (y^0.5 − 1)/0.5: NaN, −2, 0, 2 (arithmetic).
+	numtest.Slice(t, "transform", z, []float64{nan, -2, 0, 2}, 1e-15, 0)
+	// Outside the range of the transform the inverse is the nearest end:
+	// λ = 0.5, z = −3 < −1/λ → 0; λ = −0.5, z = 3 > −1/λ → +Inf.
+	lo, _ := almanac.BoxCoxInverse(nil, []float64{-3, -2}, 0.5)
+	numtest.Slice(t, "inverse below range", lo, []float64{0, 0}, 0, 0)
+	hi, _ := almanac.BoxCoxInverse(nil, []float64{3}, -0.5)
+	if !math.IsInf(hi[0], 1) {
+		t.Errorf("inverse above range = %v, want +Inf", hi[0])
+	}
+	// In place.
+	y := []float64{1, 2, 3}
+	if _, err := almanac.BoxCoxTransform(y, y, 0); err != nil {
+		t.Fatal(err)
+	}
+	numtest.Slice(t, "in place", y, []float64{0, math.Log(2), math.Log(3)}, 0, 0)
+}
+
+// TestBoxCoxAllocs: the likelihood and Guerrero's criterion do not
+// allocate per evaluation (they are the objectives of the λ searches).
+func TestBoxCoxAllocs(t *testing.T) {
+	y := airPassengers(t)
+	if a := testing.AllocsPerRun(100, func() { _, _ = almanac.BoxCoxLLF(y, 0.3) }); a != 0 {
+		t.Errorf("BoxCoxLLF allocates %v per call", a)
+	}
+	cv, err := almanac.GuerreroObjective(y, 12)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a := testing.AllocsPerRun(100, func() { _ = cv(0.3) }); a != 0 {
+		t.Errorf("Guerrero objective allocates %v per call", a)
+	}
+}
+
+// TestBrentMin checks the minimiser on functions with known minima
+// (calculus): (x − 0.3)², x⁴ − 3x (minimum at (3/4)^(1/3)), and a
+// minimum on the boundary.
+func TestBrentMin(t *testing.T) {
+	tests := []struct {
+		name  string
+		f     func(float64) float64
+		a, b  float64
+		wantX float64
+	}{
+		{"parabola", func(x float64) float64 { return (x - 0.3) * (x - 0.3) }, -2, 2, 0.3},
+		{"quartic", func(x float64) float64 { return x*x*x*x - 3*x }, -1, 3, math.Cbrt(0.75)},
+		{"boundary", func(x float64) float64 { return x }, -1, 2, -1},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			x, _ := almanac.BrentMin(tt.f, tt.a, tt.b, 1e-10, 500)
+			// Documented accuracy: 2(1.5e-8·|x| + tol/3).
+			numtest.Scalar(t, "xmin", x, tt.wantX, 1e-10, 3e-8)
+		})
+	}
+}
+
+// constInner is a test model whose forecast is a fixed sample of paths
+// on the transformed scale (to check bias adjustment with a Sample).
+type constInner struct{ paths [][]float64 }
+
+type constInnerFit struct {
+	y     almanac.Series
+	paths [][]float64
+}
+
+func (m constInner) Fit(_ context.Context, y almanac.Series) (almanac.Fitted, error) {
+	return constInnerFit{y: y, paths: m.paths}, nil
+}
+func (f constInnerFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	mean := make([]float64, h)
+	for i := range mean {
+		for _, p := range f.paths {
+			mean[i] += p[i] / float64(len(f.paths))
+		}
+	}
+	return almanac.NewForecast(f.y.Time(f.y.Len()), f.y.Freq, mean, &almanac.Sample{Paths: f.paths}, levels...)
+}
+func (f constInnerFit) FittedValues() []float64 { return make([]float64, f.y.Len()) }
+func (f constInnerFit) Residuals() []float64    { return f.y.Slice() }
+func (f constInnerFit) String() string          { return "Const" }
+
+func TestBoxCoxModel(t *testing.T) {
+	y := monthly("air", airPassengers(t)...)
+	t.Run("log naive", func(t *testing.T) {
+		m := almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaFixed}
+		f, err := m.Fit(ctx, y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if f.String() != "BoxCox[0](Naive)" {
+			t.Errorf("String() = %q", f.String())
+		}
+		if k := f.(almanac.ParamCounter).NumParams(); k != 0 {
+			t.Errorf("NumParams = %d, want 0 for a fixed lambda", k)
+		}
+		inner, err := almanac.Naive{}.Fit(ctx, monthly("log", logs(y.Values)...))
+		if err != nil {
+			t.Fatal(err)
+		}
+		fc, err := f.Forecast(3, 80)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ic, _ := inner.Forecast(3, 80)
+		for i := range 3 {
+			// Median = exp(log-scale point), bounds = exp(log-scale bounds).
+			numtest.Scalar(t, "median", fc.Mean[i], math.Exp(ic.Mean[i]), 0, 1e-12)
+			numtest.Scalar(t, "lower", fc.Intervals[0].Lower[i], math.Exp(ic.Intervals[0].Lower[i]), 0, 1e-12)
+			numtest.Scalar(t, "upper", fc.Intervals[0].Upper[i], math.Exp(ic.Intervals[0].Upper[i]), 0, 1e-12)
+		}
+		q, err := fc.Quantile(0.5)
+		if err != nil {
+			t.Fatal(err)
+		}
+		numtest.Slice(t, "quantile 0.5", q, fc.Mean, 0, 1e-12)
+		// Fitted values back on the original scale; residuals on the log
+		// scale.
+		numtest.Slice(t, "fitted", f.FittedValues()[1:], y.Values[:y.Len()-1], 0, 1e-12)
+		numtest.Slice(t, "residuals", f.Residuals(), inner.Residuals(), 0, 0)
+		paths, err := f.(almanac.Simulator).Simulate(4, 50, rand.NewPCG(3, 4))
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, p := range paths {
+			for _, v := range p {
+				if !(v > 0) {
+					t.Fatalf("back-transformed path value %v not positive", v)
+				}
+			}
+		}
+	})
+	t.Run("bias adjusted normal", func(t *testing.T) {
+		for _, lam := range []float64{0, 0.3, -0.4} {
+			m := almanac.BoxCox{Model: almanac.Drift{}, Method: almanac.LambdaFixed, Lambda: lam, BiasAdjust: true}
+			f, err := m.Fit(ctx, y)
+			if err != nil {
+				t.Fatal(err)
+			}
+			fc, err := f.Forecast(4)
+			if err != nil {
+				t.Fatal(err)
+			}
+			ic, _ := f.(*almanac.BoxCoxFit).Inner().Forecast(4)
+			sd := ic.Dist.(*almanac.Normal).SD
+			for i := range 4 {
+				// FPP 3rd ed. §5.6 (common practice):
+				// inv(μ)·(1 + σ²(1−λ)/(2(λμ+1)²)).
+				mu := ic.Mean[i]
+				med, _ := almanac.BoxCoxInverse(nil, []float64{mu}, lam)
+				want := med[0] * (1 + sd[i]*sd[i]*(1-lam)/(2*(lam*mu+1)*(lam*mu+1)))
+				numtest.Scalar(t, "bias-adjusted mean", fc.Mean[i], want, 0, 1e-12)
+				if !(fc.Mean[i] > med[0]) {
+					t.Errorf("λ %v: mean %v not above median %v", lam, fc.Mean[i], med[0])
+				}
+			}
+		}
+	})
+	t.Run("bias adjusted log-normal is the exact mean to second order", func(t *testing.T) {
+		// For a log-normal the exact mean is exp(μ + σ²/2); the
+		// adjustment exp(μ)(1 + σ²/2) agrees to O(σ⁴) (series of exp).
+		f, err := almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaFixed, BiasAdjust: true}.Fit(ctx, y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		fc, _ := f.Forecast(1)
+		ic, _ := f.(*almanac.BoxCoxFit).Inner().Forecast(1)
+		s := ic.Dist.(*almanac.Normal).SD[0]
+		numtest.Scalar(t, "mean", fc.Mean[0], math.Exp(ic.Mean[0]+s*s/2), 0, s*s*s*s)
+	})
+	t.Run("bias adjusted sample", func(t *testing.T) {
+		paths := [][]float64{{0, 1}, {1, 2}, {2, 3}}
+		f, err := almanac.BoxCox{Model: constInner{paths}, Method: almanac.LambdaFixed, BiasAdjust: true}.Fit(ctx, monthly("s", 1, 2, 3))
+		if err != nil {
+			t.Fatal(err)
+		}
+		fc, err := f.Forecast(2, 50)
+		if err != nil {
+			t.Fatal(err)
+		}
+		e := math.Exp
+		numtest.Slice(t, "mean of exp(paths)", fc.Mean, []float64{(e(0) + e(1) + e(2)) / 3, (e(1) + e(2) + e(3)) / 3}, 0, 1e-15)
+		// Type 7 quantiles of 3 paths: the median is the middle path.
+		numtest.Slice(t, "median", fc.Intervals[0].Lower, []float64{e(0.5), e(1.5)}, 0, 1e-15)
+		if _, err := f.(almanac.Simulator).Simulate(2, 2, rand.NewPCG(1, 1)); !errors.Is(err, almanac.ErrInvalid) {
+			t.Errorf("Simulate with a non-simulating inner model: %v", err)
+		}
+	})
+	t.Run("auto lambda", func(t *testing.T) {
+		f, err := almanac.BoxCox{Model: almanac.SeasonalNaive{}}.Fit(ctx, y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		bf := f.(*almanac.BoxCoxFit)
+		want, _ := almanac.LambdaGuerrero(y.Values, 12, 0, 0)
+		if bf.Lambda() != want {
+			t.Errorf("Lambda = %v, want Guerrero's %v", bf.Lambda(), want)
+		}
+		if k := bf.NumParams(); k != 1 {
+			t.Errorf("NumParams = %d, want 1 (λ estimated)", k)
+		}
+		ml, err := almanac.BoxCox{Model: almanac.SeasonalNaive{}, Method: almanac.LambdaMaxLikelihood}.Fit(ctx, y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		wantML, _ := almanac.LambdaML(y.Values, 0, 0)
+		if got := ml.(*almanac.BoxCoxFit).Lambda(); got != wantML {
+			t.Errorf("ML lambda = %v, want %v", got, wantML)
+		}
+	})
+	t.Run("lambda one is a shift", func(t *testing.T) {
+		f, err := almanac.BoxCox{Model: almanac.Drift{}, Method: almanac.LambdaFixed, Lambda: 1}.Fit(ctx, y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		g, _ := almanac.Drift{}.Fit(ctx, y)
+		fc, _ := f.Forecast(5, 90)
+		gc, _ := g.Forecast(5, 90)
+		numtest.Slice(t, "mean", fc.Mean, gc.Mean, 1e-9, 1e-12)
+		numtest.Slice(t, "lower", fc.Intervals[0].Lower, gc.Intervals[0].Lower, 1e-9, 1e-12)
+	})
+	t.Run("bad input", func(t *testing.T) {
+		nan := math.NaN()
+		tests := []struct {
+			name string
+			m    almanac.BoxCox
+			y    almanac.Series
+			want error
+		}{
+			{"nil model", almanac.BoxCox{}, y, almanac.ErrInvalid},
+			{"unknown method", almanac.BoxCox{Model: almanac.Naive{}, Method: 7}, y, almanac.ErrInvalid},
+			{"NaN lambda", almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaFixed, Lambda: nan}, y, almanac.ErrInvalid},
+			{"zero with log", almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaFixed}, monthly("z", 1, 0, 2), almanac.ErrNonPositive},
+			{"negative with sqrt", almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaFixed, Lambda: 0.5}, monthly("z", 1, -1, 2), almanac.ErrNonPositive},
+			{"negative with auto", almanac.BoxCox{Model: almanac.Naive{}}, monthly("z", 1, -1, 2, 3), almanac.ErrNonPositive},
+			{"empty", almanac.BoxCox{Model: almanac.Naive{}}, monthly("e"), almanac.ErrEmpty},
+			{"all missing", almanac.BoxCox{Model: almanac.Naive{}}, monthly("m", nan, nan), almanac.ErrAllMissing},
+			{"constant auto", almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaMaxLikelihood}, monthly("c", 4, 4, 4, 4), almanac.ErrConstant},
+			{"inner too short", almanac.BoxCox{Model: almanac.Drift{}, Method: almanac.LambdaFixed}, monthly("s", 4, 5), almanac.ErrTooShort},
+		}
+		for _, tt := range tests {
+			t.Run(tt.name, func(t *testing.T) {
+				if _, err := tt.m.Fit(ctx, tt.y); !errors.Is(err, tt.want) {
+					t.Errorf("err = %v, want %v", err, tt.want)
+				}
+			})
+		}
+	})
+}
+
+func logs(v []float64) []float64 {
+	out := make([]float64, len(v))
+	for i, x := range v {
+		out[i] = math.Log(x)
+	}
+	return out
+}
+
+func TestLambdaMethodString(t *testing.T) {
+	for _, tt := range []struct {
+		m    almanac.LambdaMethod
+		want string
+	}{{almanac.LambdaAuto, "auto"}, {almanac.LambdaMaxLikelihood, "max-likelihood"}, {almanac.LambdaFixed, "fixed"}, {almanac.LambdaMethod(9), "LambdaMethod(9)"}} {
+		t.Run(tt.want, func(t *testing.T) {
+			if got := tt.m.String(); got != tt.want {
+				t.Errorf("String() = %q, want %q", got, tt.want)
+			}
+		})
+	}
+}
