@@ -38,12 +38,21 @@ func (k KPSSNull) String() string {
 type LagRule int
 
 const (
-	// LagDataDependent (the zero value): the automatic bandwidth of Hobijn,
-	// Franses & Ooms (2004), computed from the residual autocovariances up
-	// to lag ⌊n^(2/9)⌋: L = ⌊1.1447 (ŝ₁/ŝ₀)^(2/3) n^(1/3)⌋, capped at n−1.
-	LagDataDependent LagRule = iota
+	// LagSquareRoot (the zero value): L = ⌊3√n/13⌋, capped at n−1, a short
+	// truncation commonly used when repeated KPSS tests choose the order
+	// of differencing (common practice; recalled from memory as the rule
+	// of the usual automatic order-selection step).
+	LagSquareRoot LagRule = iota
+	// LagShort: L = ⌊4 (n/100)^(1/4)⌋, the "l4" rule of Kwiatkowski et
+	// al. (1992), capped at n−1.
+	LagShort
+	// LagDataDependent: the automatic bandwidth of Hobijn, Franses & Ooms
+	// (2004), computed from the residual autocovariances up to lag
+	// ⌊n^(2/9)⌋: L = ⌊1.1447 (ŝ₁/ŝ₀)^(2/3) n^(1/3)⌋, capped at n−1.
+	LagDataDependent
 	// LagLegacy: L = ⌈12 (n/100)^(1/4)⌉, capped at n−1 (the "l12" rule of
-	// Kwiatkowski et al. 1992, rounded up).
+	// Kwiatkowski et al. 1992, rounded up as statsmodels' "legacy"
+	// option does).
 	LagLegacy
 	// LagFixed: L = KPSSSpec.Lags exactly (0 allowed; must be < n).
 	LagFixed
@@ -52,6 +61,10 @@ const (
 // String returns the rule's name, or "LagRule(n)" for an unknown value.
 func (r LagRule) String() string {
 	switch r {
+	case LagSquareRoot:
+		return "square-root"
+	case LagShort:
+		return "short"
 	case LagDataDependent:
 		return "data-dependent"
 	case LagLegacy:
@@ -63,14 +76,13 @@ func (r LagRule) String() string {
 }
 
 // KPSSSpec configures a KPSS test. The zero value tests level
-// stationarity with the data-dependent lag:
+// stationarity with the square-root lag rule:
 //
 //	arima.KPSSSpec{Null: arima.TrendStationary, LagRule: arima.LagFixed, Lags: 4}
 type KPSSSpec struct {
 	// Null is the null hypothesis; default LevelStationary.
 	Null KPSSNull
-	// LagRule chooses the Bartlett truncation lag; default
-	// LagDataDependent.
+	// LagRule chooses the Bartlett truncation lag; default LagSquareRoot.
 	LagRule LagRule
 	// Lags is the truncation lag when LagRule is LagFixed (0 ≤ Lags < n);
 	// ignored otherwise.
@@ -190,6 +202,10 @@ func KPSS(y []float64, spec KPSSSpec) (KPSSResult, error) {
 
 	var lags int
 	switch spec.LagRule {
+	case LagSquareRoot:
+		lags = min(int(3*math.Sqrt(float64(n))/13), n-1)
+	case LagShort:
+		lags = min(int(4*math.Pow(float64(n)/100, 0.25)), n-1)
 	case LagDataDependent:
 		lags = min(hobijnLag(e), n-1)
 	case LagLegacy:
@@ -216,7 +232,7 @@ func KPSS(y []float64, spec KPSSSpec) (KPSSResult, error) {
 	stat := eta / s2
 
 	r := KPSSResult{Null: spec.Null, N: n, Lags: lags, Statistic: stat, Critical: kpssTable[spec.Null]}
-	r.PValue, r.Clipped = tablePValue(stat, r.Critical[:])
+	r.PValue, r.Clipped = kpssPValue(stat, r.Critical[:])
 	return r, nil
 }
 
@@ -248,8 +264,8 @@ func kpssResiduals(dst, y []float64, null KPSSNull) {
 	}
 }
 
-// lagProduct returns Σ_t e_t e_{t−i}.
-func lagProduct(e []float64, i int) float64 {
+// kpssLagProduct returns Σ_t e_t e_{t−i}.
+func kpssLagProduct(e []float64, i int) float64 {
 	s := 0.0
 	for t := i; t < len(e); t++ {
 		s += e[t] * e[t-i]
@@ -260,9 +276,9 @@ func lagProduct(e []float64, i int) float64 {
 // bartlettLRV is the Bartlett-kernel long-run variance with truncation
 // lag L (Newey & West 1987 weights 1 − i/(L+1)).
 func bartlettLRV(e []float64, lags int) float64 {
-	s := lagProduct(e, 0)
+	s := kpssLagProduct(e, 0)
 	for i := 1; i <= lags; i++ {
-		s += 2 * lagProduct(e, i) * (1 - float64(i)/float64(lags+1))
+		s += 2 * kpssLagProduct(e, i) * (1 - float64(i)/float64(lags+1))
 	}
 	return s / float64(len(e))
 }
@@ -273,10 +289,10 @@ func bartlettLRV(e []float64, lags int) float64 {
 func hobijnLag(e []float64) int {
 	n := float64(len(e))
 	cov := int(math.Pow(n, 2.0/9.0))
-	s0 := lagProduct(e, 0) / n
+	s0 := kpssLagProduct(e, 0) / n
 	s1 := 0.0
 	for i := 1; i <= cov && i < len(e); i++ {
-		g := 2 * lagProduct(e, i) / n
+		g := 2 * kpssLagProduct(e, i) / n
 		s0 += g
 		s1 += float64(i) * g
 	}
@@ -288,10 +304,10 @@ func hobijnLag(e []float64) int {
 	return int(l)
 }
 
-// tablePValue interpolates stat linearly in an upper-tail table of
+// kpssPValue interpolates stat linearly in an upper-tail table of
 // critical values ordered from the largest level to the smallest, and
 // clips the result to the table's range.
-func tablePValue(stat float64, tab []CriticalValue) (float64, PValueClip) {
+func kpssPValue(stat float64, tab []CriticalValue) (float64, PValueClip) {
 	last := len(tab) - 1
 	switch {
 	case stat < tab[0].Value:

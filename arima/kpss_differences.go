@@ -10,7 +10,7 @@ import (
 
 // DifferencesSpec configures Differences. The zero value differences at
 // most twice, testing at the 5% level with the zero KPSSSpec (level
-// stationarity, data-dependent lag):
+// stationarity, square-root lag rule):
 //
 //	arima.DifferencesSpec{MaxD: 1, Alpha: 0.01}
 type DifferencesSpec struct {
@@ -47,16 +47,16 @@ func Differences(y []float64, spec DifferencesSpec) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	if err := checkFiniteSlice(y); err != nil {
+	if err := selCheckFinite(y); err != nil {
 		return 0, err
 	}
-	x := observed(nil, y)
+	x := selObserved(nil, y)
 	if len(x) < 3 {
 		return 0, fmt.Errorf("arima: %w: choosing d needs at least 3 observed values, have %d", almanac.ErrTooShort, len(x))
 	}
 	w := append([]float64(nil), y...)
 	for d := 0; ; d++ {
-		if d == maxD || len(x) < 3 || isConstant(x) {
+		if d == maxD || len(x) < 3 || selIsConstant(x) {
 			return d, nil
 		}
 		r, err := KPSS(x, spec.Test)
@@ -73,8 +73,8 @@ func Differences(y []float64, spec DifferencesSpec) (int, error) {
 		if !reject {
 			return d, nil
 		}
-		w = diffInPlace(w, 1)
-		x = observed(x[:0], w)
+		w = selDiff(w, 1)
+		x = selObserved(x[:0], w)
 	}
 }
 
@@ -98,8 +98,8 @@ func (s DifferencesSpec) resolve() (maxD int, alpha float64, err error) {
 	return maxD, alpha, nil
 }
 
-// checkFiniteSlice rejects empty, all-NaN and ±Inf input.
-func checkFiniteSlice(y []float64) error {
+// selCheckFinite rejects empty, all-NaN and ±Inf input.
+func selCheckFinite(y []float64) error {
 	if len(y) == 0 {
 		return fmt.Errorf("arima: %w", almanac.ErrEmpty)
 	}
@@ -118,8 +118,8 @@ func checkFiniteSlice(y []float64) error {
 	return nil
 }
 
-// observed appends the non-NaN values of y to dst.
-func observed(dst, y []float64) []float64 {
+// selObserved appends the non-NaN values of y to dst.
+func selObserved(dst, y []float64) []float64 {
 	for _, v := range y {
 		if !math.IsNaN(v) {
 			dst = append(dst, v)
@@ -128,8 +128,8 @@ func observed(dst, y []float64) []float64 {
 	return dst
 }
 
-// isConstant reports whether all values of x (no NaN) are equal.
-func isConstant(x []float64) bool {
+// selIsConstant reports whether all values of x (no NaN) are equal.
+func selIsConstant(x []float64) bool {
 	for _, v := range x[1:] {
 		if v != x[0] {
 			return false
@@ -138,9 +138,9 @@ func isConstant(x []float64) bool {
 	return true
 }
 
-// diffInPlace replaces w by its lag-`lag` difference w_t − w_{t−lag}
+// selDiff replaces w by its lag-`lag` difference w_t − w_{t−lag}
 // (length len(w) − lag), NaN propagating, and returns the shortened slice.
-func diffInPlace(w []float64, lag int) []float64 {
+func selDiff(w []float64, lag int) []float64 {
 	if lag >= len(w) {
 		return w[:0]
 	}

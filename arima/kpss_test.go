@@ -8,6 +8,7 @@ import (
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/arima"
+	"github.com/almanac-go/almanac/internal/numtest"
 )
 
 func diffLog(y []float64) []float64 {
@@ -26,29 +27,38 @@ func logOf(y []float64) []float64 {
 	return out
 }
 
-// TestKPSSReject checks the decision rule against the statsmodels 0.13.5
-// statistics of the kpss fixtures (testdata/reference/kpss_*.json) and
-// the KPSS (1992) table (published.md): Nile with the data-dependent lag
-// has statistic 0.869 > 0.739, rejected even at 1%; lh has 0.294 < 0.347,
-// not rejected at 10%.
+// TestKPSSReject checks the short lag rule and the decision rule against
+// the statsmodels 0.13.5 statistics of the kpss fixtures
+// (testdata/reference/kpss_*.json) and the KPSS (1992) table
+// (published.md). The short rule ⌊4 (n/100)^(1/4)⌋ gives 4 lags for Nile
+// (n = 100) and diff log AirPassengers (n = 143) and 3 for lh (n = 48),
+// the lags of fixture entries: Nile nlags=4 has statistic 0.965 > 0.739
+// (rejected even at 1%); lh 'auto' used 3 lags, statistic 0.294 < 0.347
+// (not rejected at 10%); diff log AirPassengers nlags=4 has 0.0282.
 func TestKPSSReject(t *testing.T) {
 	tests := []struct {
-		name  string
-		y     []float64
-		alpha float64
-		want  bool
+		name     string
+		y        []float64
+		alpha    float64
+		wantLags int
+		wantStat float64
+		want     bool
 	}{
-		{"Nile at 1% (statsmodels 0.869 > 0.739)", selNile, 0.01, true},
-		{"Nile at 5%", selNile, 0.05, true},
-		{"lh at 10% (statsmodels 0.294 < 0.347)", selLH, 0.10, false},
-		{"diff log AirPassengers at 10% (statsmodels 0.038 < 0.347)", diffLog(selAirPassengers), 0.10, false},
+		{"Nile at 1%", selNile, 0.01, 4, 0.9654349077526598, true},
+		{"Nile at 5%", selNile, 0.05, 4, 0.9654349077526598, true},
+		{"lh at 10%", selLH, 0.10, 3, 0.2938157272834688, false},
+		{"diff log AirPassengers at 10%", diffLog(selAirPassengers), 0.10, 4, 0.028204527446464924, false},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			r, err := arima.KPSS(tc.y, arima.KPSSSpec{})
+			r, err := arima.KPSS(tc.y, arima.KPSSSpec{LagRule: arima.LagShort})
 			if err != nil {
 				t.Fatal(err)
 			}
+			if r.Lags != tc.wantLags {
+				t.Errorf("short-rule lags %d, want %d", r.Lags, tc.wantLags)
+			}
+			numtest.Scalar(t, "statistic", r.Statistic, tc.wantStat, 0, 1e-10)
 			got, err := r.Reject(tc.alpha)
 			if err != nil {
 				t.Fatal(err)
@@ -58,9 +68,44 @@ func TestKPSSReject(t *testing.T) {
 			}
 		})
 	}
-	r, _ := arima.KPSS(selLH, arima.KPSSSpec{})
+	r, _ := arima.KPSS(selLH, arima.KPSSSpec{LagRule: arima.LagShort})
 	if _, err := r.Reject(0.2); !errors.Is(err, almanac.ErrLevel) {
 		t.Errorf("Reject(0.2): err = %v, want ErrLevel", err)
+	}
+}
+
+// TestKPSSLagRules checks the lag each rule gives for the fixture series'
+// lengths, from the rules' formulas: ⌊3√n/13⌋ (common practice), ⌊4 (n/100)^(1/4)⌋
+// (Kwiatkowski et al. 1992) and ⌈12 (n/100)^(1/4)⌉ (statsmodels' legacy
+// rule; the fixtures' spec.nlags_legacy_value gives 10, 12 and 14).
+func TestKPSSLagRules(t *testing.T) {
+	tests := []struct {
+		name string
+		y    []float64
+		rule arima.LagRule
+		want int
+	}{
+		{"square root, n = 48", selLH, arima.LagSquareRoot, 1},
+		{"square root, n = 100", selNile, arima.LagSquareRoot, 2},
+		{"square root, n = 143", diffLog(selAirPassengers), arima.LagSquareRoot, 2},
+		{"short, n = 48", selLH, arima.LagShort, 3},
+		{"short, n = 100", selNile, arima.LagShort, 4},
+		{"legacy, n = 48 (fixture kpss_lh)", selLH, arima.LagLegacy, 10},
+		{"legacy, n = 100 (fixture kpss_nile)", selNile, arima.LagLegacy, 12},
+		{"legacy, n = 143 (fixture kpss_airpassengers_difflog)", diffLog(selAirPassengers), arima.LagLegacy, 14},
+		{"square root capped at n−1", []float64{1, 3, 2}, arima.LagSquareRoot, 0},
+		{"legacy capped at n−1", []float64{1, 3, 2, 5}, arima.LagLegacy, 3},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			r, err := arima.KPSS(tc.y, arima.KPSSSpec{LagRule: tc.rule})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if r.Lags != tc.want {
+				t.Errorf("lags %d, want %d", r.Lags, tc.want)
+			}
+		})
 	}
 }
 
@@ -100,6 +145,8 @@ func TestKPSSEnumStrings(t *testing.T) {
 		{"level", arima.LevelStationary.String(), "level"},
 		{"trend", arima.TrendStationary.String(), "trend"},
 		{"unknown null", arima.KPSSNull(5).String(), "KPSSNull(5)"},
+		{"square root", arima.LagSquareRoot.String(), "square-root"},
+		{"short", arima.LagShort.String(), "short"},
 		{"legacy", arima.LagLegacy.String(), "legacy"},
 		{"unknown rule", arima.LagRule(-1).String(), "LagRule(-1)"},
 		{"unknown clip", arima.PValueClip(3).String(), "PValueClip(3)"},
@@ -134,12 +181,12 @@ func TestDifferences(t *testing.T) {
 		want   int
 		reason string
 	}{
-		{"lh", selLH, arima.DifferencesSpec{}, 0,
-			"statsmodels kpss(lh, 'c', 'auto') = 0.294 < 0.463 (fixture kpss_lh): not rejected at 5%"},
-		{"lh with two gaps", withGap, arima.DifferencesSpec{}, 0,
+		{"lh", selLH, arima.DifferencesSpec{Test: arima.KPSSSpec{LagRule: arima.LagShort}}, 0,
+			"statsmodels kpss(lh, 'c', 'auto'), 3 lags as the short rule = 0.294 < 0.463 (fixture kpss_lh): not rejected at 5%"},
+		{"lh with two gaps", withGap, arima.DifferencesSpec{Test: arima.KPSSSpec{LagRule: arima.LagShort}}, 0,
 			"same series with two values dropped; still far from the 5% value (property)"},
-		{"diff log AirPassengers", diffLog(selAirPassengers), arima.DifferencesSpec{}, 0,
-			"statsmodels kpss(diff(log(AirPassengers)), 'c', 'auto') = 0.038 (fixture kpss_airpassengers_difflog)"},
+		{"diff log AirPassengers", diffLog(selAirPassengers), arima.DifferencesSpec{Test: arima.KPSSSpec{LagRule: arima.LagShort}}, 0,
+			"statsmodels kpss(diff(log(AirPassengers)), 'c', nlags=4) = 0.028 < 0.463 (fixture kpss_airpassengers_difflog)"},
 		{"log AirPassengers", logOf(selAirPassengers), arima.DifferencesSpec{}, 1,
 			"log AirPassengers trends (Box & Jenkins difference it once, published.md), and its first difference is not rejected (fixture kpss_airpassengers_difflog)"},
 		{"random walk", walk, arima.DifferencesSpec{}, 1,
