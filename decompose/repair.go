@@ -60,7 +60,8 @@ const DefaultPasses = 3
 //     little weight) decomposes the filled series;
 //  3. the seasonally adjusted series y − seasonal is interpolated linearly
 //     across each gap from the observed adjusted values on either side
-//     (held constant beyond the ends) and the seasonal component is added
+//     (held at the nearest observed adjusted value before the first and
+//     after the last observation) and the seasonal component is added
 //     back at the filled positions;
 //  4. steps 2–3 are repeated Passes times.
 //

@@ -1,0 +1,244 @@
+package decompose_test
+
+import (
+	"errors"
+	"math"
+	"testing"
+	"time"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/decompose"
+	"gonum.org/v1/gonum/stat"
+)
+
+func monthly(vals []float64) almanac.Series {
+	return almanac.Series{Key: "t", Start: time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly, Values: vals}
+}
+
+func TestBadInput(t *testing.T) {
+	co2 := fixtureInput(t, "stl_co2_swin7")
+	withNaN := co2.Clone()
+	withNaN.Values[100] = math.NaN()
+	short := co2.Head(24)
+	yearly := almanac.Series{Start: co2.Start, Freq: calendar.Yearly, Values: co2.Values[:40]}
+	negative := co2.Clone()
+	negative.Values[3] = -1
+	for _, c := range []struct {
+		name   string
+		method decompose.Method
+		y      almanac.Series
+		want   error
+		reason string
+	}{
+		{"stl period 1", decompose.STL{Period: 1}, co2, decompose.ErrPeriod, "a period below 2 has no seasonal cycle"},
+		{"stl yearly frequency", decompose.STL{}, yearly, decompose.ErrPeriod, "no period from a yearly frequency"},
+		{"stl two periods", decompose.STL{}, short, almanac.ErrTooShort, "R's stl needs more than two full periods"},
+		{"stl NaN", decompose.STL{}, withNaN, almanac.ErrMissing, "gaps must be repaired first"},
+		{"stl negative window", decompose.STL{SeasonalWindow: -7}, co2, decompose.ErrWindow, "negative span"},
+		{"stl negative jump", decompose.STL{TrendJump: -1}, co2, decompose.ErrWindow, "negative jump"},
+		{"stl bad degree", decompose.STL{TrendDegree: 7}, co2, decompose.ErrWindow, "degree outside the enum"},
+		{"mstl NaN", decompose.MSTL{Periods: []float64{12}}, withNaN, almanac.ErrMissing, "gaps must be repaired first"},
+		{"mstl period 1", decompose.MSTL{Periods: []float64{1, 12}}, co2, decompose.ErrPeriod, "period below 2"},
+		{"mstl NaN period", decompose.MSTL{Periods: []float64{math.NaN()}}, co2, decompose.ErrPeriod, "non-finite period"},
+		{"mstl no period", decompose.MSTL{Periods: []float64{}}, co2, decompose.ErrPeriod, "explicit empty list"},
+		{"mstl all too long", decompose.MSTL{Periods: []float64{300}}, co2, almanac.ErrTooShort, "no period with two cycles"},
+		{"mstl window count", decompose.MSTL{Periods: []float64{12, 6}, SeasonalWindows: []int{7}}, co2, decompose.ErrWindow, "one window per period"},
+		{"classical short", decompose.Classical{}, co2.Head(23), almanac.ErrTooShort, "R's decompose needs two periods"},
+		{"classical multiplicative negative", decompose.Classical{Multiplicative: true}, negative, almanac.ErrNonPositive, "multiplicative needs positive data"},
+		{"classical period 1", decompose.Classical{Period: 1}, co2, decompose.ErrPeriod, "period below 2"},
+		{"empty", decompose.STL{}, monthly(nil), almanac.ErrEmpty, "no data"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := c.method.Decompose(c.y)
+			if !errors.Is(err, c.want) {
+				t.Fatalf("err = %v, want %v (%s)", err, c.want, c.reason)
+			}
+			if err != nil && !errors.Is(c.want, almanac.ErrEmpty) && err.Error()[:10] != "decompose:" {
+				t.Errorf("message %q does not start with the package name", err)
+			}
+		})
+	}
+	if _, err := (decompose.STL{}).Decompose(withNaN); err == nil || !contains(err.Error(), "Repair.Fill") {
+		t.Errorf("NaN error %v does not point to Repair.Fill", err)
+	}
+	if !errors.Is(decompose.ErrWindow, almanac.ErrInvalid) || !errors.Is(decompose.ErrPeriod, almanac.ErrInvalid) {
+		t.Error("package sentinels do not wrap almanac.ErrInvalid")
+	}
+}
+
+func contains(s, sub string) bool {
+	for i := 0; i+len(sub) <= len(s); i++ {
+		if s[i:i+len(sub)] == sub {
+			return true
+		}
+	}
+	return false
+}
+
+// TestEvenWindowRoundedUp: spans are raised to odd as in the Fortran of
+// Cleveland et al. (1990), and the spans used are reported.
+func TestEvenWindowRoundedUp(t *testing.T) {
+	y := fixtureInput(t, "stl_co2_swin7")
+	a, err := decompose.STL{SeasonalWindow: 6, TrendWindow: 22, LowPassWindow: 2}.Decompose(y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := decompose.STL{SeasonalWindow: 7, TrendWindow: 23, LowPassWindow: 3}.Decompose(y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := a.Settings[0]
+	if s.SeasonalWindow != 7 || s.TrendWindow != 23 || s.LowPassWindow != 3 {
+		t.Errorf("settings used %+v, want spans 7, 23, 3", s)
+	}
+	for i := range a.Trend {
+		if a.Trend[i] != b.Trend[i] || a.Seasonal[i] != b.Seasonal[i] {
+			t.Fatalf("even spans differ from the next odd ones at %d", i)
+		}
+	}
+}
+
+// TestAddBack: the components reproduce the data (sum, or product for a
+// multiplicative decomposition) to rounding.
+func TestAddBack(t *testing.T) {
+	co2 := fixtureInput(t, "stl_co2_swin7")
+	air := fixtureInput(t, "decompose_airpassengers_multiplicative")
+	week := co2Weekly(t)
+	week, _, err := decompose.Repair{}.Fill(week)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name   string
+		method decompose.Method
+		y      almanac.Series
+	}{
+		{"stl", decompose.STL{}, co2},
+		{"stl robust", decompose.STL{Robust: true}, co2},
+		{"stl periodic", decompose.STL{Periodic: true}, co2},
+		{"mstl weekly co2 13 and 52", decompose.MSTL{Periods: []float64{13, 365.25 / 7}}, week},
+		{"classical additive", decompose.Classical{}, co2},
+		{"classical multiplicative", decompose.Classical{Multiplicative: true}, air},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			d, err := c.method.Decompose(c.y)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i, v := range c.y.Values {
+				var back float64
+				if d.Multiplicative {
+					back = d.Trend[i] * d.Seasonal[i] * d.Remainder[i]
+				} else {
+					back = d.Trend[i] + d.Seasonal[i] + d.Remainder[i]
+				}
+				if math.IsNaN(d.Trend[i]) {
+					continue // classical trend ends
+				}
+				if math.Abs(back-v) > 1e-12*math.Abs(v) {
+					t.Fatalf("index %d: components give %v, data %v", i, back, v)
+				}
+			}
+			// The seasonal total is the sum of the per-period components.
+			for i := range d.Seasonal {
+				sum := 0.0
+				for _, s := range d.Seasonals {
+					sum += s[i]
+				}
+				if !d.Multiplicative && math.Abs(sum-d.Seasonal[i]) > 1e-12*(1+math.Abs(sum)) {
+					t.Fatalf("index %d: seasonal total %v, sum of components %v", i, d.Seasonal[i], sum)
+				}
+			}
+		})
+	}
+}
+
+// TestPeriodicSeasonal: STL with Periodic gives a strictly periodic
+// seasonal component (R's s.window = "periodic").
+func TestPeriodicSeasonal(t *testing.T) {
+	y := fixtureInput(t, "stl_nottem_periodic")
+	// A start that is not the first month of the year must not matter.
+	y.Start = time.Date(1920, 4, 1, 0, 0, 0, 0, time.UTC)
+	for _, robust := range []bool{false, true} {
+		d, err := decompose.STL{Periodic: true, Robust: robust}.Decompose(y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := 12; i < y.Len(); i++ {
+			if d.Seasonal[i] != d.Seasonal[i-12] {
+				t.Fatalf("robust=%v: seasonal[%d] = %v, seasonal[%d] = %v", robust, i, d.Seasonal[i], i-12, d.Seasonal[i-12])
+			}
+		}
+	}
+}
+
+// TestStrength recomputes the strength measures of Wang, Smith & Hyndman
+// (2006), F = max(0, 1 − Var(R)/Var(X + R)), with gonum's stat.Variance,
+// independently of the package's own variance code.
+func TestStrength(t *testing.T) {
+	for _, c := range []struct {
+		name   string
+		method decompose.Method
+		fix    string
+	}{
+		{"stl co2", decompose.STL{SeasonalWindow: 7}, "stl_co2_swin7"},
+		{"classical nottem", decompose.Classical{}, "decompose_nottem_additive"},
+		{"classical multiplicative air", decompose.Classical{Multiplicative: true}, "decompose_airpassengers_multiplicative"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			d, err := c.method.Decompose(fixtureInput(t, c.fix))
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, err := d.Strength()
+			if err != nil {
+				t.Fatal(err)
+			}
+			var tr, sr, r []float64
+			for i := range d.Trend {
+				if math.IsNaN(d.Trend[i]) {
+					continue
+				}
+				T, S, R := d.Trend[i], d.Seasonal[i], d.Remainder[i]
+				if d.Multiplicative {
+					T, S, R = math.Log(T), math.Log(S), math.Log(R)
+				}
+				tr, sr, r = append(tr, T+R), append(sr, S+R), append(r, R)
+			}
+			vr := stat.Variance(r, nil)
+			wantT := math.Max(0, 1-vr/stat.Variance(tr, nil))
+			wantS := math.Max(0, 1-vr/stat.Variance(sr, nil))
+			if math.Abs(got.Trend-wantT) > 1e-12 || math.Abs(got.Seasonal[0]-wantS) > 1e-12 {
+				t.Fatalf("strength %+v, want trend %v seasonal %v", got, wantT, wantS)
+			}
+			if got.Trend < 0 || got.Trend > 1 || got.Seasonal[0] < 0 || got.Seasonal[0] > 1 {
+				t.Fatalf("strength outside [0, 1]: %+v", got)
+			}
+		})
+	}
+}
+
+// TestAdjusted: the adjusted series is y − seasonal (y / seasonal).
+func TestAdjusted(t *testing.T) {
+	air := fixtureInput(t, "decompose_airpassengers_multiplicative")
+	for _, mul := range []bool{false, true} {
+		d, err := decompose.Classical{Multiplicative: mul}.Decompose(air)
+		if err != nil {
+			t.Fatal(err)
+		}
+		a := d.Adjusted()
+		if a.Start != air.Start || a.Freq != air.Freq || a.Key != air.Key {
+			t.Fatal("adjusted series lost its key, start or frequency")
+		}
+		for i, v := range air.Values {
+			want := v - d.Seasonal[i]
+			if mul {
+				want = v / d.Seasonal[i]
+			}
+			if a.Values[i] != want {
+				t.Fatalf("mul=%v index %d: %v, want %v", mul, i, a.Values[i], want)
+			}
+		}
+	}
+}
