@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"math/rand/v2"
 	"strconv"
 	"time"
 
@@ -124,6 +125,7 @@ var (
 	_ almanac.Model        = Theta{}
 	_ almanac.Fitted       = (*ThetaFit)(nil)
 	_ almanac.ParamCounter = (*ThetaFit)(nil)
+	_ almanac.Simulator    = (*ThetaFit)(nil)
 )
 
 // ThetaFit is a Theta method fitted to one series. It implements
@@ -329,6 +331,46 @@ func (f *ThetaFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) 
 		return almanac.Forecast{}, fmt.Errorf("smoothing: theta: %w", err)
 	}
 	return fc, nil
+}
+
+// Simulate returns n sample paths of h future steps (paths[i][step]) from
+// the state-space form behind the intervals: on the adjusted scale,
+// y_{n+j} = L_{j−1} + Drift·(j − 1 + (1 − (1−α)^n)/α) + e_j and
+// L_j = L_{j−1} + α·e_j with L_0 = ℓ_n and e_j independent N(0, σ²);
+// each value is then multiplied by its seasonal index when the series was
+// adjusted. The mean and variance of each step equal the point forecast
+// and the interval variance. The draws come from src only, so the same
+// source state gives the same paths.
+//
+// Special cases: h < 1 gives an error wrapping almanac.ErrHorizon; n < 1
+// or a nil src one wrapping almanac.ErrInvalid.
+func (f *ThetaFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
+	if err := almanac.CheckHorizon(h); err != nil {
+		return nil, fmt.Errorf("smoothing: theta: %w", err)
+	}
+	if n < 1 || src == nil {
+		return nil, fmt.Errorf("smoothing: theta: %w: need n ≥ 1 paths and a random source (have n = %d, nil source %v)", almanac.ErrInvalid, n, src == nil)
+	}
+	rng := rand.New(src)
+	a := f.Alpha
+	c := (1 - math.Pow(1-a, float64(f.n))) / a
+	sigma := math.Sqrt(f.Sigma2)
+	paths := make([][]float64, n)
+	for i := range paths {
+		p := make([]float64, h)
+		level := f.Level
+		for j := range p {
+			e := sigma * rng.NormFloat64()
+			v := level + f.Drift*(float64(j)+c) + e
+			level += a * e
+			if f.Adjusted {
+				v *= f.Indices[(f.n+j)%f.Period]
+			}
+			p[j] = v
+		}
+		paths[i] = p
+	}
+	return paths, nil
 }
 
 // FittedValues returns the in-sample one-step forecasts: for observation

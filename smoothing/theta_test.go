@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"math/rand/v2"
 	"sync"
 	"testing"
 	"time"
@@ -490,4 +491,59 @@ func TestThetaNumParams(t *testing.T) {
 		t.Errorf("fixed α, no season: NumParams = %d, want 2", got)
 	}
 	var _ almanac.ParamCounter = f
+}
+
+// TestThetaSimulate: the simulated paths reproduce the forecast mean and
+// the analytic interval (Monte Carlo check of the ETS(A,N,N) variance
+// σ²(1 + α²(h−1)), common practice), the same seed gives the same paths,
+// and bad arguments are refused.
+func TestThetaSimulate(t *testing.T) {
+	f := fitTheta(t, smoothing.Theta{}, airPassengers(t))
+	const h, n = 6, 20000
+	paths, err := f.Simulate(h, n, rand.NewPCG(1, 2))
+	if err != nil {
+		t.Fatal(err)
+	}
+	fc, err := f.Forecast(h, 90)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for j := range h {
+		mean, sq := 0.0, 0.0
+		for _, p := range paths {
+			mean += p[j]
+		}
+		mean /= n
+		for _, p := range paths {
+			sq += (p[j] - mean) * (p[j] - mean)
+		}
+		sd := math.Sqrt(sq / (n - 1))
+		// Analytic SD from the 90% bound: (upper − mean)/z_0.95.
+		want := (fc.Intervals[0].Upper[j] - fc.Mean[j]) / 1.6448536269514722
+		// Standard errors: mean sd/√n, SD about sd/√(2n); 5 of them.
+		numtest.Scalar(t, "path mean", mean, fc.Mean[j], 5*want/math.Sqrt(n), 0)
+		numtest.Scalar(t, "path sd", sd, want, 5*want/math.Sqrt(2*n), 0)
+	}
+	again, _ := f.Simulate(h, n, rand.NewPCG(1, 2))
+	for i := range paths {
+		for j := range paths[i] {
+			if math.Float64bits(paths[i][j]) != math.Float64bits(again[i][j]) {
+				t.Fatalf("path %d step %d differs with the same seed", i, j)
+			}
+		}
+	}
+	for _, c := range []struct {
+		name string
+		h, n int
+		src  rand.Source
+		want error
+	}{
+		{"h 0", 0, 10, rand.NewPCG(1, 1), almanac.ErrHorizon},
+		{"n 0", 3, 0, rand.NewPCG(1, 1), almanac.ErrInvalid},
+		{"nil source", 3, 10, nil, almanac.ErrInvalid},
+	} {
+		if _, err := f.Simulate(c.h, c.n, c.src); !errors.Is(err, c.want) {
+			t.Errorf("%s: %v, want %v", c.name, err, c.want)
+		}
+	}
 }
