@@ -164,55 +164,45 @@ func (f form) multiplicativeLevel() bool {
 // admissible reports whether the parameters lie in the forecastability
 // region of the linear state-space form: all eigenvalues of the discount
 // matrix D = F − g·w' inside the unit circle (Hyndman, Koehler, Ord &
-// Snyder 2008, ch. 10). For non-seasonal models the region has the
-// closed form below; for seasonal ones the characteristic polynomial of
-// D (of degree m+1, coefficients as in ch. 10, recalled from memory) is
-// tested with the Schur–Cohn recursion, which needs no root finding and
-// no allocation for m ≤ MaxPeriod. The same conditions are applied to
+// Snyder 2008, ch. 10), apart from the unit eigenvalue that seasonal
+// models always have (the level/season redundancy removed by the
+// normalisation). The characteristic polynomial of D, with that root
+// divided out, was derived for this package from the eigenvector
+// equations of D for the state (ℓ, b, s_1..s_m):
+//
+//	Q(z) = (1 + z + … + z^{m−1})·[(φ − z)(1 − α − z) + φβz] − γ(φ − z)
+//
+// (φ = β = 0 without a trend; without a season Q(z) = (φ − z)(1 − α − z)
+// + φβz). TestSchurStable checks it against the eigenvalues of D computed
+// by gonum. Roots are tested with the Schur–Cohn recursion, which needs
+// no root finding and no allocation. The same conditions are applied to
 // the multiplicative forms (common practice).
 func admissible(f form, p Params) bool {
-	phi := 1.0
-	if f.trend.damped() {
-		phi = p.Phi
-	}
-	if !(phi > 0 && phi <= 1+1e-8) {
-		return false
+	phi, beta := 0.0, 0.0
+	if f.trend != NoTrend {
+		phi, beta = 1, p.Beta
+		if f.trend.damped() {
+			phi = p.Phi
+		}
 	}
 	alpha := p.Alpha
-	beta := 0.0
-	if f.trend != NoTrend {
-		beta = p.Beta
-	}
+	var buf [MaxPeriod + 2]float64
 	if f.season == NoSeason || f.m < 2 {
-		if alpha < 1-1/phi || alpha > 1+1/phi {
-			return false
-		}
-		if f.trend != NoTrend && (beta < alpha*(phi-1) || beta > (1+phi)*(2-alpha)) {
-			return false
-		}
-		return true
+		c := buf[:3]
+		c[0] = phi * (1 - alpha)
+		c[1] = -(1 + phi - alpha - phi*beta)
+		c[2] = 1
+		return schurStable(c, 1e-10)
 	}
 	m := f.m
 	gamma := p.Gamma
-	if gamma < math.Max(1-1/phi-alpha, 0) || gamma > 1+1/phi-alpha {
-		return false
-	}
-	if alpha < 1-1/phi-gamma*(1-float64(m)+phi+phi*float64(m))/(2*phi*float64(m)) {
-		return false
-	}
-	if beta < -(1-phi)*(gamma/float64(m)+alpha) {
-		return false
-	}
-	// Characteristic polynomial, ascending powers:
-	// φ(1−α−γ), α+β−αφ+γ−1, (α+β−αφ) × (m−2), α+β−φ, 1.
-	var buf [MaxPeriod + 2]float64
 	c := buf[:m+2]
 	c[0] = phi * (1 - alpha - gamma)
-	c[1] = alpha + beta - alpha*phi + gamma - 1
+	c[1] = alpha - phi*alpha + phi*beta + gamma - 1
 	for k := 2; k < m; k++ {
-		c[k] = alpha + beta - alpha*phi
+		c[k] = alpha - phi*alpha + phi*beta
 	}
-	c[m] = alpha + beta - phi
+	c[m] = alpha + phi*beta - phi
 	c[m+1] = 1
 	return schurStable(c, 1e-10)
 }
@@ -224,6 +214,9 @@ func admissible(f form, p Params) bool {
 // circle iff |a_0| < |a_d| and all roots of (a_d·A(z) − a_0·A*(z))/z do.
 // The tolerance is applied by testing A((1+tol)z). c is overwritten.
 func schurStable(c []float64, tol float64) bool {
+	if len(c) > MaxPeriod+2 {
+		panic("smoothing: schurStable: polynomial degree above MaxPeriod+1") // internal invariant
+	}
 	r := 1 + tol
 	pw := 1.0
 	for k := range c {
@@ -235,9 +228,11 @@ func schurStable(c []float64, tol float64) bool {
 		if !(math.Abs(a0) < math.Abs(ad)) {
 			return false
 		}
+		var tmp [MaxPeriod + 2]float64
 		for i := 0; i < d; i++ {
-			c[i] = ad*c[i+1] - a0*c[d-1-i]
+			tmp[i] = ad*c[i+1] - a0*c[d-1-i]
 		}
+		copy(c, tmp[:d])
 		// c now has degree d−1 (entries 0..d−1); rescale to avoid
 		// overflow.
 		mx := 0.0
