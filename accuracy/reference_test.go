@@ -1,13 +1,17 @@
 package accuracy_test
 
 import (
+	"context"
 	"fmt"
 	"maps"
 	"slices"
 	"strconv"
 	"testing"
+	"time"
 
+	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/accuracy"
+	"github.com/almanac-go/almanac/calendar"
 	"github.com/almanac-go/almanac/internal/numtest"
 	"github.com/almanac-go/almanac/internal/reftest"
 )
@@ -21,6 +25,9 @@ func TestReference(t *testing.T) {
 		"accuracy_measures": checkMeasures,
 		"acf_pacf":          checkACF,
 		"portmanteau":       checkPortmanteau,
+		// Naive2's seasonal indices come from a classical multiplicative
+		// decomposition; checked against R's decompose.
+		"classical_decomposition": checkNaive2Indices,
 	})
 }
 
@@ -211,4 +218,27 @@ func checkPortmanteau(t *testing.T, f *reftest.Fixture) {
 			numtest.Scalar(t, "p_value", got.PValue, f.Float(t, p+"p_value"), abs, rel)
 		})
 	}
+}
+
+// checkNaive2Indices: kind classical_decomposition (multiplicative only).
+// Reference: R stats::decompose(x, type = "multiplicative"), whose figure
+// is the seasonal index set that Naive2 divides by (M4 competition's
+// benchmark: classical multiplicative decomposition when the series passes
+// the 90% seasonality test).
+func checkNaive2Indices(t *testing.T, f *reftest.Fixture) {
+	if typ := f.String("spec.type"); typ != "multiplicative" {
+		t.Fatalf("%s: Naive2 uses multiplicative decomposition only, fixture has %q", f.Case, typ)
+	}
+	m := int(f.Float(t, "spec.period"))
+	y := almanac.Series{Key: f.Case, Start: time.Date(2000, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly, Values: f.Floats(t, "input")}
+	fit, err := accuracy.Naive2{Period: m}.Fit(context.Background(), y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	n2 := fit.(*accuracy.Naive2Fit)
+	if !n2.Seasonal() {
+		t.Fatalf("%s: Naive2 found no seasonality", f.Case)
+	}
+	abs, rel := tol(t, f, "figure")
+	numtest.Slice(t, "seasonal indices", n2.Indices(), f.Floats(t, "expect.figure"), abs, rel)
 }

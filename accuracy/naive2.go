@@ -1,0 +1,209 @@
+package accuracy
+
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/internal/seasonal"
+)
+
+// Naive2Name is the candidate name conventionally given to Naive2.
+const Naive2Name = "naive2"
+
+var _ almanac.Model = Naive2{}
+
+// Naive2 is the seasonally adjusted naive benchmark of the M3 and M4
+// competitions (Makridakis & Hibon 2000; Makridakis, Spiliotis &
+// Assimakopoulos 2020), against which M4 states its OWA. When the series
+// passes the autocorrelation seasonality test at the 90% level
+// (|r_m| > 1.645·√((1 + 2 Σ_{i<m} r_i²)/n), with n ≥ 3m), it is divided
+// by the seasonal indices of a classical multiplicative decomposition,
+// forecast by its last adjusted value, and the forecasts multiplied back
+// by the indices of their seasons; otherwise it is the naive method.
+//
+// Intervals (not part of the published method) are normal on the adjusted
+// scale, σ̂√h with σ̂² the mean squared one-step change of the adjusted
+// series, multiplied by the season's index.
+//
+// Naive2 needs complete data (almanac.ErrMissing otherwise), at least two
+// observations, and positive values when it adjusts for seasonality
+// (almanac.ErrNonPositive). The zero value takes the period from the
+// series. It is a specification, safe to share between goroutines.
+type Naive2 struct {
+	// Period is the seasonal period; 0 means y.Period(). 1 gives the naive
+	// method. Negative is invalid.
+	Period int
+}
+
+// Naive2Fit is a fitted Naive2 model, read-only and safe for concurrent
+// use.
+type Naive2Fit struct {
+	y        almanac.Series
+	period   int
+	seasonal bool
+	figure   []float64 // seasonal index by position from the first observation; nil when not seasonal
+	last     float64   // last seasonally adjusted value
+	sigma    float64   // adjusted-scale one-step standard deviation
+	fitted   []float64
+	resid    []float64
+}
+
+// Fit implements almanac.Model.
+func (m Naive2) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	if m.Period < 0 {
+		return nil, fmt.Errorf("accuracy: naive2: %w: period %d", almanac.ErrInvalid, m.Period)
+	}
+	if err := y.Validate(); err != nil {
+		return nil, fmt.Errorf("accuracy: naive2: %w", err)
+	}
+	if err := y.CheckComplete(); err != nil {
+		return nil, fmt.Errorf("accuracy: naive2: %w", err)
+	}
+	n := y.Len()
+	if n < 2 {
+		return nil, fmt.Errorf("accuracy: naive2: %w: %d observation, need 2", almanac.ErrTooShort, n)
+	}
+	p := m.Period
+	if p == 0 {
+		p = max(y.Period(), 1)
+	}
+	f := &Naive2Fit{y: y.Clone(), period: p}
+	v := f.y.Values
+	f.seasonal = p > 1 && seasonal.IsSeasonal(v, p, 1.645)
+	adj := make([]float64, n)
+	idx := func(t int) float64 { return 1 }
+	if f.seasonal {
+		if err := y.CheckPositive(); err != nil {
+			return nil, fmt.Errorf("accuracy: naive2: multiplicative seasonal adjustment: %w", err)
+		}
+		dec, err := seasonal.Classical(v, p, true)
+		if err != nil {
+			return nil, fmt.Errorf("accuracy: naive2: %w: %v", almanac.ErrTooShort, err)
+		}
+		for i, s := range dec.Figure {
+			if !(s > 0) || math.IsInf(s, 0) {
+				return nil, fmt.Errorf("accuracy: naive2: %w: seasonal index %v at position %d", almanac.ErrNotFitted, s, i)
+			}
+		}
+		f.figure = dec.Figure
+		idx = func(t int) float64 { return f.figure[t%p] }
+	}
+	for t, x := range v {
+		adj[t] = x / idx(t)
+	}
+	f.last = adj[n-1]
+	f.fitted = make([]float64, n)
+	f.resid = make([]float64, n)
+	f.fitted[0], f.resid[0] = math.NaN(), math.NaN()
+	ss := 0.0
+	for t := 1; t < n; t++ {
+		d := adj[t] - adj[t-1]
+		ss += d * d
+		f.fitted[t] = adj[t-1] * idx(t)
+		f.resid[t] = v[t] - f.fitted[t]
+	}
+	f.sigma = math.Sqrt(ss / float64(n-1))
+	return f, nil
+}
+
+// Seasonal reports whether the series passed the seasonality test and
+// was seasonally adjusted.
+func (f *Naive2Fit) Seasonal() bool { return f.seasonal }
+
+// Indices returns the multiplicative seasonal indices by position counted
+// from the first observation (a copy), or nil when the series was not
+// seasonally adjusted.
+func (f *Naive2Fit) Indices() []float64 { return append([]float64(nil), f.figure...) }
+
+// String returns "Naive2[m]" when the series was seasonally adjusted with
+// period m and "Naive2" otherwise.
+func (f *Naive2Fit) String() string {
+	if f.seasonal {
+		return fmt.Sprintf("Naive2[%d]", f.period)
+	}
+	return "Naive2"
+}
+
+// FittedValues returns the one-step in-sample forecasts (a copy); the
+// first is NaN.
+func (f *Naive2Fit) FittedValues() []float64 { return append([]float64(nil), f.fitted...) }
+
+// Residuals returns y − FittedValues() (a copy).
+func (f *Naive2Fit) Residuals() []float64 { return append([]float64(nil), f.resid...) }
+
+// Forecast implements almanac.Fitted. Special cases: h < 1 wraps
+// almanac.ErrHorizon, a level outside (0, 100) almanac.ErrLevel.
+func (f *Naive2Fit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	if err := almanac.CheckHorizon(h); err != nil {
+		return almanac.Forecast{}, err
+	}
+	if err := almanac.CheckLevels(levels...); err != nil {
+		return almanac.Forecast{}, err
+	}
+	n := f.y.Len()
+	mean := make([]float64, h)
+	sd := make([]float64, h)
+	for j := range h {
+		s := 1.0
+		if f.seasonal {
+			s = f.figure[(n+j)%f.period]
+		}
+		mean[j] = f.last * s
+		sd[j] = f.sigma * math.Sqrt(float64(j+1)) * s
+	}
+	return almanac.NewForecast(f.y.Time(n), f.y.Freq, mean, &almanac.Normal{Mean: mean, SD: sd}, levels...)
+}
+
+// OWA returns the overall weighted average of the M4 competition,
+// ½·(sMAPE/sMAPE_Naive2 + MASE/MASE_Naive2): below 1 the method beat
+// Naive2 on the two measures together. M4 computes it from the sMAPE and
+// MASE averaged over all series.
+//
+// Special cases: a NaN, infinite or negative input wraps
+// almanac.ErrInvalid; a Naive2 measure of 0 wraps ErrUndefined.
+func OWA(smape, mase, smapeNaive2, maseNaive2 float64) (float64, error) {
+	for _, v := range [4]float64{smape, mase, smapeNaive2, maseNaive2} {
+		if !(v >= 0) || math.IsInf(v, 0) {
+			return math.NaN(), fmt.Errorf("accuracy: OWA: %w: measure %v", almanac.ErrInvalid, v)
+		}
+	}
+	if smapeNaive2 == 0 || maseNaive2 == 0 {
+		return math.NaN(), fmt.Errorf("accuracy: OWA: %w: a Naive2 measure is 0", ErrUndefined)
+	}
+	return (smape/smapeNaive2 + mase/maseNaive2) / 2, nil
+}
+
+// OWA returns the M4 OWA of the run named model against the run named
+// naive2 (for instance Naive2Name), from their Overall sMAPE and MASE.
+// Unknown names wrap almanac.ErrInvalid.
+func (c *Comparison) OWA(model, naive2 string) (float64, error) {
+	a, ok := c.Run(model)
+	b, ok2 := c.Run(naive2)
+	if !ok || !ok2 {
+		return math.NaN(), fmt.Errorf("accuracy: OWA: %w: no run named %q or %q", almanac.ErrInvalid, model, naive2)
+	}
+	return OWA(a.Overall.SMAPE, a.Overall.MASE, b.Overall.SMAPE, b.Overall.MASE)
+}
+
+// OWA returns the M4 OWA of candidate model against candidate naive2
+// from the sMAPE and MASE averaged over the series (Mean), as M4 does.
+func (b *BatchComparison) OWA(model, naive2 string) (float64, error) {
+	i, j := -1, -1
+	for k, n := range b.Names {
+		if n == model {
+			i = k
+		}
+		if n == naive2 {
+			j = k
+		}
+	}
+	if i < 0 || j < 0 {
+		return math.NaN(), fmt.Errorf("accuracy: OWA: %w: no candidate named %q or %q", almanac.ErrInvalid, model, naive2)
+	}
+	return OWA(b.Mean[i].SMAPE, b.Mean[i].MASE, b.Mean[j].SMAPE, b.Mean[j].MASE)
+}
