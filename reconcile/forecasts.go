@@ -194,7 +194,7 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 		}
 	}
 	// Correlation of the base forecast errors.
-	var corr *mat.SymDense
+	var corr *mat.Dense
 	if spec.Residuals != nil {
 		kind := Shrinkage
 		if p.method == MethodMinTSample {
@@ -204,10 +204,10 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 		if err != nil {
 			return nil, err
 		}
-		corr = mat.NewSymDense(n, nil)
+		corr = mat.NewDense(n, n, nil)
 		for i := 0; i < n; i++ {
-			for j := i; j < n; j++ {
-				corr.SetSym(i, j, est.W.At(i, j)/math.Sqrt(est.W.At(i, i)*est.W.At(j, j)))
+			for j := 0; j < n; j++ {
+				corr.Set(i, j, est.W.At(i, j)/math.Sqrt(est.W.At(i, i)*est.W.At(j, j)))
 			}
 		}
 	}
@@ -220,7 +220,8 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 	y := make([]float64, n)
 	b := make([]float64, c.m)
 	rec := make([]float64, n)
-	var sg0, sg, a mat.Dense
+	var sg0 *mat.Dense
+	var sg mat.Dense
 	for t := 0; t < h; t++ {
 		for i, d := range normals {
 			y[i] = d.Mean[t]
@@ -231,9 +232,9 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 		c.aggregateRow(rec, b)
 		// M = S G_t D_t; variance of node i = m_i R m_i'.
 		if t == 0 || p.split != nil && !p.split.fixed {
-			sg0.Mul(c.s, p.gAt(t))
+			sg0 = sumRows(c, p.gAt(t))
 		}
-		sg.CloneFrom(&sg0)
+		sg.CloneFrom(sg0)
 		for i := 0; i < n; i++ {
 			row := sg.RawRowView(i)
 			for k := range row {
@@ -253,7 +254,7 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 			}
 			continue
 		}
-		a.Mul(&sg, corr)
+		a := mulSerial(&sg, corr)
 		for i := 0; i < n; i++ {
 			ai, mi := a.RawRowView(i), sg.RawRowView(i)
 			var v float64

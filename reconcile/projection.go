@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/mat"
 )
 
@@ -222,4 +223,37 @@ func constraintForm(c *core, w *weights, what string) (*mat.Dense, error) {
 		}
 	}
 	return g, nil
+}
+
+// sumRows returns S·g (n × cols) for g with m rows: row i is the sum of
+// the rows of g for the bottom series under node i.
+func sumRows(c *core, g mat.Matrix) *mat.Dense {
+	_, cols := g.Dims()
+	gd := mat.DenseCopyOf(g)
+	out := mat.NewDense(c.n(), cols, nil)
+	for i, bs := range c.bottoms {
+		dst := out.RawRowView(i)
+		for _, j := range bs {
+			floats.Add(dst, gd.RawRowView(j))
+		}
+	}
+	return out
+}
+
+// mulSerial returns a·b for dense a (r × k) and b (k × c), row by row on
+// the calling goroutine (gonum's general product may start goroutines for
+// large matrices; this package starts none).
+func mulSerial(a, b *mat.Dense) *mat.Dense {
+	r, _ := a.Dims()
+	_, c := b.Dims()
+	out := mat.NewDense(r, c, nil)
+	for i := 0; i < r; i++ {
+		dst := out.RawRowView(i)
+		for l, v := range a.RawRowView(i) {
+			if v != 0 {
+				floats.AddScaled(dst, v, b.RawRowView(l))
+			}
+		}
+	}
+	return out
 }

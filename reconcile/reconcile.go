@@ -377,9 +377,8 @@ func ReconciledCovariance(st Structure, g mat.Matrix, w mat.Symmetric) (*mat.Sym
 	if w.SymmetricDim() != n {
 		return nil, fmt.Errorf("reconcile: %w: %w: W is %d × %d, want %d × %d", ErrDimension, almanac.ErrLength, w.SymmetricDim(), w.SymmetricDim(), n, n)
 	}
-	var sg, tmp mat.Dense
-	sg.Mul(c.s, g)  // n × n
-	tmp.Mul(&sg, w) // n × n
+	sg := sumRows(c, g)                      // S G, n × n
+	tmp := mulSerial(sg, mat.DenseCopyOf(w)) // S G W, n × n
 	out := mat.NewSymDense(n, nil)
 	for i := 0; i < n; i++ {
 		ti := tmp.RawRowView(i)
