@@ -384,3 +384,36 @@ func TestBacktestFailureDeterministic(t *testing.T) {
 		}
 	}
 }
+
+// cancelling is a test-only model that cancels the backtest's context
+// from inside its third fit, then behaves like the naive method.
+type cancelling struct {
+	cancel context.CancelFunc
+	calls  *int
+	mu     *sync.Mutex
+}
+
+func (c cancelling) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	c.mu.Lock()
+	*c.calls++
+	if *c.calls == 3 {
+		c.cancel()
+	}
+	c.mu.Unlock()
+	return almanac.Naive{}.Fit(ctx, y)
+}
+
+func TestBacktestCancelledMidway(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	calls := 0
+	m := cancelling{cancel: cancel, calls: &calls, mu: &sync.Mutex{}}
+	bt := accuracy.Backtest{Horizon: 1, Origins: 50, Workers: 2, NoBenchmarks: true}
+	c, err := bt.Run(ctx, airPassengers(t), accuracy.Candidate{Name: "c", Model: m})
+	if !errors.Is(err, context.Canceled) || c != nil {
+		t.Fatalf("error %v, result %v; want context.Canceled and no result", err, c != nil)
+	}
+	if calls >= 50 {
+		t.Errorf("%d fits after cancellation at the third, want the pool to stop early", calls)
+	}
+}

@@ -210,8 +210,9 @@ type Residuals struct {
 	MaxLag int
 	// Lag is the number of autocorrelations in the portmanteau tests. 0
 	// means min(2·Period, n/5) for a seasonal Period > 1 and min(10, n/5)
-	// otherwise (common practice, Hyndman & Athanasopoulos, "Forecasting:
-	// principles and practice", §5.4), and at least FitDF + 1.
+	// otherwise (common practice, as advised in Hyndman & Athanasopoulos,
+	// "Forecasting: principles and practice", §5.4 — recalled from
+	// memory), and at least FitDF + 1.
 	Lag int
 	// Period is the seasonal period of the series the model was fitted
 	// to, used only for the default Lag. 0 or 1 means non-seasonal.

@@ -12,6 +12,16 @@
 // diagnostics: ACF, PACF, Autocovariances, LjungBox, BoxPierce and
 // Residuals.Diagnose for any almanac.Fitted.
 //
+// Backtest evaluates any almanac.Model by rolling origin (expanding or
+// sliding window, first origin, step, horizon, interval levels) side by
+// side with benchmarks — by default the naive and seasonal naive methods,
+// optionally Naive2, the M4 competition's seasonally adjusted naive, with
+// OWA — and reports per-origin forecasts, errors per horizon step, Scores
+// per step and overall, and Ratios to a baseline. RunBatch does the same
+// for many series and averages the scores. Comparison.WriteText prints a
+// table for the terminal and WriteCSV a long CSV; these printed layouts
+// are our own and are not a stable API (read the fields instead).
+//
 // # Missing values
 //
 // NaN marks a missing value everywhere. A measure leaves out every index
@@ -51,6 +61,19 @@
 // output is bit-identical for any number of workers. Nothing else in the
 // package starts goroutines.
 //
+// # Performance
+//
+// Measured with the package benchmarks on a 2-core box shared with other
+// jobs, so the figures are indicative: MASE over 1000 pairs ≈ 10 µs and
+// CRPSNormal ≈ 80 ns per pair, both without allocation (a test asserts
+// it); CRPSSample ≈ 60 µs per step with 1000 draws. A backtest of the
+// seasonal naive method over 24 origins of the 144-point monthly
+// AirPassengers series, 12 steps ahead with two interval levels, takes
+// ≈ 0.3 ms on one worker (≈ 0.2 ms on two); the same with
+// smoothing.Select (automatic ETS) takes ≈ 2.4 s on one worker and
+// ≈ 2.2 s on two (Select fitting its candidates on one goroutine); the
+// cost is the model fits, the scoring is negligible.
+//
 // # References
 //
 //   - Makridakis, S. & Hibon, M. (2000). The M3-Competition: results,
@@ -68,6 +91,10 @@
 //   - Ljung, G. M. & Box, G. E. P. (1978). On a measure of lack of fit in
 //     time series models. Biometrika 65, 297–303; Box, G. E. P. & Pierce,
 //     D. A. (1970). JASA 65, 1509–1526.
+//   - Matheson, J. E. & Winkler, R. L. (1976). Scoring rules for
+//     continuous probability distributions. Management Science 22,
+//     1087–1096 (CRPS); Winkler, R. L. (1972). A decision-theoretic
+//     approach to interval estimation. JASA 67, 187–191.
 //   - Tashman, L. J. (2000). Out-of-sample tests of forecasting accuracy:
 //     an analysis and review. IJF 16, 437–450 (rolling origins).
 package accuracy

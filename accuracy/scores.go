@@ -13,8 +13,10 @@ import (
 //
 // MASE, RMSSE and MSIS scale each cell's error by the naive (or seasonal
 // naive) in-sample scale of its own origin's training window, then
-// average: MASE = mean(|e|/scale), RMSSE = √mean(e²/scale²-mean), the
-// usual rolling-origin form of Hyndman & Koehler (2006).
+// average: MASE = mean(|e| / MAE-scale), RMSSE = √mean(e² / MSE-scale),
+// MSIS = mean(interval score / MAE-scale), the usual rolling-origin form
+// of Hyndman & Koehler (2006). When an origin's training window has no
+// defined scale (too short, or constant) these three are NaN.
 type Scores struct {
 	// N is the number of cells with both an actual value and a forecast.
 	N int
