@@ -238,8 +238,7 @@ func invertBlocks(pr *problem, coef []float64) {
 func (k *kalman) clone() *kalman {
 	c := &kalman{}
 	c.resize(k.p, len(k.theta), k.delta)
-	copy(c.phi, k.phi)
-	copy(c.theta, k.theta)
+	c.setARMA(k.phi, k.theta)
 	copy(c.a, k.a)
 	copy(c.pm, k.pm)
 	copy(c.pnew, k.pnew)

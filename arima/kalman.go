@@ -38,6 +38,23 @@ type kalman struct {
 
 	// Stationary covariance work space.
 	gam, psi, sys, rhs []float64
+
+	// ARMA-only filter (r states) used once the differencing states are
+	// known, see filter.
+	// px and pxnew have stride r+1 and a zero last row and column, so that
+	// the shifted element P[i+1][j+1] needs no bounds test.
+	ax, axnew []float64
+	px, pxnew []float64
+	phir, rv  []float64 // phi and R = (1, theta) padded to r
+	g         []float64 // scratch: P[0][j+1]
+
+	// Sparse rows of the transition T: row i has entries tIdx[e], tVal[e]
+	// for e in [tOff[i], tOff[i+1]). rIdx lists the non-zero elements of R.
+	tOff []int
+	tIdx []int
+	tVal []float64
+	rIdx []int
+	u    []float64 // scratch column
 }
 
 // resize prepares k for AR length p, MA length q (both multiplied out)
@@ -62,6 +79,24 @@ func (k *kalman) resize(p, q int, delta []float64) {
 	k.pm = grow(k.pm, rd*rd)
 	k.pnew = grow(k.pnew, rd*rd)
 	k.mm = grow(k.mm, rd*rd)
+	k.ax = grow(k.ax, r)
+	k.axnew = grow(k.axnew, r)
+	k.px = grow(k.px, (r+1)*(r+1))
+	k.pxnew = grow(k.pxnew, (r+1)*(r+1))
+	k.phir = grow(k.phir, r)
+	k.u = grow(k.u, rd)
+	if cap(k.tOff) < rd+1 {
+		k.tOff = make([]int, 0, rd+1)
+	}
+	if nnz := 2*r + 1 + len(k.deltaIdx) + nd; cap(k.tIdx) < nnz {
+		k.tIdx = make([]int, 0, nnz)
+		k.tVal = make([]float64, 0, nnz)
+	}
+	if cap(k.rIdx) < r {
+		k.rIdx = make([]int, 0, r)
+	}
+	k.rv = grow(k.rv, r)
+	k.g = grow(k.g, r)
 	k.gam = grow(k.gam, r+1)
 	k.psi = grow(k.psi, r+1)
 	k.sys = grow(k.sys, (p+1)*(p+1))
@@ -84,6 +119,47 @@ func (k *kalman) setARMA(phi, theta []float64) {
 	copy(k.phi, phi)
 	clear(k.theta)
 	copy(k.theta, theta)
+	clear(k.phir)
+	copy(k.phir, phi)
+	k.rv[0] = 1
+	copy(k.rv[1:], k.theta)
+	k.rIdx = k.rIdx[:0]
+	for i, v := range k.rv {
+		if v != 0 {
+			k.rIdx = append(k.rIdx, i)
+		}
+	}
+	// Rows of T: ARMA rows i < r hold φ_i in column 0 and 1 in column
+	// i+1; the first differencing row holds 1 in column 0 and delta in the
+	// differencing columns; the others shift.
+	r := k.r
+	k.tOff, k.tIdx, k.tVal = k.tOff[:0], k.tIdx[:0], k.tVal[:0]
+	for i := 0; i < r; i++ {
+		k.tOff = append(k.tOff, len(k.tIdx))
+		if i < k.p && k.phi[i] != 0 {
+			k.tIdx = append(k.tIdx, 0)
+			k.tVal = append(k.tVal, k.phi[i])
+		}
+		if i+1 < r {
+			k.tIdx = append(k.tIdx, i+1)
+			k.tVal = append(k.tVal, 1)
+		}
+	}
+	if k.nd > 0 {
+		k.tOff = append(k.tOff, len(k.tIdx))
+		k.tIdx = append(k.tIdx, 0)
+		k.tVal = append(k.tVal, 1)
+		for _, i := range k.deltaIdx {
+			k.tIdx = append(k.tIdx, r+i)
+			k.tVal = append(k.tVal, k.delta[i])
+		}
+		for i := 1; i < k.nd; i++ {
+			k.tOff = append(k.tOff, len(k.tIdx))
+			k.tIdx = append(k.tIdx, r+i-1)
+			k.tVal = append(k.tVal, 1)
+		}
+	}
+	k.tOff = append(k.tOff, len(k.tIdx))
 }
 
 // init sets the initial state (zero) and covariance: the stationary
@@ -263,121 +339,49 @@ func solveInPlace(a, b []float64, n int) bool {
 }
 
 // predict advances the state one step: anew = T a and pnew = T P T' + R R'
-// from the filtered covariance pm.
+// from the filtered covariance pm, using the sparse rows of T (at most
+// 1 + #non-zero delta entries each) and computing one triangle of pnew.
 func (k *kalman) predict() {
-	r, rd, p, q, nd := k.r, k.rd, k.p, k.q, k.nd
-	phi, theta, delta := k.phi, k.theta, k.delta
+	rd := k.rd
 	a, anew := k.a, k.anew
-	for i := 0; i < r; i++ {
-		tmp := 0.0
-		if i < r-1 {
-			tmp = a[i+1]
+	off, idx, val := k.tOff, k.tIdx, k.tVal
+	for i := 0; i < rd; i++ {
+		s := 0.0
+		for e := off[i]; e < off[i+1]; e++ {
+			s += val[e] * a[idx[e]]
 		}
-		if i < p {
-			tmp += phi[i] * a[0]
-		}
-		anew[i] = tmp
+		anew[i] = s
 	}
-	if nd > 0 {
-		for i := r + 1; i < rd; i++ {
-			anew[i] = a[i-1]
-		}
-		tmp := a[0]
-		for _, i := range k.deltaIdx {
-			tmp += delta[i] * a[r+i]
-		}
-		anew[r] = tmp
-	}
-	P, Pnew := k.pm, k.pnew
-	if nd == 0 {
-		for i := 0; i < r; i++ {
-			vi := 1.0
-			if i > 0 {
-				vi = theta[i-1]
-			}
-			for j := i; j < r; j++ {
-				tmp := vi
-				if j > 0 {
-					tmp = vi * theta[j-1]
-				}
-				if i < p && j < p {
-					tmp += phi[i] * phi[j] * P[0]
-				}
-				if i < r-1 && j < r-1 {
-					tmp += P[i+1+r*(j+1)]
-				}
-				if i < p && j < r-1 {
-					tmp += phi[i] * P[j+1]
-				}
-				if j < p && i < r-1 {
-					tmp += phi[j] * P[i+1]
-				}
-				Pnew[i+r*j] = tmp
-				Pnew[j+r*i] = tmp
-			}
-		}
-		return
-	}
-	mm := k.mm
-	// mm = T P
+	P, Pnew, u := k.pm, k.pnew, k.u
 	for j := 0; j < rd; j++ {
-		col := P[rd*j : rd*j+rd]
-		mcol := mm[rd*j : rd*j+rd]
-		p0 := col[0]
-		for i := 0; i < r-1; i++ {
-			tmp := col[i+1]
-			if i < p {
-				tmp += phi[i] * p0
+		// u = P t_j
+		clear(u)
+		for e := off[j]; e < off[j+1]; e++ {
+			v := val[e]
+			col := P[rd*idx[e] : rd*idx[e]+rd]
+			for i, c := range col {
+				u[i] += v * c
 			}
-			mcol[i] = tmp
 		}
-		if r-1 < p {
-			mcol[r-1] = phi[r-1] * p0
-		} else {
-			mcol[r-1] = 0
-		}
-		tmp := p0
-		for _, kk := range k.deltaIdx {
-			tmp += delta[kk] * col[r+kk]
-		}
-		mcol[r] = tmp
-		for i := 1; i < nd; i++ {
-			mcol[r+i] = col[r+i-1]
+		for i := j; i < rd; i++ {
+			s := 0.0
+			for e := off[i]; e < off[i+1]; e++ {
+				s += val[e] * u[idx[e]]
+			}
+			Pnew[i+rd*j] = s
 		}
 	}
-	// Pnew = mm T' (symmetric: fill both halves from rows j ≥ i).
+	for _, i := range k.rIdx {
+		ri := k.rv[i]
+		for _, j := range k.rIdx {
+			if j >= i {
+				Pnew[j+rd*i] += ri * k.rv[j]
+			}
+		}
+	}
 	for j := 0; j < rd; j++ {
-		// Pnew[j, i] = Σ_k mm[j, k] T[i, k]
-		for i := 0; i < r; i++ {
-			tmp := 0.0
-			if i < p {
-				tmp += phi[i] * mm[j]
-			}
-			if i < r-1 {
-				tmp += mm[rd*(i+1)+j]
-			}
-			Pnew[j+rd*i] = tmp
-		}
-		tmp := mm[j]
-		for _, kk := range k.deltaIdx {
-			tmp += delta[kk] * mm[rd*(r+kk)+j]
-		}
-		Pnew[j+rd*r] = tmp
-		for i := 1; i < nd; i++ {
-			Pnew[j+rd*(r+i)] = mm[rd*(r+i-1)+j]
-		}
-	}
-	for i := 0; i <= q; i++ {
-		vi := 1.0
-		if i > 0 {
-			vi = theta[i-1]
-		}
-		for j := 0; j <= q; j++ {
-			vj := 1.0
-			if j > 0 {
-				vj = theta[j-1]
-			}
-			Pnew[i+rd*j] += vi * vj
+		for i := j + 1; i < rd; i++ {
+			Pnew[j+rd*i] = Pnew[i+rd*j]
 		}
 	}
 }
@@ -392,7 +396,168 @@ type filterResult struct {
 // state set by init. When resid is not nil it receives the standardised
 // innovations v_t/√F_t (NaN where w_t is missing). On return a and pm hold
 // the filtered state and covariance after the last observation.
+//
+// Without differencing only the r ARMA states exist. With differencing and
+// no missing value, the differencing states hold observed values once the
+// first nd observations have been filtered, so their covariance is zero
+// from then on (to rounding) and the remaining steps reduce to the filter
+// of the r ARMA states on the differenced series, started from the
+// filtered ARMA block. filter takes that shortcut, which gives the same
+// sums at a fraction of the cost, and rebuilds the full state at the end.
+// With differencing and missing values it runs the full filter
+// (filterFull) throughout.
 func (k *kalman) filter(w, resid []float64) filterResult {
+	n, nd := len(w), k.nd
+	r, rd := k.r, k.rd
+	st := r + 1
+	var res filterResult
+	start := 0
+	clear(k.px)
+	clear(k.pxnew)
+	if nd > 0 {
+		fast := n > nd
+		for _, v := range w {
+			if math.IsNaN(v) {
+				fast = false
+				break
+			}
+		}
+		if !fast {
+			return k.filterFull(w, resid)
+		}
+		var rs []float64
+		if resid != nil {
+			rs = resid[:nd]
+		}
+		res = k.filterFull(w[:nd], rs)
+		for j := 0; j < r; j++ {
+			k.ax[j] = k.a[j]
+			for i := 0; i < r; i++ {
+				k.px[i+st*j] = k.pm[i+rd*j]
+			}
+		}
+		start = nd
+	} else {
+		// The first observation's prediction is the initial state.
+		clear(k.axnew)
+		for j := 0; j < r; j++ {
+			for i := 0; i < r; i++ {
+				k.pxnew[i+st*j] = k.pnew[i+rd*j]
+			}
+		}
+	}
+	delta := k.delta
+	for l := start; l < n; l++ {
+		wl := w[l]
+		for _, i := range k.deltaIdx {
+			wl -= delta[i] * w[l-1-i]
+		}
+		if l > 0 {
+			k.predictARMA()
+		}
+		P, Pnew := k.px, k.pxnew
+		if math.IsNaN(wl) { // only without differencing
+			copy(k.ax, k.axnew)
+			copy(P, Pnew)
+			if resid != nil {
+				resid[l] = math.NaN()
+			}
+			continue
+		}
+		v := wl - k.axnew[0]
+		gain := Pnew[0]
+		if gain < fLimit {
+			res.nu++
+			res.ssq += v * v / gain
+			res.sumlog += math.Log(gain)
+		}
+		if resid != nil {
+			resid[l] = v / math.Sqrt(gain)
+		}
+		f := v / gain
+		for i := 0; i < r; i++ {
+			k.ax[i] = k.axnew[i] + Pnew[i]*f
+		}
+		m := Pnew[:r]
+		for j := 0; j < r; j++ {
+			mj := m[j] / gain
+			col := P[st*j : st*j+r]
+			ncol := Pnew[st*j : st*j+r]
+			if mj == 0 {
+				for i := j; i < r; i++ {
+					v := ncol[i]
+					col[i] = v
+					P[j+st*i] = v
+				}
+				continue
+			}
+			for i := j; i < r; i++ {
+				v := ncol[i] - m[i]*mj
+				col[i] = v
+				P[j+st*i] = v
+			}
+		}
+	}
+	// Full state: ARMA block, then the nd values before the last one (the
+	// last observation is α₀ + Σ delta_i α_{r+i}).
+	clear(k.pm)
+	for j := 0; j < r; j++ {
+		k.a[j] = k.ax[j]
+		for i := 0; i < r; i++ {
+			k.pm[i+rd*j] = k.px[i+st*j]
+		}
+	}
+	for i := 0; i < nd; i++ {
+		k.a[r+i] = w[n-2-i]
+	}
+	return res
+}
+
+// predictARMA is predict for the ARMA block alone (states ax, covariance
+// px with stride r+1):
+// Pnew[i][j] = P[i+1][j+1] + φ_i(φ_j P[0][0] + P[0][j+1]) + φ_j P[0][i+1] + R_i R_j.
+func (k *kalman) predictARMA() {
+	r, p := k.r, k.p
+	st := r + 1
+	phi := k.phir
+	a, anew := k.ax, k.axnew
+	for i := 0; i < r-1; i++ {
+		anew[i] = a[i+1] + phi[i]*a[0]
+	}
+	anew[r-1] = phi[r-1] * a[0]
+	P, Pnew, rv, g := k.px, k.pxnew, k.rv, k.g
+	p0 := P[0]
+	for j := 0; j < r; j++ {
+		g[j] = P[st*(j+1)] // P[0][j+1]; zero border for j = r−1
+	}
+	if p == 0 {
+		for j := 0; j < r; j++ {
+			src := P[st*(j+1)+1 : st*(j+1)+1+r]
+			dst := Pnew[st*j : st*j+r]
+			rj := rv[j]
+			for i := j; i < r; i++ {
+				v := src[i] + rv[i]*rj
+				dst[i] = v
+				Pnew[j+st*i] = v
+			}
+		}
+		return
+	}
+	for j := 0; j < r; j++ {
+		src := P[st*(j+1)+1 : st*(j+1)+1+r]
+		dst := Pnew[st*j : st*j+r]
+		rj, pj := rv[j], phi[j]
+		cj := pj*p0 + g[j]
+		for i := j; i < r; i++ {
+			v := src[i] + phi[i]*cj + pj*g[i] + rv[i]*rj
+			dst[i] = v
+			Pnew[j+st*i] = v
+		}
+	}
+}
+
+// filterFull is filter without the shortcut.
+func (k *kalman) filterFull(w, resid []float64) filterResult {
 	var res filterResult
 	rd, r, nd := k.rd, k.r, k.nd
 	delta := k.delta
@@ -450,8 +615,10 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 			mj := M[j] / gain
 			col := P[rd*j : rd*j+rd]
 			ncol := Pnew[rd*j : rd*j+rd]
-			for i := 0; i < rd; i++ {
-				col[i] = ncol[i] - M[i]*mj
+			for i := j; i < rd; i++ {
+				v := ncol[i] - M[i]*mj
+				col[i] = v
+				P[j+rd*i] = v
 			}
 		}
 	}

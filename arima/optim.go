@@ -20,7 +20,8 @@ import (
 type quasiNewton struct {
 	relTol  float64 // stop when an accepted step improves f by ≤ relTol·(|f|+relTol)
 	maxIter int     // gradient evaluations allowed
-	h       float64 // central-difference step of the numerical gradient
+	h       float64 // step of the numerical gradient
+	forward bool    // forward differences (n evaluations) instead of central (2n)
 
 	n                  int
 	b, x, g, c, t, xp  []float64
@@ -39,8 +40,17 @@ func newQuasiNewton(n int) *quasiNewton {
 }
 
 // grad writes the central-difference gradient of f at b into g.
-func (q *quasiNewton) grad(f func([]float64) float64, b, g []float64) {
+func (q *quasiNewton) grad(f func([]float64) float64, b []float64, fb float64, g []float64) {
 	copy(q.xp, b)
+	if q.forward {
+		for i := range b {
+			q.xp[i] = b[i] + q.h
+			g[i] = (f(q.xp) - fb) / q.h
+			q.xp[i] = b[i]
+		}
+		q.funcCount += len(b)
+		return
+	}
 	for i := range b {
 		q.xp[i] = b[i] + q.h
 		fp := f(q.xp)
@@ -72,7 +82,7 @@ func (q *quasiNewton) minimize(ctx context.Context, f func([]float64) float64, x
 		return append([]float64(nil), b...), fmin, true, nil
 	}
 	copy(q.best, b)
-	q.grad(f, b, g)
+	q.grad(f, b, fmin, g)
 	q.gradCnt = 1
 	iter := 1
 	ilast := q.gradCnt
@@ -134,7 +144,7 @@ func (q *quasiNewton) minimize(ctx context.Context, f func([]float64) float64, x
 			}
 			if count < n {
 				fmin = fv
-				q.grad(f, b, g)
+				q.grad(f, b, fv, g)
 				q.gradCnt++
 				iter++
 				d1 := 0.0

@@ -1,0 +1,90 @@
+package arima
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"testing"
+	"time"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/internal/reftest"
+)
+
+// logAirPassengers returns log(AirPassengers), Box & Jenkins' Series G,
+// from the reference fixture's input (R's log of the R dataset).
+func logAirPassengers(tb testing.TB) almanac.Series {
+	tb.Helper()
+	f, err := reftest.Load("testdata/reference/airpassengers_log_airline.json")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return almanac.Series{Key: "log air passengers", Start: time.Date(1949, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly, Values: f.Floats(tb, "input")}
+}
+
+var airline = Spec{D: 1, Q: 1, SD: 1, SQ: 1, Method: ML}
+
+// BenchmarkFitAirline fits the airline model to log air passengers (144
+// monthly values) by ML and by CSS then ML.
+func BenchmarkFitAirline(b *testing.B) {
+	y := logAirPassengers(b)
+	for _, m := range []Method{ML, CSSThenML, CSS} {
+		s := airline
+		s.Method = m
+		b.Run(m.String(), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := s.Fit(context.Background(), y); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+// mlObjectiveOf prepares the ML objective of spec on y at its starting
+// point, as Fit does.
+func mlObjectiveOf(tb testing.TB, s Spec, y almanac.Series) (func([]float64) float64, []float64) {
+	tb.Helper()
+	lay, err := s.resolve(y)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	pr := newProblem(lay, y.Slice(), nil, s.Fixed)
+	x0 := make([]float64, len(pr.free))
+	for i := range x0 {
+		x0[i] = -0.3
+	}
+	return func(x []float64) float64 { return pr.mlObjective(x, true) }, x0
+}
+
+// BenchmarkLikelihood evaluates the exact likelihood of the airline model
+// (27 states) and of an ARMA(2,1) with seasonal AR on series of growing
+// length.
+func BenchmarkLikelihood(b *testing.B) {
+	base := logAirPassengers(b)
+	for _, tc := range []struct {
+		name string
+		spec Spec
+	}{
+		{"airline", airline},
+		{"ARIMA(2,0,1)(1,0,0)[12]", Spec{P: 2, Q: 1, SP: 1, Constant: ConstantNone, Method: ML}},
+	} {
+		for _, n := range []int{144, 576} {
+			vals := make([]float64, n)
+			for i := range vals {
+				vals[i] = base.Values[i%144] + 0.1*math.Floor(float64(i)/144)
+			}
+			y := base
+			y.Values = vals
+			f, x0 := mlObjectiveOf(b, tc.spec, y)
+			b.Run(fmt.Sprintf("%s/n=%d", tc.name, n), func(b *testing.B) {
+				b.ReportAllocs()
+				for b.Loop() {
+					f(x0)
+				}
+			})
+		}
+	}
+}
