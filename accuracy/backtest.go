@@ -525,6 +525,12 @@ type BatchComparison struct {
 	// measure: the ratio of averages across series, as the M4 competition
 	// relates sMAPE and MASE to its benchmark.
 	Relative []Ratios
+	// AvgRelMAE[c] is the geometric mean over the series of candidate c's
+	// MAE relative to the baseline's, each series weighted by its number
+	// of scored cells: (Π_i r_i^{n_i})^{1/Σ n_i} (Davydenko & Fildes 2013,
+	// recalled from memory). NaN when a ratio is undefined (a baseline MAE
+	// of 0, a model MAE of 0, or no cells).
+	AvgRelMAE []float64
 }
 
 // RunBatch backtests the models on every series, fitting all (series,
@@ -574,6 +580,27 @@ func (b Backtest) RunBatch(ctx context.Context, ys []almanac.Series, models ...C
 	base := bc.Mean[plans[0].baseline]
 	for c := range bc.Names {
 		bc.Relative = append(bc.Relative, bc.Mean[c].RelativeTo(base))
+		bc.AvgRelMAE = append(bc.AvgRelMAE, avgRelMAE(bc.Series, c, plans[0].baseline))
 	}
 	return bc, nil
+}
+
+// avgRelMAE is the cell-weighted geometric mean over the series of run
+// c's MAE divided by run base's.
+func avgRelMAE(series []*Comparison, c, base int) float64 {
+	var sumLog float64
+	var cells int
+	for _, cmp := range series {
+		a, b := cmp.Runs[c].Overall, cmp.Runs[base].Overall
+		r := a.MAE / b.MAE
+		if a.N == 0 || !(r > 0) || math.IsInf(r, 0) {
+			return math.NaN()
+		}
+		sumLog += float64(a.N) * math.Log(r)
+		cells += a.N
+	}
+	if cells == 0 {
+		return math.NaN()
+	}
+	return math.Exp(sumLog / float64(cells))
 }

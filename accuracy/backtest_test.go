@@ -417,3 +417,92 @@ func TestBacktestCancelledMidway(t *testing.T) {
 		t.Errorf("%d fits after cancellation at the third, want the pool to stop early", calls)
 	}
 }
+
+// pathModel is a test-only model forecasting the last value with a
+// fixed set of sample paths (last + offsets), or, when mapped is set, a
+// mapped distribution (for which no exact CRPS exists).
+type pathModel struct {
+	offsets []float64
+	mapped  bool
+}
+
+type pathFit struct {
+	last    float64
+	offsets []float64
+	mapped  bool
+}
+
+func (m pathModel) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	return pathFit{y.Values[y.Len()-1], m.offsets, m.mapped}, nil
+}
+
+func (f pathFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	mean := make([]float64, h)
+	paths := make([][]float64, len(f.offsets))
+	for i, o := range f.offsets {
+		paths[i] = make([]float64, h)
+		for s := range h {
+			paths[i][s] = f.last + o*float64(s+1)
+			mean[s] = f.last
+		}
+	}
+	var d almanac.Distribution = &almanac.Sample{Paths: paths}
+	if f.mapped {
+		d = &almanac.Mapped{Base: d, Map: func(x float64) float64 { return x }}
+	}
+	return almanac.NewForecast(time.Time{}, calendar.Monthly, mean, d, levels...)
+}
+func (f pathFit) FittedValues() []float64 { return nil }
+func (f pathFit) Residuals() []float64    { return nil }
+func (f pathFit) String() string          { return "Paths" }
+
+func TestBacktestSampleCRPS(t *testing.T) {
+	y := airPassengers(t)
+	off := []float64{-9, -4, -1, 0, 2, 5, 11}
+	bt := accuracy.Backtest{Horizon: 4, Origins: 5, Step: 2, NoBenchmarks: true, Levels: []float64{50}}
+	c, err := bt.Run(context.Background(), y,
+		accuracy.Candidate{Name: "paths", Model: pathModel{offsets: off}},
+		accuracy.Candidate{Name: "mapped", Model: pathModel{offsets: off, mapped: true}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Every origin scores 4 steps, so the overall CRPS is the mean of the
+	// per-origin CRPSSample values.
+	sum := 0.0
+	for k, o := range c.Origins {
+		v, err := accuracy.CRPSSample(y.Values[o.Index:o.Index+4], c.Runs[0].Forecasts[k].SamplePaths())
+		if err != nil {
+			t.Fatal(err)
+		}
+		sum += v
+	}
+	numtest.Scalar(t, "CRPS", c.Runs[0].Overall.CRPS, sum/5, 0, 1e-14)
+	if !math.IsNaN(c.Runs[1].Overall.CRPS) {
+		t.Errorf("mapped distribution: CRPS %v, want NaN (no exact form)", c.Runs[1].Overall.CRPS)
+	}
+	if c.Runs[1].Overall.MAE != c.Runs[0].Overall.MAE {
+		t.Error("the other measures must not depend on the distribution type")
+	}
+	iv0, _ := c.Runs[0].Overall.Interval(50)
+	iv1, _ := c.Runs[1].Overall.Interval(50)
+	if iv0 != iv1 || math.IsNaN(iv0.Coverage) {
+		t.Errorf("interval scores %+v vs %+v", iv0, iv1)
+	}
+}
+
+func TestBatchAvgRelMAE(t *testing.T) {
+	a := airPassengers(t)
+	b := a.Window(12, 144)
+	bt := accuracy.Backtest{Horizon: 6, Origins: 3}
+	batch, err := bt.RunBatch(context.Background(), []almanac.Series{a, b}, accuracy.Candidate{Name: "drift", Model: almanac.Drift{}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	base := slicesIndex(batch.Names, batch.Baseline)
+	// Equal cell counts (18 per series): the plain geometric mean of the
+	// two ratios.
+	r0 := batch.Series[0].Runs[0].Overall.MAE / batch.Series[0].Runs[base].Overall.MAE
+	r1 := batch.Series[1].Runs[0].Overall.MAE / batch.Series[1].Runs[base].Overall.MAE
+	numtest.Scalar(t, "AvgRelMAE", batch.AvgRelMAE[0], math.Sqrt(r0*r1), 0, 1e-14)
+	numtest.Scalar(t, "baseline AvgRelMAE", batch.AvgRelMAE[base], 1, 0, 0)
+}

@@ -149,3 +149,39 @@ func ExampleComparison_WriteText() {
 	//
 	// lowest scaled abs error: seasonal naive
 }
+
+// A batch backtest over a small product range, with the M4 competition's
+// Naive2 benchmark added and OWA against it (invented figures).
+func ExampleBacktest_RunBatch() {
+	bus := citySeries()
+	ferry := citySeries()
+	ferry.Key = "ferry passes"
+	ferry.Values = append([]float64(nil), ferry.Values...)
+	for i := range ferry.Values {
+		ferry.Values[i] = 0.4*ferry.Values[i] + 3*float64(i%5)
+	}
+	bt := accuracy.Backtest{
+		Horizon: 6,
+		Origins: 8,
+		Benchmarks: []accuracy.Candidate{
+			{Name: accuracy.NaiveName, Model: almanac.Naive{}},
+			{Name: accuracy.SeasonalNaiveName, Model: almanac.SeasonalNaive{}},
+			{Name: accuracy.Naive2Name, Model: accuracy.Naive2{}},
+		},
+	}
+	b, err := bt.RunBatch(context.Background(), []almanac.Series{bus, ferry},
+		accuracy.Candidate{Name: "drift", Model: almanac.Drift{}})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for i, name := range b.Names {
+		owa, _ := b.OWA(name, accuracy.Naive2Name)
+		fmt.Printf("%-15s sMAPE %.3f  MASE %.3f  OWA %.3f\n", name, b.Mean[i].SMAPE, b.Mean[i].MASE, owa)
+	}
+	// Output:
+	// drift           sMAPE 4.365  MASE 1.145  OWA 1.869
+	// naive           sMAPE 4.311  MASE 1.126  OWA 1.842
+	// seasonal naive  sMAPE 4.155  MASE 1.032  OWA 1.730
+	// naive2          sMAPE 2.406  MASE 0.595  OWA 1.000
+}

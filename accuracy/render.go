@@ -203,6 +203,7 @@ func (b *BatchComparison) WriteText(w io.Writer) error {
 	}
 	fmt.Fprintf(t.w, "backtest of %d series (%d origins in all), each measure averaged over the series\n\n", len(b.Series), origins)
 	t.scores(levels, b.Mean, b.Relative)
+	t.row("  abs error, geometric", b.AvgRelMAE)
 	vals := make([]float64, len(b.Names))
 	for i, s := range b.Mean {
 		vals[i] = s.MASE
@@ -311,6 +312,13 @@ func (b *BatchComparison) WriteCSV(w io.Writer) error {
 			return err
 		}
 		if err := csvRatios(cw, BatchMeanKey, name, b.Relative[i]); err != nil {
+			return err
+		}
+		v := "NaN"
+		if g := b.AvgRelMAE[i]; !math.IsNaN(g) {
+			v = strconv.FormatFloat(g, 'g', -1, 64)
+		}
+		if err := cw.Write([]string{BatchMeanKey, name, "all", "avg_rel_mae", v}); err != nil {
 			return err
 		}
 	}
