@@ -132,6 +132,7 @@ type Workspace struct {
 	work [5][]float64 // n + 2·period each, as the Fortran's work(n+2np, 5)
 	rw   []float64    // robustness weights
 	sel  []float64    // scratch for the median
+	kern kernel       // tabulated tricube weights
 }
 
 func grow(s []float64, n int) []float64 {
@@ -148,6 +149,8 @@ func (w *Workspace) resize(n, period int) {
 	}
 	w.rw = grow(w.rw, n)
 	w.sel = grow(w.sel, n)
+	w.kern.buf = grow(w.kern.buf, 2*m+1)
+	w.kern.tab = nil
 }
 
 // Decompose runs STL on y with parameters p and returns freshly allocated
@@ -248,21 +251,21 @@ func (w *Workspace) run(y []float64, p Params, season, trend, rw []float64) {
 // step is the Fortran stlstp: Inner inner iterations.
 func (w *Workspace) step(y []float64, p Params, userw bool, rw, season, trend []float64) {
 	n, np := len(y), p.Period
-	w1, w2, w3, w4, w5 := w.work[0], w.work[1], w.work[2], w.work[3], w.work[4]
+	w1, w2, w3, w4 := w.work[0], w.work[1], w.work[2], w.work[3]
 	for range p.Inner {
 		for i := 0; i < n; i++ {
 			w1[i] = y[i] - trend[i]
 		}
-		subseries(w1[:n], np, p.SWindow, p.SDegree, p.SJump, userw, rw, w2, w3, w4, w5, season)
+		subseries(w1[:n], np, p.SWindow, p.SDegree, p.SJump, userw, rw, w2, w3, w4, w.work[4], &w.kern)
 		lowPassMA(w2[:n+2*np], np, w3, w1)
-		smooth(w3[:n], p.LWindow, p.LDegree, p.LJump, false, w4, w1[:n], w5)
+		smooth(w3[:n], p.LWindow, p.LDegree, p.LJump, false, w4, w1[:n], &w.kern)
 		for i := 0; i < n; i++ {
 			season[i] = w2[np+i] - w1[i]
 		}
 		for i := 0; i < n; i++ {
 			w1[i] = y[i] - season[i]
 		}
-		smooth(w1[:n], p.TWindow, p.TDegree, p.TJump, userw, rw, trend, w3)
+		smooth(w1[:n], p.TWindow, p.TDegree, p.TJump, userw, rw, trend, &w.kern)
 	}
 }
 
@@ -303,8 +306,8 @@ func robustnessWeights(rw, y, fit, scratch []float64) {
 
 // subseries is the Fortran stlss: loess of each cycle-subseries of y
 // (length n), extended by one point at each end, written into season
-// (length n + 2·np). w1..w4 are scratch of length ≥ n/np + 3.
-func subseries(y []float64, np, ns, isdeg, nsjump int, userw bool, rw, season, w1, w2, w3, w4 []float64) {
+// (length n + 2·np). w1..w3 are scratch of length ≥ n/np + 3.
+func subseries(y []float64, np, ns, isdeg, nsjump int, userw bool, rw, season, w1, w2, w3 []float64, kc *kernel) {
 	n := len(y)
 	for j := 1; j <= np; j++ {
 		k := (n-j)/np + 1
@@ -316,16 +319,16 @@ func subseries(y []float64, np, ns, isdeg, nsjump int, userw bool, rw, season, w
 				w3[i-1] = rw[(i-1)*np+j-1]
 			}
 		}
-		smooth(w1[:k], ns, isdeg, nsjump, userw, w3, w2[1:k+1], w4)
+		smooth(w1[:k], ns, isdeg, nsjump, userw, w3, w2[1:k+1], kc)
 		nright := min(ns, k)
-		v, ok := estimate(w1[:k], ns, isdeg, 0, 1, nright, userw, w3)
+		v, ok := estimate(w1[:k], ns, isdeg, 0, 1, nright, userw, w3, kc)
 		if ok {
 			w2[0] = v
 		} else {
 			w2[0] = w2[1]
 		}
 		nleft := max(1, k-ns+1)
-		v, ok = estimate(w1[:k], ns, isdeg, float64(k+1), nleft, k, userw, w3)
+		v, ok = estimate(w1[:k], ns, isdeg, float64(k+1), nleft, k, userw, w3, kc)
 		if ok {
 			w2[k+1] = v
 		} else {
@@ -363,8 +366,8 @@ func movingAverage(ave, x []float64, l int) {
 
 // smooth is the Fortran stless: loess of y (length n) with span length,
 // degree ideg, evaluated every njump points and linearly interpolated,
-// into ys. res is scratch of length ≥ n for the kernel weights.
-func smooth(y []float64, length, ideg, njump int, userw bool, rw, ys, res []float64) {
+// into ys; kc caches the kernel weights.
+func smooth(y []float64, length, ideg, njump int, userw bool, rw, ys []float64, kc *kernel) {
 	n := len(y)
 	if n < 2 {
 		ys[0] = y[0]
@@ -373,7 +376,7 @@ func smooth(y []float64, length, ideg, njump int, userw bool, rw, ys, res []floa
 	newnj := min(njump, n-1)
 	var nleft, nright int
 	at := func(i int) {
-		v, ok := estimate(y, length, ideg, float64(i), nleft, nright, userw, rw)
+		v, ok := estimate(y, length, ideg, float64(i), nleft, nright, userw, rw, kc)
 		if ok {
 			ys[i-1] = v
 		} else {
@@ -442,39 +445,51 @@ func smooth(y []float64, length, ideg, njump int, userw bool, rw, ys, res []floa
 // degree-1 correction is applied in closed form: the same estimator with
 // a different order of rounding (agreement with R to about 1e-13), about
 // three times faster.
-func estimate(y []float64, length, ideg int, xs float64, nleft, nright int, userw bool, rw []float64) (ys float64, ok bool) {
+func estimate(y []float64, length, ideg int, xs float64, nleft, nright int, userw bool, rw []float64, kc *kernel) (ys float64, ok bool) {
 	n := len(y)
 	rng := float64(n) - 1
 	h := math.Max(xs-float64(nleft), float64(nright)-xs)
 	if length > n {
 		h += float64((length - n) / 2)
 	}
-	h9 := 0.999 * h
-	h1 := 0.001 * h
-	inv := 1 / h
 	var s0, sd, sdd, sy, sdy float64
-	for j := nleft; j <= nright; j++ {
-		d := float64(j) - xs
-		r := math.Abs(d)
-		if r > h9 {
-			continue
+	if tab := kc.weights(h); tab != nil {
+		// Tabulated tricube weights: the same values as below, computed
+		// once per distinct h.
+		x0 := int(xs)
+		off := int(h) - x0
+		for j := nleft; j <= nright; j++ {
+			w := tab[j+off]
+			if userw {
+				w *= rw[j-1]
+			}
+			d := float64(j - x0)
+			v := y[j-1]
+			wd := w * d
+			s0 += w
+			sd += wd
+			sdd += wd * d
+			sy += w * v
+			sdy += wd * v
 		}
-		w := 1.0
-		if r > h1 {
-			u := r * inv
-			u = 1 - u*u*u
-			w = u * u * u
+	} else {
+		for j := nleft; j <= nright; j++ {
+			d := float64(j) - xs
+			w := tricube(math.Abs(d), h)
+			if w == 0 {
+				continue
+			}
+			if userw {
+				w *= rw[j-1]
+			}
+			v := y[j-1]
+			wd := w * d
+			s0 += w
+			sd += wd
+			sdd += wd * d
+			sy += w * v
+			sdy += wd * v
 		}
-		if userw {
-			w *= rw[j-1]
-		}
-		v := y[j-1]
-		wd := w * d
-		s0 += w
-		sd += wd
-		sdd += wd * d
-		sy += w * v
-		sdy += wd * v
 	}
 	if s0 <= 0 {
 		return 0, false
@@ -489,4 +504,44 @@ func estimate(y []float64, length, ideg int, xs float64, nleft, nright int, user
 		}
 	}
 	return mean, true
+}
+
+// tricube is the Fortran's neighbourhood weight of a point at distance r
+// with bandwidth h: 1 within 0.001h, 0 beyond 0.999h, else (1 − (r/h)³)³.
+func tricube(r, h float64) float64 {
+	switch {
+	case r > 0.999*h:
+		return 0
+	case r <= 0.001*h:
+		return 1
+	}
+	u := r / h
+	u = 1 - u*u*u
+	return u * u * u
+}
+
+// kernel caches the tricube weights of integer offsets −h..h for the last
+// bandwidth h used, in a buffer owned by the Workspace.
+type kernel struct {
+	h   float64
+	buf []float64
+	tab []float64
+}
+
+// weights returns the weights for offsets −h..h (index offset + h), or nil
+// when h is not a whole number or 2h+1 exceeds the buffer.
+func (k *kernel) weights(h float64) []float64 {
+	if h == k.h && k.tab != nil {
+		return k.tab
+	}
+	hi := int(h)
+	if float64(hi) != h || 2*hi+1 > len(k.buf) {
+		return nil
+	}
+	k.tab = k.buf[:2*hi+1]
+	for d := -hi; d <= hi; d++ {
+		k.tab[d+hi] = tricube(math.Abs(float64(d)), h)
+	}
+	k.h = h
+	return k.tab
 }
