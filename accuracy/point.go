@@ -322,11 +322,11 @@ func Relative(measure PointMeasure, actual, forecast, benchmark []float64) (floa
 	if len(forecast) != len(actual) || len(benchmark) != len(actual) {
 		return math.NaN(), fmt.Errorf("accuracy: relative: %w: %d actual values, %d forecasts, %d benchmark forecasts", almanac.ErrLength, len(actual), len(forecast), len(benchmark))
 	}
-	a := actual
+	a, cloned := actual, false
 	for i := range actual {
 		if (math.IsNaN(forecast[i]) || math.IsNaN(benchmark[i])) && !math.IsNaN(actual[i]) {
-			if len(a) > 0 && &a[0] == &actual[0] {
-				a = slices.Clone(actual) // never write into the caller's slice
+			if !cloned {
+				a, cloned = slices.Clone(actual), true // never write into the caller's slice
 			}
 			a[i] = math.NaN()
 		}
