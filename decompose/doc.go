@@ -17,7 +17,37 @@
 // Decomposition.Settings.
 //
 // MSTL (Bandara, Hyndman & Bergmeir 2021) handles several seasonal
-// periods. Classical reproduces R's stats::decompose.
+// periods: periods ascending, STL seasonal spans 7 + 4·i, two sweeps
+// (the paper's defaults, common practice). A non-integer period such as
+// 365.25/7 for weekly data is rounded to the nearest whole number of
+// observations; the alternative for such cycles is regression on Fourier
+// terms of the exact period (calendar.Fourier) inside a model that takes
+// regressors. Classical reproduces R's stats::decompose.
+//
+// Decomposition.Strength gives the strength of trend and of each
+// seasonal component (Wang, Smith & Hyndman 2006) and
+// Decomposition.Adjusted the seasonally adjusted series.
+//
+// # Repairing data
+//
+// Repair.Fill replaces missing values and values the caller marks as
+// disrupted: a linear fill first, then (Passes times) a robust STL of the
+// filled series, a linear interpolation of the seasonally adjusted
+// series across the gaps and the seasonal component added back. Screen
+// flags points whose robust-STL remainder lies beyond K interquartile
+// ranges outside the quartiles (Tukey's fences, default K = 3) and
+// replaces them the same way. Both return a Change (index, time, old and
+// new value, reason) for every value replaced and never alter observed
+// values otherwise.
+//
+// # Forecasting
+//
+// Forecaster is an almanac.Model: it decomposes (STL unless another
+// Method is given), forecasts the adjusted series with any
+// almanac.Model, and adds the last cycle of each seasonal component
+// (seasonal naive of the seasonal part), moving the inner model's
+// intervals, quantiles and sample paths by the same amounts. Its String
+// is the method and the inner model, e.g. "STL+Drift".
 //
 // # Missing values
 //
@@ -36,6 +66,23 @@
 // robustness scale with a partial sort that, for an even number of
 // observations, does not always return the exact median; internal/stl
 // reproduces that routine, which is why the robust fixtures match.
+//
+// # Performance
+//
+// Measured on a 2-core box shared with seven other jobs (load average
+// 8–10 during the runs), so the figures are indicative. Process CPU time
+// per call, public API (allocation of the result included):
+//
+//	STL, monthly CO2, 468 points, period 12      0.12 ms   robust 0.79 ms
+//	STL, weekly CO2, 2,284 points, period 52     0.54 ms   robust 4.3 ms
+//	MSTL, weekly CO2, periods 13 and 52          2.2 ms
+//	Repair.Fill, weekly CO2, 59 gaps             13 ms (3 robust STL passes)
+//	Forecaster STL+Drift, 468 points, fit + 24   0.13 ms
+//
+// R 4.2's compiled stl takes about 0.24 ms (non-robust) and 0.96 ms
+// (robust) for the 468-point series. The wall-clock benchmark figures
+// (go test -bench) were 2–4 times the CPU times under that load. The STL
+// kernel itself (internal/stl with a reused Workspace) does not allocate.
 //
 // # Concurrency
 //

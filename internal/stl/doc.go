@@ -50,11 +50,14 @@
 //
 // # Performance
 //
-// Measured on a 2-core box shared with other jobs (indicative only):
-// 468 observations, period 12, s.window 7 with R's default jumps,
-// 0.12–0.15 ms non-robust and 0.75–1.1 ms robust (15 robustness passes),
-// with no allocation once the Workspace has grown (R 4.2's compiled stl
-// takes about 0.24 ms and 0.96 ms for the same calls).
+// Measured on a 2-core box shared with seven other jobs (load average
+// 8–10), so indicative only: 468 observations, period 12, s.window 7
+// with R's default jumps, a reused Workspace, 0.08 ms of CPU time
+// non-robust and 0.72 ms robust (15 robustness passes), with no
+// allocation (R 4.2's compiled stl takes about 0.24 ms and 0.96 ms for
+// the same calls). Wall-clock benchmark figures under that load were up
+// to three times higher. The tricube weights are tabulated once per
+// bandwidth.
 //
 // # Concurrency
 //
