@@ -133,3 +133,134 @@ func ExampleForecasts() {
 	// chain/north  556.667 [537.594, 575.739]
 	// chain/south  436.667 [420.297, 453.036]
 }
+
+func ExampleNewHierarchy() {
+	h, err := reconcile.NewHierarchy(
+		reconcile.Link{Name: "chain"},
+		reconcile.Link{Name: "north", Parent: "chain"},
+		reconcile.Link{Name: "south", Parent: "chain"},
+		reconcile.Link{Name: "harbour", Parent: "north"},
+		reconcile.Link{Name: "old-town", Parent: "north"},
+		reconcile.Link{Name: "station", Parent: "south"},
+	)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for i, name := range h.Names() {
+		fmt.Printf("%-8s level %d bottoms %v\n", name, h.Level(i), h.Bottoms(i))
+	}
+	// Output:
+	// chain    level 0 bottoms [0 1 2]
+	// north    level 1 bottoms [0 1]
+	// south    level 1 bottoms [2]
+	// harbour  level 2 bottoms [0]
+	// old-town level 2 bottoms [1]
+	// station  level 2 bottoms [2]
+}
+
+func ExampleTopDown() {
+	h := bakery()
+	base := mat.NewDense(1, 7, []float64{1000, 560, 430, 300, 250, 240, 200})
+	// Forecast proportions: north gets 560/(560+430) of the chain's 1000,
+	// harbour 300/(300+250) of that, and so on.
+	rec, err := reconcile.TopDown(h, base, reconcile.ForecastProportions, nil)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for i, name := range h.Names() {
+		fmt.Printf("%-22s %.3f\n", name, rec.At(0, i))
+	}
+	// Output:
+	// chain                  1000.000
+	// chain/north            565.657
+	// chain/south            434.343
+	// chain/north/harbour    308.540
+	// chain/north/old-town   257.117
+	// chain/south/station    236.915
+	// chain/south/campus     197.429
+}
+
+func ExampleMiddleOut() {
+	h := bakery()
+	base := mat.NewDense(1, 7, []float64{1000, 560, 430, 300, 250, 240, 200})
+	// Three months of history of every node, for historical proportions.
+	history := mat.NewDense(3, 7, []float64{
+		950, 530, 420, 290, 240, 230, 190,
+		980, 545, 435, 295, 250, 240, 195,
+		990, 550, 440, 300, 250, 235, 205,
+	})
+	rec, err := reconcile.MiddleOut(h, 1, base, reconcile.ProportionsOfHistoricalAverages, history)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for i, name := range h.Names() {
+		fmt.Printf("%-22s %.3f\n", name, rec.At(0, i))
+	}
+	// Output:
+	// chain                  990.000
+	// chain/north            560.000
+	// chain/south            430.000
+	// chain/north/harbour    304.985
+	// chain/north/old-town   255.015
+	// chain/south/station    234.093
+	// chain/south/campus     195.907
+}
+
+func ExampleReconcile_nonNegative() {
+	h := bakery()
+	// The campus shop is closed for the holidays; its base model still
+	// forecasts a small negative number.
+	base := mat.NewDense(1, 7, []float64{700, 540, 150, 290, 245, 160, -8})
+	resid := mat.NewDense(6, 7, []float64{
+		12, 8, 5, 4, 3, 2, 4,
+		-9, -4, -6, -3, -2, -4, -1,
+		15, 9, 4, 5, 5, 1, 2,
+		-11, -7, -3, -2, -4, -2, -2,
+		6, 2, 5, 0, 1, 3, 1,
+		-8, -5, -2, -3, -1, -1, -2,
+	})
+	rec, err := reconcile.Reconcile(h, base, reconcile.Spec{
+		Method:      reconcile.MethodMinTShrink,
+		Residuals:   resid,
+		NonNegative: true,
+	})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for i, name := range h.Names() {
+		fmt.Printf("%-22s %.3f\n", name, rec.At(0, i))
+	}
+	// Output:
+	// chain                  724.291
+	// chain/north            557.422
+	// chain/south            166.869
+	// chain/north/harbour    302.072
+	// chain/north/old-town   255.350
+	// chain/south/station    166.869
+	// chain/south/campus     0.000
+}
+
+func ExampleEstimateCovariance() {
+	h := bakery()
+	resid := mat.NewDense(6, 7, []float64{
+		12, 8, 5, 4, 3, 2, 4,
+		-9, -4, -6, -3, -2, -4, -1,
+		15, 9, 4, 5, 5, 1, 2,
+		-11, -7, -3, -2, -4, -2, -2,
+		6, 2, 5, 0, 1, 3, 1,
+		-8, -5, -2, -3, -1, -1, -2,
+	})
+	est, err := reconcile.EstimateCovariance(h, resid, reconcile.Shrinkage)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("lambda %.3f from %d rows; var(chain) %.3f cov(chain, north) %.3f\n",
+		est.Lambda, est.Rows, est.W.At(0, 0), est.W.At(0, 1))
+	// Output:
+	// lambda 0.092 from 6 rows; var(chain) 111.833 cov(chain, north) 59.934
+}
