@@ -78,6 +78,7 @@ func (s *nnSolver) solve(dst, y []float64) error {
 			break
 		}
 		s.passive[best] = true
+		rejected := false
 		for inner := 0; ; inner++ {
 			if inner > m+1 {
 				return fmt.Errorf("reconcile: %w in an inner loop", ErrNoConvergence)
@@ -90,7 +91,7 @@ func (s *nnSolver) solve(dst, y []float64) error {
 				// it at its bound and stop (its gradient is at the
 				// tolerance level).
 				s.passive[best] = false
-				s.w[best] = 0
+				rejected = true
 				break
 			}
 			blocking, alpha := -1, math.Inf(1)
@@ -117,6 +118,13 @@ func (s *nnSolver) solve(dst, y []float64) error {
 					}
 				}
 			}
+		}
+		if rejected {
+			// b is unchanged, so is the gradient; take the entering
+			// variable out of the race (as Lawson & Hanson do by zeroing
+			// its gradient component) and look for the next one.
+			s.w[best] = 0
+			continue
 		}
 		s.gradient()
 	}

@@ -57,80 +57,99 @@ func TestNonNegativeByHand(t *testing.T) {
 func TestNonNegativeKKT(t *testing.T) {
 	rng := rand.New(rand.NewPCG(21, 22))
 	h := testHierarchy(t, 4, 3, 5)
-	n, m := h.Len(), h.NumBottom()
-	resid := randomResiduals(h, 30, rng)
-	// Base forecasts around zero, so many bottom values want to go
-	// negative.
-	base := mat.NewDense(8, n, nil)
-	for i := 0; i < 8; i++ {
-		for j := 0; j < n; j++ {
-			base.Set(i, j, 3*rng.NormFloat64()+float64(j%3))
+	g, err := reconcile.NewGrouped([]string{"region", "family", "channel"}, [][]string{
+		{"east", "paper", "web"}, {"east", "paper", "shop"}, {"east", "cups", "web"},
+		{"west", "paper", "shop"}, {"west", "cups", "web"}, {"west", "cups", "shop"}, {"west", "lids", "web"},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, st := range []struct {
+		name string
+		s    reconcile.Structure
+		rows int
+	}{{"hierarchy", h, 40}, {"grouped", g, 200}} {
+		resid := randomResiduals(st.s, 60, rng)
+		n := st.s.Len()
+		// Base forecasts around zero, so many bottom values want to go
+		// negative.
+		base := mat.NewDense(st.rows, n, nil)
+		for i := 0; i < st.rows; i++ {
+			for j := 0; j < n; j++ {
+				base.Set(i, j, 3*rng.NormFloat64()+float64(j%3))
+			}
+		}
+		for _, tt := range []struct {
+			name string
+			spec reconcile.Spec
+			cov  reconcile.Covariance
+		}{
+			{"MinT shrink", reconcile.Spec{Method: reconcile.MethodMinTShrink, Residuals: resid, NonNegative: true}, reconcile.Shrinkage},
+			{"WLS variance", reconcile.Spec{Method: reconcile.MethodWLSVariance, Residuals: resid, NonNegative: true}, reconcile.DiagonalVariance},
+			{"MinT sample", reconcile.Spec{Method: reconcile.MethodMinTSample, Residuals: resid, NonNegative: true}, reconcile.SampleCovariance},
+		} {
+			t.Run(st.name+"/"+tt.name, func(t *testing.T) {
+				checkKKT(t, st.s, base, resid, tt.spec, tt.cov)
+			})
 		}
 	}
-	s := h.Summing()
-	for _, tt := range []struct {
-		name string
-		spec reconcile.Spec
-		cov  reconcile.Covariance
-	}{
-		{"MinT shrink", reconcile.Spec{Method: reconcile.MethodMinTShrink, Residuals: resid, NonNegative: true}, reconcile.Shrinkage},
-		{"WLS variance", reconcile.Spec{Method: reconcile.MethodWLSVariance, Residuals: resid, NonNegative: true}, reconcile.DiagonalVariance},
-		{"MinT sample", reconcile.Spec{Method: reconcile.MethodMinTSample, Residuals: resid, NonNegative: true}, reconcile.SampleCovariance},
-	} {
-		t.Run(tt.name, func(t *testing.T) {
-			got, err := reconcile.Reconcile(h, base, tt.spec)
-			if err != nil {
-				t.Fatal(err)
+}
+
+func checkKKT(t *testing.T, st reconcile.Structure, base, resid *mat.Dense, spec reconcile.Spec, cov reconcile.Covariance) {
+	t.Helper()
+	n, m := st.Len(), st.NumBottom()
+	rows, _ := base.Dims()
+	s := st.Summing()
+	got, err := reconcile.Reconcile(st, base, spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := maxIncoherence(st, got); d > 1e-9 {
+		t.Errorf("incoherence %.3g", d)
+	}
+	est, err := reconcile.EstimateCovariance(st, resid, cov)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var chol mat.Cholesky
+	if !chol.Factorize(est.W) {
+		t.Fatal("W not positive definite")
+	}
+	var winvS mat.Dense
+	if err := chol.SolveTo(&winvS, s); err != nil {
+		t.Fatal(err)
+	}
+	active := 0
+	for r := 0; r < rows; r++ {
+		b := mat.NewVecDense(m, mat.Row(nil, r, got)[n-m:])
+		yr := mat.NewVecDense(n, mat.Row(nil, r, base))
+		var fit, res, w, c mat.VecDense
+		fit.MulVec(s, b)
+		res.SubVec(yr, &fit)
+		w.MulVec(winvS.T(), &res)
+		c.MulVec(winvS.T(), yr)
+		scale := 0.0
+		for j := 0; j < m; j++ {
+			scale = math.Max(scale, math.Abs(c.AtVec(j)))
+		}
+		tol := 1e-9 * scale
+		for j := 0; j < m; j++ {
+			bj, wj := b.AtVec(j), w.AtVec(j)
+			switch {
+			case bj < 0:
+				t.Errorf("row %d: b[%d] = %v < 0", r, j, bj)
+			case bj > 0 && math.Abs(wj) > tol:
+				t.Errorf("row %d: free b[%d] = %v has gradient %v", r, j, bj, wj)
+			case bj == 0 && wj > tol:
+				t.Errorf("row %d: b[%d] at bound with ascent direction %v", r, j, wj)
 			}
-			if d := maxIncoherence(h, got); d > 1e-9 {
-				t.Errorf("incoherence %.3g", d)
+			if bj == 0 {
+				active++
 			}
-			est, err := reconcile.EstimateCovariance(h, resid, tt.cov)
-			if err != nil {
-				t.Fatal(err)
-			}
-			var chol mat.Cholesky
-			if !chol.Factorize(est.W) {
-				t.Fatal("W not positive definite")
-			}
-			var winvS mat.Dense
-			if err := chol.SolveTo(&winvS, s); err != nil {
-				t.Fatal(err)
-			}
-			active := 0
-			for r := 0; r < 8; r++ {
-				b := mat.NewVecDense(m, mat.Row(nil, r, got)[n-m:])
-				yr := mat.NewVecDense(n, mat.Row(nil, r, base))
-				var fit, res, w mat.VecDense
-				fit.MulVec(s, b)
-				res.SubVec(yr, &fit)
-				w.MulVec(winvS.T(), &res)
-				scale := 0.0
-				var c mat.VecDense
-				c.MulVec(winvS.T(), yr)
-				for j := 0; j < m; j++ {
-					scale = math.Max(scale, math.Abs(c.AtVec(j)))
-				}
-				tol := 1e-9 * scale
-				for j := 0; j < m; j++ {
-					bj, wj := b.AtVec(j), w.AtVec(j)
-					switch {
-					case bj < 0:
-						t.Errorf("row %d: b[%d] = %v < 0", r, j, bj)
-					case bj > 0 && math.Abs(wj) > tol:
-						t.Errorf("row %d: free b[%d] = %v has gradient %v", r, j, bj, wj)
-					case bj == 0 && wj > tol:
-						t.Errorf("row %d: b[%d] at bound with ascent direction %v", r, j, wj)
-					}
-					if bj == 0 {
-						active++
-					}
-				}
-			}
-			if active == 0 {
-				t.Fatal("no bound active: the test did not exercise the constraint")
-			}
-		})
+		}
+	}
+	if active == 0 {
+		t.Fatal("no bound active: the test did not exercise the constraint")
 	}
 }
 
