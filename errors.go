@@ -65,3 +65,47 @@ func (e *SeriesError) Error() string {
 }
 
 func (e *SeriesError) Unwrap() error { return e.Err }
+
+// Errors of the CSV reader, carried inside a *CSVError that names the line
+// and column.
+var (
+	// ErrCSVSyntax: the input is not well-formed CSV (quotes, field count).
+	ErrCSVSyntax = errors.New("malformed csv")
+	// ErrCSVHeader: a required column is missing from the header, or named twice.
+	ErrCSVHeader = errors.New("bad csv header")
+	// ErrCSVValue: a value cell is neither a number nor a missing-value token.
+	ErrCSVValue = errors.New("bad value")
+	// ErrCSVTime: a time cell matches none of the layouts.
+	ErrCSVTime = errors.New("bad time")
+	// ErrCSVDuplicate: two rows of one series at the same time.
+	ErrCSVDuplicate = errors.New("duplicate time")
+	// ErrCSVOrder: a row of a series is earlier than the row before it.
+	ErrCSVOrder = errors.New("rows out of time order")
+	// ErrCSVGap: consecutive rows of a series skip periods and gap
+	// filling was not asked for.
+	ErrCSVGap = errors.New("gap in series")
+	// ErrCSVIrregular: a time is not a whole number of periods from the
+	// series' first time.
+	ErrCSVIrregular = errors.New("irregular time")
+)
+
+// CSVError is a problem at one line of CSV input. It unwraps to an error
+// that wraps one of the ErrCSV… sentinels (and ErrNonFinite for an
+// infinite value, ErrEmpty for input without data rows).
+type CSVError struct {
+	Line   int    // 1-based line number in the input; 0 when not about one line
+	Column string // column name from the header, or "" when not about one cell
+	Err    error
+}
+
+func (e *CSVError) Error() string {
+	switch {
+	case e.Line > 0 && e.Column != "":
+		return fmt.Sprintf("almanac: csv line %d, column %q: %v", e.Line, e.Column, e.Err)
+	case e.Line > 0:
+		return fmt.Sprintf("almanac: csv line %d: %v", e.Line, e.Err)
+	}
+	return fmt.Sprintf("almanac: csv: %v", e.Err)
+}
+
+func (e *CSVError) Unwrap() error { return e.Err }

@@ -1,0 +1,502 @@
+package almanac
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"slices"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/almanac-go/almanac/calendar"
+)
+
+// Default column names of the long CSV format: one row per series and
+// time, with the series key, the time, and the value.
+const (
+	DefaultKeyColumn   = "series"
+	DefaultTimeColumn  = "period"
+	DefaultValueColumn = "value"
+)
+
+// DefaultTimeLayouts are the time layouts ReadCSV tries, in order, when
+// CSVOptions.Layouts is empty: a date, a date and time with a space, RFC
+// 3339 (with an optional fraction of a second), a year and month, and a
+// year.
+var DefaultTimeLayouts = []string{"2006-01-02", "2006-01-02 15:04", "2006-01-02 15:04:05", time.RFC3339, "2006-01", "2006"}
+
+// CSVOptions configures ReadCSV and the CSV writers. The zero value reads
+// and writes the default columns, tries DefaultTimeLayouts in UTC, infers
+// the frequency, and reports gaps as errors.
+type CSVOptions struct {
+	// KeyColumn, TimeColumn and ValueColumn name the header cells of the
+	// three columns; empty means DefaultKeyColumn, DefaultTimeColumn and
+	// DefaultValueColumn. Other columns are ignored. Names are matched
+	// exactly after trimming spaces.
+	KeyColumn, TimeColumn, ValueColumn string
+	// Layouts are the time layouts (package time syntax) tried in order;
+	// empty means DefaultTimeLayouts. The writers use Layouts[0] when set.
+	Layouts []string
+	// Location is used for times without a zone; nil means UTC.
+	Location *time.Location
+	// Freq is the frequency of every series. The zero Frequency means
+	// infer it: the coarsest spacing (months, then days, then minutes)
+	// under which every time of every series is a whole number of steps
+	// from its series' first time, with the step the greatest common
+	// divisor of those counts (so quarterly dates give Quarterly and
+	// 15-minute readings Every(15, Minute)).
+	Freq calendar.Frequency
+	// FillGaps inserts NaN for periods missing between two rows of a
+	// series instead of reporting ErrCSVGap. A series may grow to at most
+	// 16,777,216 values this way; a larger gap is reported as ErrCSVGap.
+	FillGaps bool
+	// Comma is the field delimiter; 0 means ','.
+	Comma rune
+}
+
+func (o CSVOptions) columns() (key, tm, val string) {
+	key, tm, val = o.KeyColumn, o.TimeColumn, o.ValueColumn
+	if key == "" {
+		key = DefaultKeyColumn
+	}
+	if tm == "" {
+		tm = DefaultTimeColumn
+	}
+	if val == "" {
+		val = DefaultValueColumn
+	}
+	return key, tm, val
+}
+
+func (o CSVOptions) location() *time.Location {
+	if o.Location == nil {
+		return time.UTC
+	}
+	return o.Location
+}
+
+// isMissingToken reports whether a value cell marks a missing value: the
+// empty cell and, ignoring case and surrounding spaces, "NA", "N/A",
+// "NaN" and "null".
+func isMissingToken(s string) bool {
+	s = strings.TrimSpace(s)
+	return s == "" || strings.EqualFold(s, "NA") || strings.EqualFold(s, "N/A") ||
+		strings.EqualFold(s, "NaN") || strings.EqualFold(s, "null")
+}
+
+type csvRow struct {
+	line int
+	t    time.Time
+	v    float64
+}
+
+type csvGroup struct {
+	key  string
+	rows []csvRow
+}
+
+// ReadCSV reads series in long format from r: a header row, then one row
+// per series and time holding the key, the time and the value (columns
+// named by opt; see CSVOptions). Rows of different series may be
+// interleaved; the series are returned in the order their keys first
+// appear, and the rows of each series must be in increasing time order.
+//
+// Missing values: an empty value cell, or one of the tokens NA, N/A, NaN
+// or null (any case), gives NaN. With FillGaps, periods with no row also
+// give NaN.
+//
+// Nothing is reordered or dropped silently: a malformed row, an
+// unparsable time or value, an infinite value, a duplicate time, a row
+// earlier than the one before it, a time off the frequency's grid, or a
+// gap without FillGaps is an error. Errors are *CSVError values naming
+// the line and column and unwrapping to ErrCSVSyntax, ErrCSVHeader,
+// ErrCSVValue (with ErrNonFinite for ±Inf), ErrCSVTime, ErrCSVDuplicate,
+// ErrCSVOrder, ErrCSVGap or ErrCSVIrregular; when several rows are bad the
+// first by line is reported. Input with a header but no data rows gives an
+// error wrapping ErrEmpty, and a frequency that cannot be inferred (no
+// series with two distinct times, or times finer than a minute) one
+// wrapping ErrFrequency.
+//
+// The series are not validated further: a series whose values are all
+// missing is returned as read (Series.Validate reports it).
+func ReadCSV(r io.Reader, opt CSVOptions) ([]Series, error) {
+	if err := checkCSVOptions(opt); err != nil {
+		return nil, err
+	}
+	keyName, timeName, valName := opt.columns()
+	cr := csv.NewReader(r)
+	cr.ReuseRecord = true
+	if opt.Comma != 0 {
+		cr.Comma = opt.Comma
+	}
+	header, err := cr.Read()
+	if err == io.EOF {
+		return nil, &CSVError{Line: 1, Err: fmt.Errorf("%w: no header row", ErrCSVHeader)}
+	}
+	if err != nil {
+		return nil, csvSyntaxError(err)
+	}
+	ki, ti, vi := -1, -1, -1
+	for i, h := range header {
+		h = strings.TrimSpace(h)
+		if i == 0 {
+			h = strings.TrimPrefix(h, "\ufeff") // byte-order mark
+		}
+		for _, c := range []struct {
+			name string
+			idx  *int
+		}{{keyName, &ki}, {timeName, &ti}, {valName, &vi}} {
+			if h != c.name {
+				continue
+			}
+			if *c.idx >= 0 {
+				return nil, &CSVError{Line: 1, Column: c.name, Err: fmt.Errorf("%w: column %q appears twice", ErrCSVHeader, c.name)}
+			}
+			*c.idx = i
+		}
+	}
+	for _, c := range []struct {
+		name string
+		idx  int
+	}{{keyName, ki}, {timeName, ti}, {valName, vi}} {
+		if c.idx < 0 {
+			return nil, &CSVError{Line: 1, Column: c.name, Err: fmt.Errorf("%w: no column %q", ErrCSVHeader, c.name)}
+		}
+	}
+
+	layouts := opt.Layouts
+	if len(layouts) == 0 {
+		layouts = DefaultTimeLayouts
+	}
+	loc := opt.location()
+	var groups []*csvGroup
+	byKey := map[string]*csvGroup{}
+	for {
+		rec, err := cr.Read()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, csvSyntaxError(err)
+		}
+		line, _ := cr.FieldPos(0)
+		t, err := parseCSVTime(rec[ti], layouts, loc)
+		if err != nil {
+			return nil, &CSVError{Line: line, Column: timeName, Err: err}
+		}
+		v, err := parseCSVValue(rec[vi])
+		if err != nil {
+			return nil, &CSVError{Line: line, Column: valName, Err: err}
+		}
+		key := rec[ki]
+		g := byKey[key]
+		if g == nil {
+			g = &csvGroup{key: strings.Clone(key)}
+			byKey[g.key] = g
+			groups = append(groups, g)
+		}
+		g.rows = append(g.rows, csvRow{line: line, t: t, v: v})
+	}
+	if len(groups) == 0 {
+		return nil, &CSVError{Err: fmt.Errorf("%w: no data rows", ErrEmpty)}
+	}
+	freq := opt.Freq
+	if freq == (calendar.Frequency{}) {
+		if freq, err = inferFrequency(groups); err != nil {
+			return nil, err
+		}
+	}
+	out := make([]Series, 0, len(groups))
+	var first *CSVError
+	for _, g := range groups {
+		s, cerr := buildCSVSeries(g, freq, opt.FillGaps, timeName)
+		if cerr != nil {
+			if first == nil || cerr.Line < first.Line {
+				first = cerr
+			}
+			continue
+		}
+		out = append(out, s)
+	}
+	if first != nil {
+		return nil, first
+	}
+	return out, nil
+}
+
+func checkCSVOptions(opt CSVOptions) error {
+	if opt.Freq != (calendar.Frequency{}) {
+		if err := opt.Freq.Validate(); err != nil {
+			return fmt.Errorf("almanac: csv: %w", err)
+		}
+	}
+	k, t, v := opt.columns()
+	if k == t || k == v || t == v {
+		return fmt.Errorf("almanac: csv: %w: column names %q, %q, %q must differ", ErrInvalid, k, t, v)
+	}
+	return nil
+}
+
+func csvSyntaxError(err error) error {
+	var pe *csv.ParseError
+	if errors.As(err, &pe) {
+		return &CSVError{Line: pe.Line, Err: fmt.Errorf("%w: %v", ErrCSVSyntax, pe.Err)}
+	}
+	return &CSVError{Err: fmt.Errorf("%w: %v", ErrCSVSyntax, err)}
+}
+
+func parseCSVTime(s string, layouts []string, loc *time.Location) (time.Time, error) {
+	s = strings.TrimSpace(s)
+	for _, l := range layouts {
+		if t, err := time.ParseInLocation(l, s, loc); err == nil {
+			return t, nil
+		}
+	}
+	return time.Time{}, fmt.Errorf("%w: %q matches none of the layouts %q", ErrCSVTime, s, layouts)
+}
+
+func parseCSVValue(s string) (float64, error) {
+	if isMissingToken(s) {
+		return math.NaN(), nil
+	}
+	v, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
+	if err != nil {
+		return 0, fmt.Errorf("%w: %q is not a number or a missing-value token", ErrCSVValue, s)
+	}
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return 0, fmt.Errorf("%w: %w: %q", ErrCSVValue, ErrNonFinite, s)
+	}
+	return v, nil
+}
+
+// inferFrequency finds the coarsest spacing consistent with every row (see
+// CSVOptions.Freq).
+func inferFrequency(groups []*csvGroup) (calendar.Frequency, error) {
+	for _, u := range []calendar.Unit{calendar.Month, calendar.Day, calendar.Minute} {
+		base := calendar.Every(1, u)
+		g, ok := 0, true
+		for _, grp := range groups {
+			start := grp.rows[0].t
+			for _, r := range grp.rows[1:] {
+				n, err := base.Between(start, r.t)
+				if err != nil {
+					ok = false
+					break
+				}
+				g = gcd(g, n)
+			}
+			if !ok {
+				break
+			}
+		}
+		if !ok || g == 0 {
+			continue
+		}
+		switch {
+		case u == calendar.Month && g%12 == 0:
+			return calendar.Every(g/12, calendar.Year), nil
+		case u == calendar.Month && g%3 == 0:
+			return calendar.Every(g/3, calendar.Quarter), nil
+		case u == calendar.Day && g%7 == 0:
+			return calendar.Every(g/7, calendar.Week), nil
+		case u == calendar.Minute && g%60 == 0:
+			return calendar.Every(g/60, calendar.Hour), nil
+		}
+		return calendar.Every(g, u), nil
+	}
+	return calendar.Frequency{}, &CSVError{Err: fmt.Errorf("%w: cannot infer it from the times (need a series with two distinct times, spaced by whole minutes, days or months); set CSVOptions.Freq", ErrFrequency)}
+}
+
+func gcd(a, b int) int {
+	if a < 0 {
+		a = -a
+	}
+	if b < 0 {
+		b = -b
+	}
+	for b != 0 {
+		a, b = b, a%b
+	}
+	return a
+}
+
+// maxCSVFill caps the length of a gap-filled series, so that two far-apart
+// dates cannot make ReadCSV allocate without bound.
+const maxCSVFill = 1 << 24
+
+// buildCSVSeries places the rows of one series on the frequency's grid.
+func buildCSVSeries(g *csvGroup, freq calendar.Frequency, fill bool, timeName string) (Series, *CSVError) {
+	start := g.rows[0].t
+	vals := make([]float64, 0, len(g.rows))
+	vals = append(vals, g.rows[0].v)
+	prev, prevLine := 0, g.rows[0].line
+	for _, r := range g.rows[1:] {
+		idx, err := freq.Between(start, r.t)
+		switch {
+		case err != nil:
+			return Series{}, &CSVError{Line: r.line, Column: timeName, Err: fmt.Errorf("%w: series %q: %v is not a whole number of %v steps from its first time %v", ErrCSVIrregular, g.key, r.t, freq, start)}
+		case idx == prev:
+			return Series{}, &CSVError{Line: r.line, Column: timeName, Err: fmt.Errorf("%w: series %q: %v already given on line %d", ErrCSVDuplicate, g.key, r.t, prevLine)}
+		case idx < prev:
+			return Series{}, &CSVError{Line: r.line, Column: timeName, Err: fmt.Errorf("%w: series %q: %v comes after %v (line %d)", ErrCSVOrder, g.key, r.t, freq.Add(start, prev), prevLine)}
+		case idx-prev-1 > maxCSVFill-len(vals):
+			return Series{}, &CSVError{Line: r.line, Column: timeName, Err: fmt.Errorf("%w: series %q: %d %v steps missing before %v, more than the %d values a series read from CSV may hold", ErrCSVGap, g.key, idx-prev-1, freq, r.t, maxCSVFill)}
+		case idx > prev+1 && !fill:
+			return Series{}, &CSVError{Line: r.line, Column: timeName, Err: fmt.Errorf("%w: series %q: %d %v steps missing before %v (set CSVOptions.FillGaps to fill with NaN)", ErrCSVGap, g.key, idx-prev-1, freq, r.t)}
+		}
+		for range idx - prev - 1 {
+			vals = append(vals, math.NaN())
+		}
+		vals = append(vals, r.v)
+		prev, prevLine = idx, r.line
+	}
+	return Series{Key: g.key, Start: start, Freq: freq, Values: slices.Clip(vals)}, nil
+}
+
+// formatCSVTime writes t with layout, or when layout is "" as a date for
+// daily and coarser frequencies at midnight in loc (the location ReadCSV
+// gives zone-less times) and as RFC 3339 otherwise.
+func formatCSVTime(t time.Time, freq calendar.Frequency, layout string, loc *time.Location) string {
+	if layout != "" {
+		return t.Format(layout)
+	}
+	if freq.Unit >= calendar.Day && t.Location() == loc {
+		if h, m, s := t.Clock(); h == 0 && m == 0 && s == 0 && t.Nanosecond() == 0 {
+			return t.Format("2006-01-02")
+		}
+	}
+	return t.Format(time.RFC3339Nano)
+}
+
+func formatCSVValue(v float64) string {
+	if math.IsNaN(v) {
+		return "NA"
+	}
+	return strconv.FormatFloat(v, 'g', -1, 64)
+}
+
+func (o CSVOptions) writeLayout() string {
+	if len(o.Layouts) > 0 {
+		return o.Layouts[0]
+	}
+	return ""
+}
+
+func newCSVWriter(w io.Writer, opt CSVOptions) *csv.Writer {
+	cw := csv.NewWriter(w)
+	if opt.Comma != 0 {
+		cw.Comma = opt.Comma
+	}
+	return cw
+}
+
+// WriteSeriesCSV writes ys to w in the long format ReadCSV reads (same
+// column names and options), one row per observation, missing values as
+// NA. Times use opt.Layouts[0] when given, else a date for daily and
+// coarser data at midnight in opt.Location (UTC when nil) and RFC 3339
+// otherwise, so that ReadCSV with the same options reads the series back.
+func WriteSeriesCSV(w io.Writer, ys []Series, opt CSVOptions) error {
+	if err := checkCSVOptions(opt); err != nil {
+		return err
+	}
+	k, t, v := opt.columns()
+	cw := newCSVWriter(w, opt)
+	if err := cw.Write([]string{k, t, v}); err != nil {
+		return fmt.Errorf("almanac: csv: %w", err)
+	}
+	layout := opt.writeLayout()
+	rec := make([]string, 3)
+	for _, s := range ys {
+		for i, x := range s.Values {
+			rec[0], rec[1], rec[2] = s.Key, formatCSVTime(s.Time(i), s.Freq, layout, opt.location()), formatCSVValue(x)
+			if err := cw.Write(rec); err != nil {
+				return fmt.Errorf("almanac: csv: %w", err)
+			}
+		}
+	}
+	cw.Flush()
+	if err := cw.Error(); err != nil {
+		return fmt.Errorf("almanac: csv: %w", err)
+	}
+	return nil
+}
+
+// Column names of WriteForecastCSV besides the key and time columns.
+const (
+	ForecastStepColumn  = "step"  // 1-based forecast horizon
+	ForecastPointColumn = "point" // point forecast
+)
+
+// BandColumns returns the names WriteForecastCSV gives the bounds of the
+// interval at level: "band80_low" and "band80_high" for 80.
+func BandColumns(level float64) (low, high string) {
+	l := strconv.FormatFloat(level, 'g', -1, 64)
+	return "band" + l + "_low", "band" + l + "_high"
+}
+
+// WriteForecastCSV writes forecasts to w in long format: a header row,
+// then one row per series and step with the key, the time (columns named
+// as in opt), ForecastStepColumn, ForecastPointColumn, and for every level
+// present in any forecast (ascending) the two BandColumns. A bound that a
+// forecast does not carry is written as NA. Results with a non-nil Err are
+// skipped (the caller has their errors).
+func WriteForecastCSV(w io.Writer, fcs []BatchForecast, opt CSVOptions) error {
+	if err := checkCSVOptions(opt); err != nil {
+		return err
+	}
+	var levels []float64
+	for _, f := range fcs {
+		if f.Err != nil {
+			continue
+		}
+		for _, iv := range f.Forecast.Intervals {
+			if !slices.Contains(levels, iv.Level) {
+				levels = append(levels, iv.Level)
+			}
+		}
+	}
+	slices.Sort(levels)
+	k, t, _ := opt.columns()
+	header := []string{k, t, ForecastStepColumn, ForecastPointColumn}
+	for _, l := range levels {
+		lo, hi := BandColumns(l)
+		header = append(header, lo, hi)
+	}
+	cw := newCSVWriter(w, opt)
+	if err := cw.Write(header); err != nil {
+		return fmt.Errorf("almanac: csv: %w", err)
+	}
+	layout := opt.writeLayout()
+	rec := make([]string, len(header))
+	for _, f := range fcs {
+		if f.Err != nil {
+			continue
+		}
+		fc := f.Forecast
+		for h, m := range fc.Mean {
+			rec[0], rec[1] = f.Key, formatCSVTime(fc.Time(h), fc.Freq, layout, opt.location())
+			rec[2], rec[3] = strconv.Itoa(h+1), formatCSVValue(m)
+			for j, l := range levels {
+				lo, hi := "NA", "NA"
+				for _, iv := range fc.Intervals {
+					if iv.Level == l && h < len(iv.Lower) && h < len(iv.Upper) {
+						lo, hi = formatCSVValue(iv.Lower[h]), formatCSVValue(iv.Upper[h])
+						break
+					}
+				}
+				rec[4+2*j], rec[5+2*j] = lo, hi
+			}
+			if err := cw.Write(rec); err != nil {
+				return fmt.Errorf("almanac: csv: %w", err)
+			}
+		}
+	}
+	cw.Flush()
+	if err := cw.Error(); err != nil {
+		return fmt.Errorf("almanac: csv: %w", err)
+	}
+	return nil
+}

@@ -1,0 +1,85 @@
+package almanac_test
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/internal/numtest"
+)
+
+func TestForecastNormal(t *testing.T) {
+	mean := []float64{10, 20}
+	fc, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, mean, &almanac.Normal{Mean: mean, SD: []float64{2, 0}}, 95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Standard normal 0.975 quantile 1.959963984540054 (printed as 1.96
+	// in every normal table; scipy.stats.norm.ppf(0.975)).
+	numtest.Slice(t, "upper95", fc.Intervals[0].Upper, []float64{10 + 2*1.959963984540054, 20}, 1e-12, 0)
+	// A level not requested comes from the distribution: 0.9 quantile
+	// 1.2815515655446004 (scipy.stats.norm.ppf(0.9)).
+	lo, hi, err := fc.Bounds(80)
+	if err != nil {
+		t.Fatal(err)
+	}
+	numtest.Slice(t, "lower80", lo, []float64{10 - 2*1.2815515655446004, 20}, 1e-12, 0)
+	numtest.Slice(t, "upper80", hi, []float64{10 + 2*1.2815515655446004, 20}, 1e-12, 0)
+	if !fc.Time(1).Equal(utc(2024, 2, 1)) || fc.Horizon() != 2 || fc.SamplePaths() != nil {
+		t.Error("Time/Horizon/SamplePaths")
+	}
+}
+
+func TestForecastSample(t *testing.T) {
+	paths := [][]float64{{1, 5}, {2, math.NaN()}, {3, 7}, {4, 6}}
+	fc, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{2.5, 6}, &almanac.Sample{Paths: paths}, 50)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Type 7 quantiles (Hyndman & Fan 1996; R's quantile default):
+	// quantile(c(1,2,3,4), 0.25) = 1.75, quantile(c(5,6,7), 0.25) = 5.5;
+	// NaN ignored.
+	q, err := fc.Quantile(0.25)
+	if err != nil {
+		t.Fatal(err)
+	}
+	numtest.Slice(t, "q25", q, []float64{1.75, 5.5}, 1e-15, 0)
+	numtest.Slice(t, "lower50", fc.Intervals[0].Lower, []float64{1.75, 5.5}, 1e-15, 0)
+	if len(fc.SamplePaths()) != 4 {
+		t.Error("SamplePaths")
+	}
+}
+
+func TestForecastErrors(t *testing.T) {
+	fc := almanac.Forecast{Mean: []float64{1}}
+	for _, tt := range []struct {
+		name string
+		err  error
+		want error
+	}{
+		{"quantile 0", func() error { _, err := fc.Quantile(0); return err }(), almanac.ErrLevel},
+		{"quantile 1", func() error { _, err := fc.Quantile(1); return err }(), almanac.ErrLevel},
+		{"quantile NaN", func() error { _, err := fc.Quantile(math.NaN()); return err }(), almanac.ErrLevel},
+		{"quantile without distribution", func() error { _, err := fc.Quantile(0.5); return err }(), almanac.ErrNoDistribution},
+		{"bounds level 100", func() error { _, _, err := fc.Bounds(100); return err }(), almanac.ErrLevel},
+		{"bounds without distribution", func() error { _, _, err := fc.Bounds(80); return err }(), almanac.ErrNoDistribution},
+		{"new forecast without distribution", func() error {
+			_, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{1}, nil, 80)
+			return err
+		}(), almanac.ErrNoDistribution},
+		{"new forecast bad level", func() error {
+			_, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{1}, nil, 180)
+			return err
+		}(), almanac.ErrLevel},
+		{"check horizon", almanac.CheckHorizon(0), almanac.ErrHorizon},
+		{"check levels", almanac.CheckLevels(80, -1), almanac.ErrLevel},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			if !errors.Is(tt.err, tt.want) {
+				t.Errorf("err = %v, want %v", tt.err, tt.want)
+			}
+		})
+	}
+}
