@@ -506,3 +506,28 @@ func TestBatchAvgRelMAE(t *testing.T) {
 	numtest.Scalar(t, "AvgRelMAE", batch.AvgRelMAE[0], math.Sqrt(r0*r1), 0, 1e-14)
 	numtest.Scalar(t, "baseline AvgRelMAE", batch.AvgRelMAE[base], 1, 0, 0)
 }
+
+// TestBacktestMissingActual: a missing actual value is left out of every
+// cell that forecasts it, and nothing else changes.
+func TestBacktestMissingActual(t *testing.T) {
+	y := airPassengers(t).Clone()
+	y.Values[140] = math.NaN()
+	bt := accuracy.Backtest{Horizon: 3, Origins: 5, NoBenchmarks: true}
+	c, err := bt.Run(context.Background(), y, accuracy.Candidate{Name: "snaive", Model: almanac.SeasonalNaive{}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Origins 137..141; index 140 is step 3 at 138, step 2 at 139 and
+	// step 1 at 140: 15 − 3 = 12 cells scored.
+	if c.Origins[0].Index != 137 || c.Runs[0].Overall.N != 12 {
+		t.Errorf("first origin %d, N = %d; want 137 and 12", c.Origins[0].Index, c.Runs[0].Overall.N)
+	}
+	for h, want := range []int{4, 4, 4} {
+		if got := c.Runs[0].ByStep[h].N; got != want {
+			t.Errorf("step %d: N = %d, want %d", h+1, got, want)
+		}
+	}
+	if !math.IsNaN(c.Runs[0].Errors[1][2]) {
+		t.Errorf("error at the missing actual = %v, want NaN", c.Runs[0].Errors[1][2])
+	}
+}
