@@ -400,3 +400,27 @@ func TestEstimateCovarianceByHand(t *testing.T) {
 		})
 	}
 }
+
+// The per-row work (applying a prepared map and adding up) allocates
+// nothing, so reconciling many steps or sample paths costs no garbage.
+func TestRowAllocations(t *testing.T) {
+	rng := rand.New(rand.NewPCG(51, 52))
+	h := testHierarchy(t, 3, 4)
+	resid := randomResiduals(h, 30, rng)
+	hist := coherentData(h, 20, 0, rng)
+	y := mat.Row(nil, 0, coherentData(h, 1, 5, rng))
+	for _, tt := range allSpecs(resid, hist) {
+		if tt.spec.NonNegative {
+			continue // the active-set solve factorises sub-matrices
+		}
+		t.Run(tt.name, func(t *testing.T) {
+			allocs, err := reconcile.RowAllocs(h, tt.spec, y)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if allocs != 0 {
+				t.Errorf("%v allocations per row, want 0", allocs)
+			}
+		})
+	}
+}
