@@ -12,7 +12,10 @@ func psort(a []float64, ind []int) {
 	if n < 2 || ni == 0 {
 		return
 	}
-	var indu, indl, iu, il [16]int
+	// The Fortran's stacks hold 16 entries, enough for n < 2^16 (the
+	// depth is at most log2 n); 64 entries keep any length in bounds and
+	// change nothing below that.
+	var indu, indl, iu, il [64]int
 	var p, jl, ju, i, j, m, k, ij, l int
 	var t, tt float64
 	at := func(x int) float64 { return a[x-1] }

@@ -3,6 +3,7 @@ package stl
 import (
 	"errors"
 	"math"
+	"slices"
 	"testing"
 
 	"github.com/almanac-go/almanac/internal/reftest"
@@ -149,5 +150,26 @@ func TestWorkspaceNoAllocs(t *testing.T) {
 	})
 	if allocs != 0 {
 		t.Fatalf("DecomposeTo allocates %v times per run", allocs)
+	}
+}
+
+// TestPsortLong: beyond the Fortran's 2^16 limit psort must neither
+// panic nor misplace the median of an odd-length sample.
+func TestPsortLong(t *testing.T) {
+	const n = 200001
+	a := make([]float64, n)
+	x := uint64(88172645463325252)
+	for i := range a {
+		x ^= x << 13
+		x ^= x >> 7
+		x ^= x << 17
+		a[i] = float64(x>>11) / (1 << 53)
+	}
+	sorted := append([]float64(nil), a...)
+	slices.Sort(sorted)
+	m := n/2 + 1
+	psort(a, []int{m, m})
+	if a[m-1] != sorted[m-1] {
+		t.Fatalf("median %v, want %v", a[m-1], sorted[m-1])
 	}
 }
