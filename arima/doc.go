@@ -45,9 +45,11 @@
 // that log-likelihoods, AIC values and forecasts agree with R's (to 1e-9
 // in the reference tests). This is not the exact diffuse likelihood: for
 // differenced models it differs from the exact likelihood of the
-// differenced series by an amount that depends on the data scale (3·10⁻³
-// for the airline model on log air passengers); an exact diffuse
-// initialisation is not implemented.
+// differenced series by a small amount that depends on the level of the
+// series relative to σ (3·10⁻³ for the airline model on log air
+// passengers, 1.2·10⁻⁶ for an ARIMA(1,1,1) on the Nile flows); κ is in
+// units of σ², so the likelihood stays invariant to the scale of the data.
+// An exact diffuse initialisation is not implemented.
 //
 // The reported log-likelihood is
 // −½(n log(ssq/ν) + (n/ν) Σ log F_t + n + n log 2π), n the number of

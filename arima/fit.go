@@ -20,6 +20,9 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 	if err != nil {
 		return nil, err
 	}
+	if y.IsConstant() {
+		return nil, fmt.Errorf("arima: %w: series %q is constant, the innovation variance would be zero", almanac.ErrConstant, y.Key)
+	}
 	n := y.Len()
 	x := make([][]float64, 0, lay.nreg())
 	if lay.mean {

@@ -250,7 +250,7 @@ func (l *layout) orders() string {
 //
 // Special cases:
 //   - an invalid series (empty, all missing, ±Inf) gives the error of
-//     almanac.Series.Validate;
+//     almanac.Series.Validate; a constant one wraps almanac.ErrConstant;
 //   - negative orders, a seasonal order without a period ≥ 2, an unknown
 //     name in Fixed or a bad regressor name give errors wrapping
 //     almanac.ErrInvalid;

@@ -1,0 +1,411 @@
+package arima
+
+import (
+	"context"
+	"errors"
+	"math"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/internal/numtest"
+	"github.com/almanac-go/almanac/internal/reftest"
+)
+
+// fixtureData loads a reference fixture's series (and regressors).
+func fixtureData(t *testing.T, name string) (*reftest.Fixture, almanac.Series) {
+	t.Helper()
+	f, err := reftest.Load("testdata/reference/" + name + ".json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return f, fixtureSeries(t, f)
+}
+
+func mustFit(t *testing.T, s Spec, y almanac.Series) *Fitted {
+	t.Helper()
+	f, err := s.Fit(context.Background(), y)
+	if err != nil {
+		t.Fatalf("%v: %v", s, err)
+	}
+	return f.(*Fitted)
+}
+
+func TestBadInput(t *testing.T) {
+	_, lh := fixtureData(t, "lh_ar1")
+	_, huron := fixtureData(t, "lakehuron_ar2_trend")
+	year := make([]float64, huron.Len())
+	for i := range year {
+		year[i] = float64(1875 + i)
+	}
+	withValues := func(y almanac.Series, v []float64) almanac.Series {
+		y.Values = v
+		return y
+	}
+	nan := math.NaN()
+	lhNaN := lh.Slice()
+	lhNaN[3] = nan
+	tests := []struct {
+		name     string
+		spec     Spec
+		y        almanac.Series
+		want     error
+		contains []string
+	}{
+		{"empty", Spec{}, withValues(lh, nil), almanac.ErrEmpty, nil},
+		{"all missing", Spec{}, withValues(lh, []float64{nan, nan, nan}), almanac.ErrAllMissing, nil},
+		{"infinite value", Spec{}, withValues(lh, []float64{1, 2, math.Inf(1), 4}), almanac.ErrNonFinite, nil},
+		{"constant", Spec{P: 1}, withValues(lh, []float64{3, 3, 3, 3, 3, 3, 3, 3}), almanac.ErrConstant, nil},
+		{"too short for the orders", Spec{P: 3, Q: 2}, lh.Head(6), almanac.ErrTooShort, []string{"ARIMA(3,0,2)"}},
+		{"too short after differencing", Spec{D: 1, SD: 1, SQ: 1, Period: 12}, lh.Head(14), almanac.ErrTooShort, nil},
+		{"negative order", Spec{P: -1}, lh, almanac.ErrInvalid, nil},
+		{"seasonal order without period", Spec{SP: 1}, huron, almanac.ErrInvalid, []string{"period"}},
+		{"unknown fixed name", Spec{P: 1, Fixed: map[string]float64{"ma1": 0.3}}, lh, almanac.ErrInvalid, []string{`"ma1"`}},
+		{"non-finite fixed value", Spec{P: 1, Fixed: map[string]float64{"ar1": math.NaN()}}, lh, almanac.ErrInvalid, nil},
+		{"drift with two differences", Spec{D: 2, Constant: ConstantInclude}, lh, almanac.ErrInvalid, nil},
+		{"unknown method", Spec{Method: Method(9)}, lh, almanac.ErrInvalid, nil},
+		{"CSS with missing values", Spec{P: 1, Method: CSS}, withValues(lh, lhNaN), almanac.ErrMissing, nil},
+		{"regressor of wrong length", Spec{P: 1, Regressors: []Regressor{{Name: "year", Values: year[:10]}}}, huron, almanac.ErrLength, []string{`"year"`}},
+		{"regressor with NaN", Spec{P: 1, Regressors: []Regressor{{Name: "year", Values: append([]float64{nan}, year[1:]...)}}}, huron, almanac.ErrNonFinite, nil},
+		{"regressor without name", Spec{P: 1, Regressors: []Regressor{{Values: year}}}, huron, almanac.ErrInvalid, nil},
+		{"regressor with a reserved name", Spec{P: 1, Regressors: []Regressor{{Name: "ar1", Values: year}}}, huron, almanac.ErrInvalid, nil},
+		{"duplicate regressor names", Spec{P: 1, Regressors: []Regressor{{Name: "year", Values: year}, {Name: "year", Values: year}}}, huron, almanac.ErrInvalid, nil},
+		{"collinear regressors", Spec{P: 1, Regressors: []Regressor{
+			{Name: "year", Values: year},
+			{Name: "decade", Values: scaled(year, 0.1)},
+		}}, huron, ErrCollinear, []string{`"decade"`, `"year"`}},
+		{"regressor collinear with the mean", Spec{P: 1, Regressors: []Regressor{{Name: "ones", Values: scaled(year, 0)}}}, huron, ErrCollinear, []string{`"ones"`}},
+		{"constant regressor removed by differencing", Spec{P: 1, D: 1, Regressors: []Regressor{{Name: "level", Values: plus(scaled(year, 0), 2)}}}, huron, ErrCollinear, []string{`"level"`, "differencing"}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := tc.spec.Fit(context.Background(), tc.y)
+			if !errors.Is(err, tc.want) {
+				t.Fatalf("error %v, want one wrapping %v", err, tc.want)
+			}
+			if !strings.HasPrefix(err.Error(), "arima: ") {
+				t.Errorf("message %q does not start with the package name", err)
+			}
+			for _, s := range tc.contains {
+				if !strings.Contains(err.Error(), s) {
+					t.Errorf("message %q does not name %s", err, s)
+				}
+			}
+		})
+	}
+}
+
+func scaled(v []float64, c float64) []float64 {
+	out := make([]float64, len(v))
+	for i, x := range v {
+		out[i] = c * x
+	}
+	return out
+}
+
+func plus(v []float64, c float64) []float64 {
+	out := make([]float64, len(v))
+	for i, x := range v {
+		out[i] = x + c
+	}
+	return out
+}
+
+func TestCancelledContext(t *testing.T) {
+	_, y := fixtureData(t, "usaccdeaths_airline")
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	_, err := airline.Fit(ctx, y)
+	if !errors.Is(err, context.Canceled) {
+		t.Fatalf("error %v, want context.Canceled", err)
+	}
+}
+
+// TestForecastArguments checks the forecast special cases, with the
+// LakeHuron regression of the reference fixtures.
+func TestForecastArguments(t *testing.T) {
+	f, huron := fixtureData(t, "lakehuron_ar2_trend")
+	year := f.Floats(t, "spec.xreg.columns.year")
+	fit := mustFit(t, Spec{P: 2, Regressors: []Regressor{{Name: "year", Values: year}}}, huron)
+	if got, want := fit.String(), "ARIMA(2,0,0) with mean, with regressors (year)"; got != want {
+		t.Errorf("String() = %q, want %q", got, want)
+	}
+	future := []float64{1973, 1974, 1975}
+	tests := []struct {
+		name string
+		call func() error
+		want error
+	}{
+		{"plain Forecast with regressors", func() error { _, err := fit.Forecast(3); return err }, ErrNeedRegressors},
+		{"no future columns", func() error { _, err := fit.ForecastWith(3, nil); return err }, ErrNeedRegressors},
+		{"too many columns", func() error { _, err := fit.ForecastWith(3, [][]float64{future, future}); return err }, ErrNeedRegressors},
+		{"column too short", func() error { _, err := fit.ForecastWith(4, [][]float64{future}); return err }, ErrNeedRegressors},
+		{"NaN future value", func() error {
+			_, err := fit.ForecastWith(3, [][]float64{{1973, math.NaN(), 1975}})
+			return err
+		}, ErrNeedRegressors},
+		{"zero horizon", func() error { _, err := fit.ForecastWith(0, [][]float64{{}}); return err }, almanac.ErrHorizon},
+		{"level 100", func() error { _, err := fit.ForecastWith(3, [][]float64{future}, 100); return err }, almanac.ErrLevel},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			if err := tc.call(); !errors.Is(err, tc.want) {
+				t.Fatalf("error %v, want one wrapping %v", err, tc.want)
+			}
+		})
+	}
+	fc, err := fit.ForecastWith(3, [][]float64{future}, 80, 95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := time.Date(1973, 1, 1, 0, 0, 0, 0, time.UTC); !fc.Start.Equal(want) {
+		t.Errorf("forecast starts %v, want %v", fc.Start, want)
+	}
+	// 95% interval contains the 80% one (nesting of Normal quantiles).
+	for h := range fc.Mean {
+		if !(fc.Intervals[1].Lower[h] < fc.Intervals[0].Lower[h] && fc.Intervals[0].Upper[h] < fc.Intervals[1].Upper[h]) {
+			t.Errorf("step %d: 95%% interval does not contain the 80%% one", h)
+		}
+	}
+}
+
+// TestDrift checks ARIMA(0,1,0) with drift on log air passengers against
+// the closed form of the random walk with drift (common practice): the
+// estimated drift is the mean of the differences, σ² their mean squared
+// deviation, the h-step forecast y_n + h·drift with standard error σ√h.
+func TestDrift(t *testing.T) {
+	y := logAirPassengers(t)
+	fit := mustFit(t, Spec{D: 1, Constant: ConstantInclude}, y)
+	if got, want := fit.String(), "ARIMA(0,1,0) with drift"; got != want {
+		t.Errorf("String() = %q, want %q", got, want)
+	}
+	v := y.Values
+	n := len(v)
+	mean := (v[n-1] - v[0]) / float64(n-1)
+	ss := 0.0
+	for i := 1; i < n; i++ {
+		d := v[i] - v[i-1] - mean
+		ss += d * d
+	}
+	s2 := ss / float64(n-1)
+	c := coefMap(fit)
+	numtest.Scalar(t, "drift", c["drift"].Value, mean, 1e-7, 0)
+	numtest.Scalar(t, "sigma2", fit.Sigma2(), s2, 0, 1e-6)
+	fc, err := fit.Forecast(12)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for h := range fc.Mean {
+		numtest.Scalar(t, "forecast", fc.Mean[h], v[n-1]+float64(h+1)*mean, 1e-6, 0)
+		numtest.Scalar(t, "se", sdOf(fc)[h], math.Sqrt(s2*float64(h+1)), 0, 1e-5)
+	}
+}
+
+// TestPartlyFixed fixes ma1 of the airline model at R's estimate
+// (airpassengers_log_airline fixture, R stats::arima) and estimates sma1:
+// it must land on R's sma1 within the fixture's coefficient tolerance.
+func TestPartlyFixed(t *testing.T) {
+	f, y := fixtureData(t, "airpassengers_log_airline")
+	s := airline
+	s.Fixed = map[string]float64{"ma1": f.Float(t, "expect.coef.ma1")}
+	fit := mustFit(t, s, y)
+	c := coefMap(fit)
+	if !c["ma1"].Fixed || c["sma1"].Fixed || !math.IsNaN(c["ma1"].StdErr) {
+		t.Errorf("fixed flags/SE wrong: %+v", fit.Coef())
+	}
+	if fit.NumParams() != 1 {
+		t.Errorf("NumParams = %d, want 1", fit.NumParams())
+	}
+	a, r := tol(t, f, "coef")
+	numtest.Scalar(t, "sma1", c["sma1"].Value, f.Float(t, "expect.coef.sma1"), a, r)
+}
+
+// TestMissingAtEnd: at fixed coefficients, a missing last value is
+// skipped by the filter, so the one-step forecast after it equals the
+// two-step forecast from the series without it (a property of the Kalman
+// filter, Durbin & Koopman 2012 §4.10). Checked on the airline model,
+// where a missing value sends the filter through the full state.
+func TestMissingAtEnd(t *testing.T) {
+	f, y := fixtureData(t, "usaccdeaths_airline")
+	s := airline
+	s.Fixed = map[string]float64{"ma1": f.Float(t, "expect.at_fixed.fixed.ma1"), "sma1": f.Float(t, "expect.at_fixed.fixed.sma1")}
+	short := y.Head(y.Len() - 1)
+	gap := y.Clone()
+	gap.Values[gap.Len()-1] = math.NaN()
+	fs := mustFit(t, s, short)
+	fg := mustFit(t, s, gap)
+	numtest.Scalar(t, "loglik", fg.LogLik(), fs.LogLik(), 0, 1e-9)
+	a, err := fs.Forecast(3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := fg.Forecast(2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	numtest.Slice(t, "mean", b.Mean, a.Mean[1:], 0, 1e-9)
+	numtest.Slice(t, "se", sdOf(b), sdOf(a)[1:], 0, 1e-9)
+}
+
+// TestShortcutEqualsFullFilter: the ARMA-only filter used after the first
+// d + sD observations gives the sums, residuals and final state of the
+// full filter (to rounding: the full filter carries κ = 1e6 in its
+// covariance, which costs it about six digits, so agreement is asked to
+// 1e-8 relative). Internal consistency, not a reference check.
+func TestShortcutEqualsFullFilter(t *testing.T) {
+	f, y := fixtureData(t, "usaccdeaths_airline")
+	lay, err := airline.resolve(y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr := newProblem(lay, y.Slice(), nil, nil)
+	coef := []float64{f.Float(t, "expect.coef.ma1"), f.Float(t, "expect.coef.sma1")}
+	r1 := make([]float64, y.Len())
+	r2 := make([]float64, y.Len())
+	fast, _ := pr.likelihood(coef, r1)
+	a1 := append([]float64(nil), pr.kal.a...)
+	pr.lay.expand(coef, pr.phi, pr.theta)
+	pr.kal.setARMA(pr.phi, pr.theta)
+	pr.kal.init()
+	pr.adjust(coef)
+	full := pr.kal.filterFull(pr.w, r2)
+	if fast.nu != full.nu {
+		t.Fatalf("nu %d vs %d", fast.nu, full.nu)
+	}
+	numtest.Scalar(t, "ssq", fast.ssq, full.ssq, 0, 1e-8)
+	numtest.Scalar(t, "sumlog", fast.sumlog, full.sumlog, 1e-8, 1e-8)
+	numtest.Slice(t, "residuals", r1, r2, 1e-8, 1e-8)
+	numtest.Slice(t, "state", a1, pr.kal.a, 1e-8, 1e-8)
+}
+
+// TestScaleInvariance: forecasts of c·y are c times the forecasts of y
+// (DESIGN.md), for a seasonal differenced model and one with a mean.
+func TestScaleInvariance(t *testing.T) {
+	for _, tc := range []struct {
+		name, fixture string
+		spec          Spec
+	}{
+		{"airline", "usaccdeaths_airline", Spec{D: 1, Q: 1, SD: 1, SQ: 1}},
+		{"ARMA(1,1) with mean", "lh_arma11", Spec{P: 1, Q: 1}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, y := fixtureData(t, tc.fixture)
+			const c = 1000
+			yc := y.Clone()
+			for i := range yc.Values {
+				yc.Values[i] *= c
+			}
+			f1 := mustFit(t, tc.spec, y)
+			f2 := mustFit(t, tc.spec, yc)
+			a, err := f1.Forecast(12)
+			if err != nil {
+				t.Fatal(err)
+			}
+			b, err := f2.Forecast(12)
+			if err != nil {
+				t.Fatal(err)
+			}
+			numtest.Slice(t, "mean", b.Mean, scaled(a.Mean, c), 0, 1e-6)
+			numtest.Slice(t, "se", sdOf(b), scaled(sdOf(a), c), 0, 1e-5)
+		})
+	}
+}
+
+// TestDeterminism: fits of one Spec on one series are bit-identical,
+// serially and from concurrent goroutines.
+func TestDeterminism(t *testing.T) {
+	_, y := fixtureData(t, "usaccdeaths_airline")
+	ref := mustFit(t, airline, y)
+	refFc, err := ref.Forecast(24, 95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const workers = 4
+	fits := make([]*Fitted, workers)
+	var wg sync.WaitGroup
+	for i := range fits {
+		wg.Go(func() {
+			f, err := airline.Fit(context.Background(), y)
+			if err == nil {
+				fits[i] = f.(*Fitted)
+			}
+		})
+	}
+	wg.Wait()
+	for i, f := range fits {
+		if f == nil {
+			t.Fatalf("worker %d failed", i)
+		}
+		fc, err := f.Forecast(24, 95)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for j := range f.coef {
+			if f.coef[j] != ref.coef[j] {
+				t.Errorf("worker %d: coefficient %d differs: %v vs %v", i, j, f.coef[j], ref.coef[j])
+			}
+		}
+		for h := range fc.Mean {
+			if fc.Mean[h] != refFc.Mean[h] || fc.Intervals[0].Upper[h] != refFc.Intervals[0].Upper[h] {
+				t.Errorf("worker %d: forecast step %d differs", i, h)
+			}
+		}
+		if f.LogLik() != ref.LogLik() {
+			t.Errorf("worker %d: loglik differs", i)
+		}
+	}
+}
+
+// TestNoAllocPerLikelihood: evaluating the ML and CSS objectives does not
+// allocate.
+func TestNoAllocPerLikelihood(t *testing.T) {
+	y := logAirPassengers(t)
+	for _, s := range []Spec{airline, {P: 2, Q: 1, SP: 1}, {P: 1, D: 1, Q: 1, Constant: ConstantInclude}} {
+		lay, err := s.resolve(y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		x := make([][]float64, 0)
+		if lay.mean || lay.drift {
+			col := make([]float64, y.Len())
+			for i := range col {
+				col[i] = float64(i + 1)
+			}
+			x = append(x, col)
+		}
+		pr := newProblem(lay, y.Slice(), x, nil)
+		p := make([]float64, len(pr.free))
+		for i := range p {
+			p[i] = 0.1
+		}
+		if n := testing.AllocsPerRun(20, func() { pr.mlObjective(p, true) }); n != 0 {
+			t.Errorf("%v: ML objective allocates %v times per evaluation", s, n)
+		}
+		if n := testing.AllocsPerRun(20, func() { pr.cssObjective(p) }); n != 0 {
+			t.Errorf("%v: CSS objective allocates %v times per evaluation", s, n)
+		}
+		// And with a missing value (full state filter).
+		pr.y[40] = math.NaN()
+		if n := testing.AllocsPerRun(20, func() { pr.mlObjective(p, true) }); n != 0 {
+			t.Errorf("%v with a missing value: ML objective allocates %v times per evaluation", s, n)
+		}
+	}
+}
+
+func TestEnumStrings(t *testing.T) {
+	for _, tc := range []struct{ got, want string }{
+		{CSSThenML.String(), "CSS-ML"}, {ML.String(), "ML"}, {CSS.String(), "CSS"}, {Method(7).String(), "Method(7)"},
+		{ConstantAuto.String(), "auto"}, {ConstantNone.String(), "none"}, {ConstantInclude.String(), "include"}, {Constant(5).String(), "Constant(5)"},
+		{Spec{P: 1, D: 1, Q: 1}.String(), "ARIMA(1,1,1)"},
+		{Spec{D: 1, Q: 1, SD: 1, SQ: 1, Period: 12}.String(), "ARIMA(0,1,1)(0,1,1)[12]"},
+		{Spec{SP: 1}.String(), "ARIMA(0,0,0)(1,0,0)[s]"},
+	} {
+		if tc.got != tc.want {
+			t.Errorf("got %q, want %q", tc.got, tc.want)
+		}
+	}
+	_ = calendar.Monthly
+}
