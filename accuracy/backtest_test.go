@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"sync"
 	"testing"
 	"time"
@@ -14,6 +15,7 @@ import (
 	"github.com/almanac-go/almanac/calendar"
 	"github.com/almanac-go/almanac/internal/numtest"
 	"github.com/almanac-go/almanac/internal/reftest"
+	"github.com/almanac-go/almanac/smoothing"
 	"github.com/google/go-cmp/cmp"
 	"github.com/google/go-cmp/cmp/cmpopts"
 )
@@ -529,5 +531,79 @@ func TestBacktestMissingActual(t *testing.T) {
 	}
 	if !math.IsNaN(c.Runs[0].Errors[1][2]) {
 		t.Errorf("error at the missing actual = %v, want NaN", c.Runs[0].Errors[1][2])
+	}
+}
+
+// TestScaleFreeMeasures: MAPE, sMAPE, MASE, RMSSE, coverage and the
+// relative scores do not change when the data are multiplied by a
+// positive constant; MAE and RMSE scale with it (DESIGN.md, "Numbers").
+func TestScaleFreeMeasures(t *testing.T) {
+	y := airPassengers(t)
+	z := y.Clone()
+	const c = 37.5
+	for i := range z.Values {
+		z.Values[i] *= c
+	}
+	bt := accuracy.Backtest{Horizon: 12, Origins: 6, Levels: []float64{90}}
+	m := accuracy.Candidate{Name: "drift", Model: almanac.Drift{}}
+	a, err := bt.Run(context.Background(), y, m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := bt.Run(context.Background(), z, m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range a.Runs {
+		sa, sb := a.Runs[i].Overall, b.Runs[i].Overall
+		name := a.Runs[i].Name
+		numtest.Scalar(t, name+" MAPE", sb.MAPE, sa.MAPE, 0, 1e-12)
+		numtest.Scalar(t, name+" sMAPE", sb.SMAPE, sa.SMAPE, 0, 1e-12)
+		numtest.Scalar(t, name+" MASE", sb.MASE, sa.MASE, 0, 1e-12)
+		numtest.Scalar(t, name+" RMSSE", sb.RMSSE, sa.RMSSE, 0, 1e-12)
+		numtest.Scalar(t, name+" MSIS", sb.Intervals[0].MSIS, sa.Intervals[0].MSIS, 0, 1e-12)
+		numtest.Scalar(t, name+" coverage", sb.Intervals[0].Coverage, sa.Intervals[0].Coverage, 0, 0)
+		numtest.Scalar(t, name+" relative MASE", b.Runs[i].Relative.MASE, a.Runs[i].Relative.MASE, 0, 1e-12)
+		numtest.Scalar(t, name+" MAE", sb.MAE, c*sa.MAE, 0, 1e-12)
+		numtest.Scalar(t, name+" RMSE", sb.RMSE, c*sa.RMSE, 0, 1e-12)
+		numtest.Scalar(t, name+" CRPS", sb.CRPS, c*sa.CRPS, 0, 1e-12)
+	}
+}
+
+// TestBacktestAutomaticETS runs the backtest on a model from another
+// package (smoothing.Select) and records the selected model per origin.
+func TestBacktestAutomaticETS(t *testing.T) {
+	if testing.Short() {
+		t.Skip("fits automatic ETS at several origins")
+	}
+	y := airPassengers(t)
+	bt := accuracy.Backtest{Horizon: 12, Origins: 2, Step: 12, Levels: []float64{80}}
+	c, err := bt.Run(context.Background(), y, accuracy.Candidate{Name: "ets", Model: smoothing.Select{}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, _ := c.Run("ets")
+	for k, s := range r.Fits {
+		if !strings.HasPrefix(s, "ETS(") {
+			t.Errorf("origin %d: fitted %q, want ETS notation", k, s)
+		}
+	}
+	t.Logf("selected: %v", r.Fits)
+	if math.IsNaN(r.Overall.MASE) {
+		t.Errorf("MASE missing: %+v", r.Overall)
+	}
+	exact := true // CRPS is exact (so defined) for normal and sample distributions
+	for _, f := range r.Forecasts {
+		switch f.Dist.(type) {
+		case *almanac.Normal, *almanac.Sample:
+		default:
+			exact = false
+		}
+	}
+	if exact == math.IsNaN(r.Overall.CRPS) {
+		t.Errorf("CRPS %v with exact-form distributions %v", r.Overall.CRPS, exact)
+	}
+	if len(c.Runs) != 3 || c.Baseline != accuracy.SeasonalNaiveName {
+		t.Errorf("runs %d, baseline %q", len(c.Runs), c.Baseline)
 	}
 }
