@@ -223,7 +223,10 @@ const DefaultFence = 3
 // is robust STL, so the outliers themselves barely move it. Missing
 // values are filled first (and reported) so the screen can run.
 // Quartiles are the type-7 sample quantiles (linear interpolation between
-// order statistics, common practice).
+// order statistics, common practice). When the interquartile range of the
+// remainder is zero to rounding (1e-9 of the largest |value|), as for a
+// constant or exactly periodic series, there is no scale to judge by and
+// nothing is flagged.
 //
 // Example:
 //
@@ -279,6 +282,16 @@ func (s Screen) Apply(y almanac.Series) (almanac.Series, []Change, error) {
 	sorted := slices.Clone(d.Remainder)
 	slices.Sort(sorted)
 	q1, q3 := quantile7(sorted, 0.25), quantile7(sorted, 0.75)
+	scale := 0.0
+	for _, v := range filled.Values {
+		scale = math.Max(scale, math.Abs(v))
+	}
+	if q3-q1 <= 1e-9*scale {
+		// No spread in the remainder (a constant or exactly seasonal
+		// series, or one dominated by repeated values): no scale to
+		// judge outliers by, so nothing is flagged.
+		return filled, changes, nil
+	}
 	lo, hi := q1-k*(q3-q1), q3+k*(q3-q1)
 	n := y.Len()
 	gap := make([]bool, n)

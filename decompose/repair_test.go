@@ -178,3 +178,25 @@ func TestReasonString(t *testing.T) {
 		}
 	}
 }
+
+// TestScreenNoSpread: a constant series has no remainder spread, so
+// rounding noise in the remainder must not be flagged.
+func TestScreenNoSpread(t *testing.T) {
+	v := make([]float64, 60)
+	for i := range v {
+		v[i] = 123.4
+	}
+	y := monthly(v)
+	out, changes, err := decompose.Screen{}.Apply(y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(changes) != 0 {
+		t.Fatalf("constant series: %d changes", len(changes))
+	}
+	for i := range v {
+		if out.Values[i] != v[i] {
+			t.Fatalf("value %d changed", i)
+		}
+	}
+}

@@ -75,7 +75,10 @@ type STL struct {
 	SeasonalWindow int
 	// Periodic makes the seasonal component strictly periodic (R's
 	// s.window = "periodic"): the span becomes 10n+1 with degree 0 and the
-	// result is averaged over each position in the cycle.
+	// result is averaged over each position in the cycle. Positions are
+	// taken by observation index modulo Period; R groups by calendar
+	// position (cycle(x)), which forms the same groups whatever month the
+	// series starts in, so the results agree.
 	Periodic bool
 	// SeasonalDegree: DegreeAuto means Constant.
 	SeasonalDegree Degree
