@@ -193,8 +193,12 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 			}
 		}
 	}
-	// Correlation of the base forecast errors.
-	var corr *mat.Dense
+	// Correlation of the base forecast errors: R = (1 − λ) Z'Z/T + λ I,
+	// Z the residuals standardised by √W1_ii (λ = 0 for the sample
+	// covariance). Kept in this factored form, so a variance costs O(nT)
+	// rather than O(n²).
+	var zt *mat.Dense // n × T
+	var lambda float64
 	if spec.Residuals != nil {
 		kind := Shrinkage
 		if p.method == MethodMinTSample {
@@ -204,10 +208,17 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 		if err != nil {
 			return nil, err
 		}
-		corr = mat.NewDense(n, n, nil)
-		for i := 0; i < n; i++ {
-			for j := 0; j < n; j++ {
-				corr.Set(i, j, est.W.At(i, j)/math.Sqrt(est.W.At(i, i)*est.W.At(j, j)))
+		rows, err := completeRows(c, spec.Residuals, "residuals")
+		if err != nil {
+			return nil, err
+		}
+		lambda = est.Lambda
+		zt = mat.NewDense(n, len(rows), nil)
+		for k := 0; k < n; k++ {
+			sd := math.Sqrt(est.W.At(k, k))
+			row := zt.RawRowView(k)
+			for t, r := range rows {
+				row[t] = r[k] / sd
 			}
 		}
 	}
@@ -244,24 +255,26 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 		for i := 0; i < n; i++ {
 			means[i][t] = rec[i]
 		}
-		if corr == nil {
+		for i := 0; i < n; i++ {
+			var v float64
+			for _, x := range sg.RawRowView(i) {
+				v += x * x
+			}
+			sds[i][t] = v
+		}
+		if zt != nil {
+			a := mulSerial(&sg, zt)
+			_, T := zt.Dims()
 			for i := 0; i < n; i++ {
 				var v float64
-				for _, x := range sg.RawRowView(i) {
+				for _, x := range a.RawRowView(i) {
 					v += x * x
 				}
-				sds[i][t] = math.Sqrt(v)
+				sds[i][t] = lambda*sds[i][t] + (1-lambda)*v/float64(T)
 			}
-			continue
 		}
-		a := mulSerial(&sg, corr)
 		for i := 0; i < n; i++ {
-			ai, mi := a.RawRowView(i), sg.RawRowView(i)
-			var v float64
-			for k := range ai {
-				v += ai[k] * mi[k]
-			}
-			sds[i][t] = math.Sqrt(max(v, 0))
+			sds[i][t] = math.Sqrt(max(sds[i][t], 0))
 		}
 	}
 	out := make([]almanac.Distribution, n)

@@ -86,11 +86,12 @@ type Spec struct {
 type plan struct {
 	c      *core
 	method Method
-	g      *mat.Dense    // fixed linear map (m × n), or nil
-	split  *splitMap     // top-down / middle-out, or nil
-	nn     *nnSolver     // non-negative projection, or nil
-	w      mat.Symmetric // the weights of a projection method (nil for OLS: identity)
-	lambda float64
+	g      *mat.Dense // fixed linear map (m × n), or nil
+	split  *splitMap  // top-down / middle-out, or nil
+	nn     *nnSolver  // non-negative projection, or nil
+	// bottomUp marks the bottom-up map (no matrix); clip its
+	// non-negative version.
+	bottomUp, clip bool
 }
 
 func newPlan(st Structure, spec Spec, y [][]float64) (*plan, error) {
@@ -106,23 +107,14 @@ func newPlan(st Structure, spec Spec, y [][]float64) (*plan, error) {
 		}
 	}
 	p := &plan{c: c, method: method}
-	n, m := c.n(), c.m
+	n := c.n()
 	switch method {
 	case MethodBottomUp:
-		g := mat.NewDense(m, n, nil)
-		for j := 0; j < m; j++ {
-			g.Set(j, c.bottomNode(j), 1)
-		}
-		p.g = g
-		if spec.NonNegative {
-			x := mat.NewDense(n, m, nil)
-			q := mat.NewSymDense(m, nil)
-			for j := 0; j < m; j++ {
-				x.Set(c.bottomNode(j), j, 1)
-				q.SetSym(j, j, 1)
-			}
-			p.nn = newNNSolver(q, x)
-		}
+		// No matrix: the bottom-level base forecasts are copied (and,
+		// for NonNegative, clipped at zero: the nearest non-negative
+		// point in the identity metric of the bottom level).
+		p.bottomUp = true
+		p.clip = spec.NonNegative
 		return p, nil
 	case MethodTopDown, MethodMiddleOut:
 		if spec.NonNegative {
@@ -158,8 +150,6 @@ func newPlan(st Structure, spec Spec, y [][]float64) (*plan, error) {
 		if err != nil {
 			return nil, err
 		}
-		p.lambda = est.Lambda
-		p.w = est.W
 		if method == MethodWLSVariance {
 			diag = make([]float64, n)
 			for i := range diag {
@@ -170,13 +160,6 @@ func newPlan(st Structure, spec Spec, y [][]float64) (*plan, error) {
 		}
 	default:
 		return nil, fmt.Errorf("reconcile: %w: unknown method %v", almanac.ErrInvalid, method)
-	}
-	if diag != nil && method != MethodWLSVariance {
-		w := mat.NewSymDense(n, nil)
-		for i, v := range diag {
-			w.SetSym(i, i, v)
-		}
-		p.w = w
 	}
 	w, err := newWeights(c, diag, full, method.String())
 	if err != nil {
@@ -197,6 +180,16 @@ func newPlan(st Structure, spec Spec, y [][]float64) (*plan, error) {
 // at step t into dst (length m).
 func (p *plan) bottomsTo(dst, y []float64, t int) error {
 	switch {
+	case p.bottomUp:
+		na := p.c.n() - p.c.m
+		for j := range dst {
+			v := y[na+j]
+			if p.clip && v < 0 {
+				v = 0
+			}
+			dst[j] = v
+		}
+		return nil
 	case p.split != nil:
 		coef := p.split.row(t)
 		for j := range dst {
@@ -233,10 +226,17 @@ func (p *plan) linear(dst, y []float64) {
 
 // gAt returns the linear map (m × n) applied at step t.
 func (p *plan) gAt(t int) *mat.Dense {
+	c := p.c
+	if p.bottomUp {
+		g := mat.NewDense(c.m, c.n(), nil)
+		for j := 0; j < c.m; j++ {
+			g.Set(j, c.bottomNode(j), 1)
+		}
+		return g
+	}
 	if p.split == nil {
 		return p.g
 	}
-	c := p.c
 	g := mat.NewDense(c.m, c.n(), nil)
 	coef := p.split.row(t)
 	for j, a := range p.split.src {

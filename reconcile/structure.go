@@ -49,11 +49,10 @@ type core struct {
 	bottoms  [][]int // bottom positions under each node, ascending
 	m        int
 	nlevels  int
-	s        *mat.Dense
 	sCols    [][]int // for each bottom position, the nodes that contain it
 }
 
-// finish builds S and the derived tables once names, levels, parents and
+// finish builds the derived tables once names, levels, parents and
 // bottoms are set.
 func (c *core) finish() {
 	n := len(c.names)
@@ -61,11 +60,9 @@ func (c *core) finish() {
 	for i, name := range c.names {
 		c.index[name] = i
 	}
-	c.s = mat.NewDense(n, c.m, nil)
 	c.sCols = make([][]int, c.m)
 	for i, bs := range c.bottoms {
 		for _, j := range bs {
-			c.s.Set(i, j, 1)
 			c.sCols[j] = append(c.sCols[j], i)
 		}
 	}
@@ -103,7 +100,17 @@ func (c *core) bottomsOf(i int) []int {
 	return slices.Clone(c.bottoms[i])
 }
 
-func (c *core) summing() *mat.Dense { return mat.DenseCopyOf(c.s) }
+// summing builds the dense S on demand; the structure itself keeps only
+// the sparse lists of bottom series under each node.
+func (c *core) summing() *mat.Dense {
+	s := mat.NewDense(c.n(), c.m, nil)
+	for i, bs := range c.bottoms {
+		for _, j := range bs {
+			s.Set(i, j, 1)
+		}
+	}
+	return s
+}
 
 // aggregateRow writes the sums S·b of one vector of bottom values into
 // dst (length n).
