@@ -242,3 +242,46 @@ func TestAdjusted(t *testing.T) {
 		}
 	}
 }
+
+// TestConcurrentDeterminism: one specification used from several
+// goroutines gives bit-identical results to a serial run.
+func TestConcurrentDeterminism(t *testing.T) {
+	ys := []almanac.Series{
+		fixtureInput(t, "stl_co2_swin7"),
+		fixtureInput(t, "stl_nottem_periodic"),
+		fixtureInput(t, "decompose_airpassengers_multiplicative"),
+		fixtureInput(t, "stl_ukgas_swin9_sdeg1"),
+	}
+	spec := decompose.STL{Robust: true}
+	want := make([]*decompose.Decomposition, len(ys))
+	for i, y := range ys {
+		d, err := spec.Decompose(y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want[i] = d
+	}
+	got := make([]*decompose.Decomposition, 4*len(ys))
+	errs := make([]error, len(got))
+	done := make(chan struct{})
+	for k := range got {
+		go func() {
+			defer func() { done <- struct{}{} }()
+			got[k], errs[k] = spec.Decompose(ys[k%len(ys)])
+		}()
+	}
+	for range got {
+		<-done
+	}
+	for k, d := range got {
+		if errs[k] != nil {
+			t.Fatal(errs[k])
+		}
+		w := want[k%len(ys)]
+		for i := range w.Trend {
+			if math.Float64bits(d.Trend[i]) != math.Float64bits(w.Trend[i]) || math.Float64bits(d.Seasonal[i]) != math.Float64bits(w.Seasonal[i]) || math.Float64bits(d.Weights[i]) != math.Float64bits(w.Weights[i]) {
+				t.Fatalf("goroutine %d differs at %d", k, i)
+			}
+		}
+	}
+}

@@ -173,3 +173,51 @@ func TestPsortLong(t *testing.T) {
 		t.Fatalf("median %v, want %v", a[m-1], sorted[m-1])
 	}
 }
+
+// TestWorkspaceReuse: a Workspace reused across lengths n−1, n+1 and n
+// gives bit-identical results to a fresh one.
+func TestWorkspaceReuse(t *testing.T) {
+	y := loadInput(t, "stl_co2_swin7")
+	var ws Workspace
+	for _, n := range []int{144, 143, 145, 144, 468, 144} {
+		p := Defaults(n, 12, 7, false, true)
+		s, tr, r, w := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+		if err := ws.DecomposeTo(s, tr, r, w, y[:n], p); err != nil {
+			t.Fatal(err)
+		}
+		s2, tr2, r2, w2, err := Decompose(y[:n], p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range s {
+			if s[i] != s2[i] || tr[i] != tr2[i] || r[i] != r2[i] || w[i] != w2[i] {
+				t.Fatalf("n %d: reused workspace differs at %d", n, i)
+			}
+		}
+	}
+}
+
+// TestScaleByTwo: loess and the bisquare weights are equivariant under
+// scaling, and multiplying by 2 is exact in floating point, so the
+// components of 2y are exactly twice those of y and the weights equal.
+func TestScaleByTwo(t *testing.T) {
+	y := loadInput(t, "stl_airpassengers_log_swin13_robust")
+	y2 := make([]float64, len(y))
+	for i := range y {
+		y2[i] = 2 * y[i]
+	}
+	p := Defaults(len(y), 12, 13, false, true)
+	s, tr, r, w, err := Decompose(y, p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s2, tr2, r2, w2, err := Decompose(y2, p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range y {
+		if s2[i] != 2*s[i] || tr2[i] != 2*tr[i] || r2[i] != 2*r[i] || w2[i] != w[i] {
+			t.Fatalf("index %d: scaling by 2 is not exact", i)
+		}
+	}
+}
