@@ -85,7 +85,7 @@
 // use; every function is a pure function of its arguments (it reads the
 // matrices it is given and returns fresh ones) and starts no goroutines of
 // its own. (gonum's blocked Cholesky factorisation hands large matrix
-// products, from about 256 nodes up, to its parallel kernel, which splits
+// products, from a few hundred nodes up, to its parallel kernel, which splits
 // the output into blocks each summed in a fixed order, so the result does
 // not depend on scheduling.) Results are bit-identical from run to run and
 // whatever the number of goroutines. Reconcile many independent structures (or forecast

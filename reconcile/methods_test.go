@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"runtime"
 	"sync"
 	"testing"
 
@@ -422,5 +423,38 @@ func TestRowAllocations(t *testing.T) {
 				t.Errorf("%v allocations per row, want 0", allocs)
 			}
 		})
+	}
+}
+
+// Large enough for gonum's parallel matrix kernel inside the Cholesky
+// factorisation: the result must not depend on GOMAXPROCS.
+func TestDeterminismAcrossProcs(t *testing.T) {
+	if testing.Short() {
+		t.Skip("large structure")
+	}
+	rng := rand.New(rand.NewPCG(61, 62))
+	stores := make([]int, 20)
+	for i := range stores {
+		stores[i] = 20
+	}
+	h := testHierarchy(t, stores...) // n = 421
+	resid := randomResiduals(h, 40, rng)
+	base := coherentData(h, 3, 10, rng)
+	spec := reconcile.Spec{Method: reconcile.MethodMinTShrink, Residuals: resid}
+	var want *mat.Dense
+	for _, procs := range []int{1, 2, 4} {
+		old := runtime.GOMAXPROCS(procs)
+		got, err := reconcile.Reconcile(h, base, spec)
+		runtime.GOMAXPROCS(old)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if want == nil {
+			want = got
+			continue
+		}
+		if !mat.Equal(got, want) {
+			t.Errorf("GOMAXPROCS=%d result differs from GOMAXPROCS=1", procs)
+		}
 	}
 }
