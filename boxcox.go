@@ -165,33 +165,45 @@ func checkLLFData(y []float64, lambda float64) error {
 
 // boxCoxLLF evaluates the log-likelihood on data already checked.
 func boxCoxLLF(y []float64, lambda float64) float64 {
-	n, sumLog, sum := 0, 0.0, 0.0
+	n, sumLog := 0, 0.0
 	for _, v := range y {
-		if math.IsNaN(v) {
-			continue
+		if !math.IsNaN(v) {
+			sumLog += math.Log(v)
+			n++
 		}
-		l := math.Log(v)
-		sumLog += l
+	}
+	return llfFromLogs(y, true, n, sumLog, lambda)
+}
+
+// llfFromLogs evaluates the log-likelihood from x, which holds the data
+// (isData) or their logarithms, skipping NaN; n and sumLog are the count
+// and the sum of the logs of the observed values. It does not allocate.
+// The variance of y^λ/λ = exp(λ log y)/λ is taken in two passes (mean,
+// then squared deviations) as numpy.var does.
+func llfFromLogs(x []float64, isData bool, n int, sumLog, lambda float64) float64 {
+	t := func(v float64) float64 {
+		l := v
+		if isData {
+			l = math.Log(v)
+		}
 		if lambda == 0 {
-			sum += l
-		} else {
-			sum += math.Exp(lambda*l) / lambda
+			return l
 		}
-		n++
+		return math.Exp(lambda*l) / lambda
+	}
+	sum := 0.0
+	for _, v := range x {
+		if !math.IsNaN(v) {
+			sum += t(v)
+		}
 	}
 	mean := sum / float64(n)
 	ss := 0.0
-	for _, v := range y {
-		if math.IsNaN(v) {
-			continue
+	for _, v := range x {
+		if !math.IsNaN(v) {
+			d := t(v) - mean
+			ss += d * d
 		}
-		var t float64
-		if lambda == 0 {
-			t = math.Log(v)
-		} else {
-			t = math.Exp(lambda*math.Log(v)) / lambda
-		}
-		ss += (t - mean) * (t - mean)
 	}
 	return (lambda-1)*sumLog - float64(n)/2*math.Log(ss/float64(n))
 }
@@ -225,7 +237,17 @@ func LambdaML(y []float64, lower, upper float64) (float64, error) {
 	if err := checkLLFData(y, 1); err != nil {
 		return 0, err
 	}
-	lam, _ := brentMin(func(l float64) float64 { return -boxCoxLLF(y, l) }, lo, hi, lambdaTol, 500)
+	// Take the logs once; each evaluation then needs one exp per value.
+	logs := make([]float64, len(y))
+	n, sumLog := 0, 0.0
+	for i, v := range y {
+		logs[i] = math.Log(v) // NaN stays NaN
+		if !math.IsNaN(v) {
+			sumLog += logs[i]
+			n++
+		}
+	}
+	lam, _ := brentMin(func(l float64) float64 { return -llfFromLogs(logs, false, n, sumLog, l) }, lo, hi, lambdaTol, 500)
 	return lam, nil
 }
 

@@ -138,6 +138,19 @@ func TestBoxCoxAllocs(t *testing.T) {
 	if a := testing.AllocsPerRun(100, func() { _, _ = almanac.BoxCoxLLF(y, 0.3) }); a != 0 {
 		t.Errorf("BoxCoxLLF allocates %v per call", a)
 	}
+	logs := make([]float64, len(y))
+	sumLog := 0.0
+	for i, v := range y {
+		logs[i] = math.Log(v)
+		sumLog += logs[i]
+	}
+	obj := almanac.MLObjective(logs, len(y), sumLog)
+	if a := testing.AllocsPerRun(100, func() { _ = obj(0.3) }); a != 0 {
+		t.Errorf("LambdaML objective allocates %v per call", a)
+	}
+	if got, want := obj(0.3), mustLLF(t, y, 0.3); math.Abs(got-want) > 1e-9*math.Abs(want) {
+		t.Errorf("objective from logs %v, BoxCoxLLF %v", got, want)
+	}
 	cv, err := almanac.GuerreroObjective(y, 12)
 	if err != nil {
 		t.Fatal(err)
@@ -382,4 +395,13 @@ func TestLambdaMethodString(t *testing.T) {
 			}
 		})
 	}
+}
+
+func mustLLF(t *testing.T, y []float64, lambda float64) float64 {
+	t.Helper()
+	v, err := almanac.BoxCoxLLF(y, lambda)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return v
 }

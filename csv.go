@@ -55,6 +55,10 @@ type CSVOptions struct {
 	FillGaps bool
 	// Comma is the field delimiter; 0 means ','.
 	Comma rune
+	// Digits is the number of significant digits the writers use for
+	// values; 0 means the shortest text that reads back as the same
+	// float64. Negative is invalid. ReadCSV ignores it.
+	Digits int
 }
 
 func (o CSVOptions) columns() (key, tm, val string) {
@@ -233,6 +237,9 @@ func checkCSVOptions(opt CSVOptions) error {
 			return fmt.Errorf("almanac: csv: %w", err)
 		}
 	}
+	if opt.Digits < 0 {
+		return fmt.Errorf("almanac: csv: %w: %d digits", ErrInvalid, opt.Digits)
+	}
 	k, t, v := opt.columns()
 	if k == t || k == v || t == v {
 		return fmt.Errorf("almanac: csv: %w: column names %q, %q, %q must differ", ErrInvalid, k, t, v)
@@ -371,11 +378,14 @@ func formatCSVTime(t time.Time, freq calendar.Frequency, layout string, loc *tim
 	return t.Format(time.RFC3339Nano)
 }
 
-func formatCSVValue(v float64) string {
+func formatCSVValue(v float64, digits int) string {
 	if math.IsNaN(v) {
 		return "NA"
 	}
-	return strconv.FormatFloat(v, 'g', -1, 64)
+	if digits == 0 {
+		digits = -1
+	}
+	return strconv.FormatFloat(v, 'g', digits, 64)
 }
 
 func (o CSVOptions) writeLayout() string {
@@ -411,7 +421,7 @@ func WriteSeriesCSV(w io.Writer, ys []Series, opt CSVOptions) error {
 	rec := make([]string, 3)
 	for _, s := range ys {
 		for i, x := range s.Values {
-			rec[0], rec[1], rec[2] = s.Key, formatCSVTime(s.Time(i), s.Freq, layout, opt.location()), formatCSVValue(x)
+			rec[0], rec[1], rec[2] = s.Key, formatCSVTime(s.Time(i), s.Freq, layout, opt.location()), formatCSVValue(x, opt.Digits)
 			if err := cw.Write(rec); err != nil {
 				return fmt.Errorf("almanac: csv: %w", err)
 			}
@@ -478,12 +488,12 @@ func WriteForecastCSV(w io.Writer, fcs []BatchForecast, opt CSVOptions) error {
 		fc := f.Forecast
 		for h, m := range fc.Mean {
 			rec[0], rec[1] = f.Key, formatCSVTime(fc.Time(h), fc.Freq, layout, opt.location())
-			rec[2], rec[3] = strconv.Itoa(h+1), formatCSVValue(m)
+			rec[2], rec[3] = strconv.Itoa(h+1), formatCSVValue(m, opt.Digits)
 			for j, l := range levels {
 				lo, hi := "NA", "NA"
 				for _, iv := range fc.Intervals {
 					if iv.Level == l && h < len(iv.Lower) && h < len(iv.Upper) {
-						lo, hi = formatCSVValue(iv.Lower[h]), formatCSVValue(iv.Upper[h])
+						lo, hi = formatCSVValue(iv.Lower[h], opt.Digits), formatCSVValue(iv.Upper[h], opt.Digits)
 						break
 					}
 				}

@@ -11,11 +11,52 @@
 // (coherent forecasts for hierarchies) and calendar (frequencies and
 // calendar arithmetic).
 //
+// # Series and forecasts
+//
+// A Series is regularly spaced: Values[i] is observed at
+// Freq.Add(Start, i). A Model is a specification (options only); its Fit
+// returns a Fitted, whose Forecast gives point forecasts, central
+// prediction intervals and, through the forecast distribution (Normal,
+// Sample or Mapped), any quantile. The forecast starts at y.Time(y.Len()).
+// Writing a model of one's own takes a Fit method and the four Fitted
+// methods; see Model and the custom-model example.
+//
+// # Benchmarks
+//
+// Naive, SeasonalNaive, Drift and Mean forecast with normal intervals
+// from the closed-form variances of Hyndman & Athanasopoulos, Forecasting:
+// Principles and Practice, 3rd ed., §5.5, with σ̂² = Σe²/(R − K) (R
+// residuals, K estimated parameters). String() gives "Naive",
+// "SeasonalNaive[12]", "Drift" and "Mean".
+//
+// # Box-Cox
+//
+// BoxCoxTransform and BoxCoxInverse apply the transform of Box & Cox
+// (1964); BoxCoxLLF is the profile log-likelihood as scipy defines it;
+// LambdaML maximises it and LambdaGuerrero chooses λ by Guerrero's (1993)
+// coefficient-of-variation criterion. The BoxCox model wrapper fits any
+// Model on the transformed scale and transforms forecasts back (median,
+// or mean with BiasAdjust).
+//
+// # Batches and CSV
+//
+// BatchFit fits one Model to many series on a bounded pool of goroutines;
+// ForecastAll forecasts the results. ReadCSV reads series in long format
+// (one row per series and time, columns "series", "period" and "value"
+// unless configured), WriteSeriesCSV writes them back and WriteForecastCSV
+// writes forecasts with columns "point" and "band80_low"/"band80_high"
+// per level.
+//
 // # Missing values
 //
 // NaN in Series.Values marks a missing observation. ±Inf is always an
 // error. Each model documents whether it accepts missing values; those
-// that do not return an error wrapping ErrMissing.
+// that do not return an error wrapping ErrMissing. The benchmarks accept
+// NaN (Naive and Drift forecast from the last observed value,
+// SeasonalNaive from the last observed value of each season, Mean
+// averages the observed values); the Box-Cox functions pass NaN through
+// and ignore it when choosing λ; ReadCSV reads empty cells and NA, N/A,
+// NaN and null as NaN.
 //
 // # Levels
 //
@@ -23,10 +64,62 @@
 // the module (80, 95); probabilities passed to Forecast.Quantile are
 // fractions in (0, 1).
 //
+// # Errors
+//
+// Bad input gives an error wrapping one of the sentinels in errors.go
+// (ErrEmpty, ErrTooShort, ErrAllMissing, ErrMissing, ErrNonFinite,
+// ErrConstant, ErrNonPositive, ErrLength, ErrFrequency, ErrLevel,
+// ErrHorizon, ErrNoDistribution, ErrInvalid, ErrNotFitted, and ErrCSV…
+// for CSV input), testable with errors.Is; *SeriesError and *CSVError
+// say where. Nothing reachable from input data panics.
+//
+// # Numerical notes
+//
+// The Box-Cox transform is computed as expm1(λ log y)/λ, exact near
+// λ = 0. λ is searched by Brent's bounded minimisation (tolerance 1e-10
+// plus a relative √ε) in [-1, 2] unless bounds are given; the likelihood
+// and Guerrero's criterion do not allocate per evaluation. The transform,
+// the log-likelihood and the maximum-likelihood λ are checked against
+// scipy (testdata/reference), and the Naive and SeasonalNaive forecasts,
+// standard deviations, bounds and quantiles against numpy computations
+// on M3 series.
+//
 // # Concurrency
 //
 // Model values are specifications and safe to share between goroutines;
 // Fitted values and Forecasts are read-only after they are returned.
 // Nothing in a single fit starts goroutines; BatchFit fits many series in
 // parallel with results in input order, bit-identical for any pool size.
+// Randomness (Simulator) comes only from the rand.Source the caller
+// passes.
+//
+// # Performance
+//
+// Measured with go test -bench on a 2-core machine shared with other
+// jobs, so the figures are indicative: fitting a benchmark model and
+// forecasting 12 steps with two levels takes about 8–20 µs for 100
+// observations and 0.2–0.7 ms for 10,000 (14–16 allocations whatever the
+// length); BoxCoxLLF about 13 µs per 100 values with no allocation;
+// LambdaML about 0.13 ms for 100 values and 5 ms for 10,000; LambdaGuerrero
+// about 10 µs for 100 values; BatchFit of BoxCox{Model: Drift{}} over
+// 1,000 series of 20–26 values about 11 ms; ReadCSV about 30–40 MB/s.
+//
+// # References
+//
+// G. E. P. Box and D. R. Cox (1964), An analysis of transformations,
+// Journal of the Royal Statistical Society B 26, 211–252.
+//
+// V. M. Guerrero (1993), Time-series analysis supported by power
+// transformations, Journal of Forecasting 12, 37–48.
+//
+// R. P. Brent (1973), Algorithms for Minimization without Derivatives,
+// Prentice-Hall, chapter 5.
+//
+// R. J. Hyndman and G. Athanasopoulos (2021), Forecasting: Principles and
+// Practice, 3rd ed., OTexts, §5.5 (prediction intervals of the benchmark
+// methods) and §5.6 (bias-adjusted back-transformation).
+//
+// R. J. Hyndman and Y. Fan (1996), Sample quantiles in statistical
+// packages, The American Statistician 50, 361–365 (type 7 quantiles of
+// sample paths).
 package almanac
