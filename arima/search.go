@@ -1,0 +1,698 @@
+package arima
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"runtime"
+	"strings"
+	"sync"
+
+	"github.com/almanac-go/almanac"
+	"gonum.org/v1/gonum/mat"
+)
+
+// Criterion is the information criterion that ranks candidate models in
+// a Search. Programs should not rely on the numeric values of the
+// constants.
+type Criterion int
+
+const (
+	// AICc (the zero value): Akaike's criterion with the small-sample
+	// correction (Hurvich & Tsai 1989), Fitted.AICc.
+	AICc Criterion = iota
+	// AIC: Akaike's criterion, Fitted.AIC.
+	AIC
+	// BIC: Schwarz's Bayesian criterion, Fitted.BIC.
+	BIC
+)
+
+// String returns "AICc", "AIC" or "BIC", or "Criterion(n)".
+func (c Criterion) String() string {
+	switch c {
+	case AICc:
+		return "AICc"
+	case AIC:
+		return "AIC"
+	case BIC:
+		return "BIC"
+	}
+	return fmt.Sprintf("Criterion(%d)", int(c))
+}
+
+func (c Criterion) of(f *Fitted) float64 {
+	switch c {
+	case AIC:
+		return f.AIC()
+	case BIC:
+		return f.BIC()
+	}
+	return f.AICc()
+}
+
+// Approximation says whether a Search ranks candidates by the exact
+// likelihood or by the cheaper conditional sum of squares (CSS). Programs
+// should not rely on the numeric values of the constants.
+type Approximation int
+
+const (
+	// ApproxAuto (the zero value): CSS while searching when the series
+	// has more than 150 observations or a period above 12 and no missing
+	// values (common practice); exact likelihood otherwise.
+	ApproxAuto Approximation = iota
+	// ApproxNever: every candidate by exact maximum likelihood.
+	ApproxNever
+	// ApproxAlways: every candidate by CSS (exact likelihood when the
+	// series has missing values, which CSS cannot handle).
+	ApproxAlways
+)
+
+// String returns "auto", "never" or "always", or "Approximation(n)".
+func (a Approximation) String() string {
+	switch a {
+	case ApproxAuto:
+		return "auto"
+	case ApproxNever:
+		return "never"
+	case ApproxAlways:
+		return "always"
+	}
+	return fmt.Sprintf("Approximation(%d)", int(a))
+}
+
+// NoDifferencing, given as Search.D or Search.SD, fixes that order of
+// differencing at zero (the zero value of those fields means "choose").
+const NoDifferencing = -1
+
+// Default limits of a Search.
+const (
+	DefaultMaxP      = 5
+	DefaultMaxQ      = 5
+	DefaultMaxSP     = 2
+	DefaultMaxSQ     = 2
+	DefaultMaxOrder  = 5   // exhaustive search only, unless set
+	DefaultMaxModels = 100 // stepwise search
+)
+
+// Search chooses the orders of a seasonal ARIMA model automatically and
+// fits it; it is itself an almanac.Model. Differencing is chosen first
+// (D by seasonal strength, SeasonalDifferences; then d by repeated KPSS
+// tests on the seasonally differenced series, Differences), then the ARMA
+// orders and the constant by an information criterion, either by the
+// stepwise search of Hyndman & Khandakar (2008) or, with Exhaustive, over
+// the whole bounded grid.
+//
+// The zero value is the stepwise search ranked by AICc with the default
+// limits. Fields whose zero value means a default say so; a negative
+// limit means 0 (the term is left out):
+//
+//	arima.Search{MaxP: 3, MaxQ: 3, MaxSP: -1, MaxSQ: -1, SD: arima.NoDifferencing}
+//	arima.Search{Exhaustive: true, Workers: 4, Criterion: arima.BIC}
+//
+// A Search is a plain value, safe to share between goroutines.
+type Search struct {
+	// MaxP and MaxQ bound the non-seasonal AR and MA orders (0 means 5,
+	// negative means 0).
+	MaxP, MaxQ int
+	// MaxSP and MaxSQ bound the seasonal AR and MA orders (0 means 2,
+	// negative means 0).
+	MaxSP, MaxSQ int
+	// MaxOrder bounds p + q + P + Q. 0 means 5 for the exhaustive search
+	// and no bound for the stepwise one (whose first starting model,
+	// (2,d,2)(1,D,1), has order 6); negative is invalid.
+	MaxOrder int
+	// D is the order of differencing: 0 chooses it (Differences with
+	// Differencing), NoDifferencing fixes 0, a positive value is used as
+	// given.
+	D int
+	// SD is the order of seasonal differencing: 0 chooses it
+	// (SeasonalDifferences with SeasonalDifferencing), NoDifferencing
+	// fixes 0, a positive value is used as given.
+	SD int
+	// Differencing configures the choice of d (default: at most 2, KPSS
+	// at 5%).
+	Differencing DifferencesSpec
+	// SeasonalDifferencing configures the choice of D (default: at most
+	// 1, STL strength above 0.64).
+	SeasonalDifferencing SeasonalDifferencesSpec
+	// Period is the seasonal period; 0 takes it from the series'
+	// frequency. Seasonal terms are searched only when the period is ≥ 2
+	// and the series has more than two full periods of observed values.
+	Period int
+	// Criterion ranks the candidates; default AICc.
+	Criterion Criterion
+	// Exhaustive fits every model of the bounded grid instead of the
+	// stepwise search (default false: stepwise).
+	Exhaustive bool
+	// Workers is the number of goroutines fitting the candidates of an
+	// exhaustive search (0 means runtime.GOMAXPROCS(0)). The result does
+	// not depend on it.
+	Workers int
+	// NoDrift leaves out the drift term that is otherwise considered
+	// when d + D = 1; NoMean leaves out the mean considered when
+	// d + D = 0.
+	NoDrift, NoMean bool
+	// Approximation chooses CSS or exact likelihood while searching; the
+	// chosen model is always refitted by exact likelihood (CSS then ML).
+	Approximation Approximation
+	// MaxModels bounds the number of models a stepwise search fits (0
+	// means 100); the result records whether the bound was reached.
+	MaxModels int
+}
+
+var _ almanac.Model = Search{}
+
+// Candidate is one model considered by a Search.
+type Candidate struct {
+	// Spec is the model: orders, period and constant (ConstantInclude or
+	// ConstantNone).
+	Spec Spec
+	// Score is the criterion value, on the likelihood used while
+	// searching (CSS when SearchResult.Approximated); +Inf when the model
+	// could not be fitted or was rejected.
+	Score float64
+	// LogLik is the log-likelihood of the candidate fit (NaN when it
+	// failed).
+	LogLik float64
+	// Err says why the candidate has no score: the fitting error, or a
+	// rejection (wrapping ErrNearUnitRoot) when an AR or MA root lies
+	// within 1.001 of the unit circle. nil for a scored candidate.
+	Err error
+}
+
+// ErrNearUnitRoot marks a candidate rejected by a Search because a root
+// of its fitted AR or MA polynomial lies within 1.001 of the unit circle
+// (Hyndman & Khandakar 2008 exclude such nearly non-stationary or
+// non-invertible models).
+var ErrNearUnitRoot = errors.New("root near the unit circle")
+
+// SearchResult is the model chosen by a Search: the chosen model's
+// *Fitted (refitted by exact likelihood), whose methods it has, with the
+// record of the search. It is read-only and safe for concurrent use.
+type SearchResult struct {
+	*Fitted
+	// Criterion ranked the candidates.
+	Criterion Criterion
+	// Candidates lists every model fitted while searching, in the order
+	// tried (stepwise) or grid order (exhaustive).
+	Candidates []Candidate
+	// Chosen is the index in Candidates of the chosen model.
+	Chosen int
+	// Approximated reports that candidates were ranked by CSS.
+	Approximated bool
+	// Exhaustive reports which search ran.
+	Exhaustive bool
+	// ModelLimitReached reports that a stepwise search stopped at
+	// MaxModels before running out of better neighbours.
+	ModelLimitReached bool
+	// SeasonalStrength is the STL seasonal strength of the series when D
+	// was chosen from it (NaN otherwise).
+	SeasonalStrength float64
+}
+
+var _ almanac.Fitted = (*SearchResult)(nil)
+
+// searchPlan is a Search with the defaults resolved against one series.
+type searchPlan struct {
+	maxP, maxQ, maxSP, maxSQ int
+	maxOrder                 int // ≤ 0: none
+	d, sd, period            int
+	constOK                  bool
+	method                   Method
+	crit                     Criterion
+	maxModels                int
+}
+
+func limit(v, def int) int {
+	switch {
+	case v == 0:
+		return def
+	case v < 0:
+		return 0
+	}
+	return v
+}
+
+// Fit chooses and fits the model for y and returns a *SearchResult.
+//
+// Special cases:
+//   - an invalid series (empty, all missing, ±Inf) gives the error of
+//     almanac.Series.Validate; a constant series almanac.ErrConstant;
+//   - too few observations to choose d gives almanac.ErrTooShort; a
+//     series too short for seasonal differencing is searched without
+//     seasonal terms;
+//   - a negative MaxOrder, an unknown Criterion or Approximation, or a D
+//     or SD below NoDifferencing wrap almanac.ErrInvalid;
+//   - when no candidate can be fitted the error wraps almanac.ErrNotFitted
+//     and the first candidate's error; there is never a silent fallback.
+func (s Search) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	r, err := s.search(ctx, y)
+	if err != nil {
+		return nil, err
+	}
+	return r, nil
+}
+
+func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, error) {
+	if err := y.Validate(); err != nil {
+		return nil, fmt.Errorf("arima: search: %w", err)
+	}
+	if y.IsConstant() {
+		return nil, fmt.Errorf("arima: search: %w: series %q has one observed value repeated; no ARIMA model is identifiable", almanac.ErrConstant, y.Key)
+	}
+	switch {
+	case s.MaxOrder < 0:
+		return nil, fmt.Errorf("arima: search: %w: MaxOrder %d is negative", almanac.ErrInvalid, s.MaxOrder)
+	case s.D < NoDifferencing || s.SD < NoDifferencing:
+		return nil, fmt.Errorf("arima: search: %w: D = %d, SD = %d (use NoDifferencing for none)", almanac.ErrInvalid, s.D, s.SD)
+	case s.Criterion < AICc || s.Criterion > BIC:
+		return nil, fmt.Errorf("arima: search: %w: unknown Criterion %v", almanac.ErrInvalid, s.Criterion)
+	case s.Approximation < ApproxAuto || s.Approximation > ApproxAlways:
+		return nil, fmt.Errorf("arima: search: %w: unknown Approximation %v", almanac.ErrInvalid, s.Approximation)
+	case s.Workers < 0 || s.MaxModels < 0:
+		return nil, fmt.Errorf("arima: search: %w: Workers %d, MaxModels %d must be ≥ 0", almanac.ErrInvalid, s.Workers, s.MaxModels)
+	}
+
+	pl := searchPlan{
+		maxP: limit(s.MaxP, DefaultMaxP), maxQ: limit(s.MaxQ, DefaultMaxQ),
+		maxSP: limit(s.MaxSP, DefaultMaxSP), maxSQ: limit(s.MaxSQ, DefaultMaxSQ),
+		maxOrder: s.MaxOrder, crit: s.Criterion, maxModels: limit(s.MaxModels, DefaultMaxModels),
+	}
+	if pl.maxOrder == 0 && s.Exhaustive {
+		pl.maxOrder = DefaultMaxOrder
+	}
+
+	// Seasonal period and seasonal differencing.
+	nObs := y.Len() - y.Missing()
+	pl.period = s.Period
+	if pl.period == 0 {
+		pl.period = y.Period()
+	}
+	seasonal := pl.period >= 2 && nObs > 2*pl.period
+	strength := math.NaN()
+	if !seasonal {
+		pl.maxSP, pl.maxSQ = 0, 0
+		if s.SD > 0 {
+			return nil, fmt.Errorf("arima: search: %w: SD = %d needs a seasonal period ≥ 2 and more than two full periods of data (period %d, %d observed values)", almanac.ErrTooShort, s.SD, pl.period, nObs)
+		}
+	}
+	switch {
+	case s.SD > 0:
+		pl.sd = s.SD
+	case s.SD == 0 && seasonal:
+		var err error
+		strength, err = SeasonalStrength(y.Values, pl.period, s.SeasonalDifferencing.Span)
+		if err != nil {
+			return nil, fmt.Errorf("arima: search: choosing D: %w", err)
+		}
+		pl.sd, err = SeasonalDifferences(y.Values, pl.period, s.SeasonalDifferencing)
+		if err != nil {
+			return nil, fmt.Errorf("arima: search: choosing D: %w", err)
+		}
+	}
+	if pl.sd == 0 && pl.maxSP == 0 && pl.maxSQ == 0 {
+		pl.period = 0 // non-seasonal model
+	}
+
+	// Ordinary differencing, on the seasonally differenced series.
+	switch {
+	case s.D > 0:
+		pl.d = s.D
+	case s.D == 0:
+		w := append([]float64(nil), y.Values...)
+		for range pl.sd {
+			w = selDiff(w, pl.period)
+		}
+		var err error
+		pl.d, err = Differences(w, s.Differencing)
+		if err != nil {
+			return nil, fmt.Errorf("arima: search: choosing d: %w", err)
+		}
+	}
+	switch pl.d + pl.sd {
+	case 0:
+		pl.constOK = !s.NoMean
+	case 1:
+		pl.constOK = !s.NoDrift
+	}
+
+	// Likelihood used while searching.
+	complete := y.Missing() == 0
+	switch s.Approximation {
+	case ApproxAuto:
+		if complete && (y.Len() > 150 || pl.period > 12) {
+			pl.method = CSS
+		}
+	case ApproxAlways:
+		if complete {
+			pl.method = CSS
+		}
+	}
+
+	res := &SearchResult{Criterion: s.Criterion, Approximated: pl.method == CSS, Exhaustive: s.Exhaustive, SeasonalStrength: strength}
+	var fits []*Fitted
+	var err error
+	if s.Exhaustive {
+		workers := s.Workers
+		if workers == 0 {
+			workers = runtime.GOMAXPROCS(0)
+		}
+		fits, err = pl.exhaustive(ctx, y, workers, res)
+	} else {
+		fits, err = pl.stepwise(ctx, y, res)
+	}
+	if err != nil {
+		return nil, err
+	}
+	return pl.finish(ctx, y, res, fits)
+}
+
+// spec returns the candidate Spec for the given orders.
+func (pl *searchPlan) spec(p, q, sp, sq int, constant bool) Spec {
+	c := ConstantNone
+	if constant {
+		c = ConstantInclude
+	}
+	return Spec{P: p, D: pl.d, Q: q, SP: sp, SD: pl.sd, SQ: sq, Period: pl.period, Constant: c, Method: pl.method}
+}
+
+// evaluate fits one candidate and scores it.
+func (pl *searchPlan) evaluate(ctx context.Context, y almanac.Series, sp Spec) (Candidate, *Fitted) {
+	c := Candidate{Spec: sp, Score: math.Inf(1), LogLik: math.NaN()}
+	f, err := fitSpec(ctx, sp, y)
+	if err != nil {
+		c.Err = err
+		return c, nil
+	}
+	c.LogLik = f.LogLik()
+	if err := nearUnitRoot(f); err != nil {
+		c.Err = err
+		return c, nil
+	}
+	score := pl.crit.of(f)
+	if math.IsNaN(score) || math.IsInf(score, 0) {
+		c.Err = fmt.Errorf("arima: %w: %s: %v is %v", almanac.ErrNotFitted, sp, pl.crit, score)
+		return c, nil
+	}
+	c.Score = score
+	return c, f
+}
+
+// fitSpec fits one candidate through the public Spec.Fit.
+func fitSpec(ctx context.Context, sp Spec, y almanac.Series) (*Fitted, error) {
+	m, err := sp.Fit(ctx, y)
+	if err != nil {
+		return nil, err
+	}
+	f, ok := m.(*Fitted)
+	if !ok {
+		return nil, fmt.Errorf("arima: search: %w: Spec.Fit returned %T", almanac.ErrNotFitted, m)
+	}
+	return f, nil
+}
+
+// orderKey identifies a candidate within one search (d, D and the period
+// are fixed).
+type orderKey struct {
+	p, q, sp, sq int
+	constant     bool
+}
+
+func (pl *searchPlan) allowed(k orderKey) bool {
+	if k.p < 0 || k.q < 0 || k.sp < 0 || k.sq < 0 ||
+		k.p > pl.maxP || k.q > pl.maxQ || k.sp > pl.maxSP || k.sq > pl.maxSQ {
+		return false
+	}
+	if pl.maxOrder > 0 && k.p+k.q+k.sp+k.sq > pl.maxOrder {
+		return false
+	}
+	return !k.constant || pl.constOK
+}
+
+// stepwise is the search of Hyndman & Khandakar (2008, sec. 3.2): fit the
+// starting models, then move to the first neighbour that lowers the
+// criterion (one of p, q, P, Q changed by ±1; p and q together by ±1; P
+// and Q together by ±1; the constant toggled) until no neighbour does.
+func (pl *searchPlan) stepwise(ctx context.Context, y almanac.Series, res *SearchResult) ([]*Fitted, error) {
+	var fits []*Fitted
+	seen := map[orderKey]int{}
+	best := -1
+	// try fits k once; it reports whether k became the best.
+	try := func(k orderKey) (bool, error) {
+		if !pl.allowed(k) {
+			return false, nil
+		}
+		if _, ok := seen[k]; ok {
+			return false, nil
+		}
+		if len(res.Candidates) >= pl.maxModels {
+			res.ModelLimitReached = true
+			return false, nil
+		}
+		if err := ctx.Err(); err != nil {
+			return false, fmt.Errorf("arima: search: %w", err)
+		}
+		c, f := pl.evaluate(ctx, y, pl.spec(k.p, k.q, k.sp, k.sq, k.constant))
+		if errors.Is(c.Err, context.Canceled) || errors.Is(c.Err, context.DeadlineExceeded) {
+			return false, fmt.Errorf("arima: search: %w", c.Err)
+		}
+		seen[k] = len(res.Candidates)
+		res.Candidates = append(res.Candidates, c)
+		fits = append(fits, f)
+		if f != nil && (best < 0 || c.Score < res.Candidates[best].Score) {
+			best = len(res.Candidates) - 1
+			return true, nil
+		}
+		return false, nil
+	}
+
+	sAR, sMA := min(1, pl.maxSP), min(1, pl.maxSQ)
+	c := pl.constOK
+	starts := []orderKey{
+		{min(2, pl.maxP), min(2, pl.maxQ), sAR, sMA, c},
+		{0, 0, 0, 0, c},
+		{min(1, pl.maxP), 0, sAR, 0, c},
+		{0, min(1, pl.maxQ), 0, sMA, c},
+	}
+	if c {
+		starts = append(starts, orderKey{0, 0, 0, 0, false})
+	}
+	for _, k := range starts {
+		if _, err := try(k); err != nil {
+			return nil, err
+		}
+	}
+
+	moves := []orderKey{
+		{p: -1}, {p: 1}, {q: -1}, {q: 1},
+		{sp: -1}, {sp: 1}, {sq: -1}, {sq: 1},
+		{p: -1, q: -1}, {p: 1, q: 1}, {p: -1, q: 1}, {p: 1, q: -1},
+		{sp: -1, sq: -1}, {sp: 1, sq: 1}, {sp: -1, sq: 1}, {sp: 1, sq: -1},
+	}
+	for best >= 0 && !res.ModelLimitReached {
+		cur := keyOf(res.Candidates[best].Spec)
+		improved := false
+		for _, m := range moves {
+			k := orderKey{cur.p + m.p, cur.q + m.q, cur.sp + m.sp, cur.sq + m.sq, cur.constant}
+			ok, err := try(k)
+			if err != nil {
+				return nil, err
+			}
+			if ok {
+				improved = true
+				break
+			}
+		}
+		if !improved && pl.constOK {
+			k := cur
+			k.constant = !k.constant
+			ok, err := try(k)
+			if err != nil {
+				return nil, err
+			}
+			improved = ok
+		}
+		if !improved {
+			break
+		}
+	}
+	return fits, nil
+}
+
+func keyOf(s Spec) orderKey {
+	return orderKey{s.P, s.Q, s.SP, s.SQ, s.Constant == ConstantInclude}
+}
+
+// exhaustive fits every allowed model of the grid, in parallel over
+// workers, writing each result at its grid index.
+func (pl *searchPlan) exhaustive(ctx context.Context, y almanac.Series, workers int, res *SearchResult) ([]*Fitted, error) {
+	var keys []orderKey
+	for p := 0; p <= pl.maxP; p++ {
+		for q := 0; q <= pl.maxQ; q++ {
+			for sp := 0; sp <= pl.maxSP; sp++ {
+				for sq := 0; sq <= pl.maxSQ; sq++ {
+					for _, c := range []bool{false, true} {
+						if k := (orderKey{p, q, sp, sq, c}); pl.allowed(k) {
+							keys = append(keys, k)
+						}
+					}
+				}
+			}
+		}
+	}
+	cands := make([]Candidate, len(keys))
+	fits := make([]*Fitted, len(keys))
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for range min(workers, len(keys)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				k := keys[i]
+				cands[i], fits[i] = pl.evaluate(ctx, y, pl.spec(k.p, k.q, k.sp, k.sq, k.constant))
+			}
+		}()
+	}
+	var ctxErr error
+	for i := range keys {
+		if ctxErr = ctx.Err(); ctxErr != nil {
+			break
+		}
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	if ctxErr == nil {
+		ctxErr = ctx.Err()
+	}
+	if ctxErr != nil {
+		return nil, fmt.Errorf("arima: search: %w", ctxErr)
+	}
+	res.Candidates = cands
+	return fits, nil
+}
+
+// finish picks the best candidate (lowest score, ties to the earliest)
+// and, when the search was approximate, refits candidates by exact
+// likelihood in order of score until one succeeds.
+func (pl *searchPlan) finish(ctx context.Context, y almanac.Series, res *SearchResult, fits []*Fitted) (*SearchResult, error) {
+	order := make([]int, 0, len(res.Candidates))
+	for i := range res.Candidates {
+		if fits[i] != nil {
+			order = append(order, i)
+		}
+	}
+	if len(order) == 0 {
+		return nil, noCandidate(res.Candidates)
+	}
+	// Stable insertion sort by score: ties keep the earlier index.
+	for i := 1; i < len(order); i++ {
+		for j := i; j > 0 && res.Candidates[order[j]].Score < res.Candidates[order[j-1]].Score; j-- {
+			order[j], order[j-1] = order[j-1], order[j]
+		}
+	}
+	if !res.Approximated {
+		res.Chosen = order[0]
+		res.Fitted = fits[order[0]]
+		return res, nil
+	}
+	var errs []string
+	for _, i := range order {
+		sp := res.Candidates[i].Spec
+		sp.Method = CSSThenML
+		f, err := fitSpec(ctx, sp, y)
+		if err == nil {
+			err = nearUnitRoot(f)
+		}
+		if err == nil {
+			res.Chosen = i
+			res.Fitted = f
+			return res, nil
+		}
+		if ctx.Err() != nil {
+			return nil, fmt.Errorf("arima: search: %w", ctx.Err())
+		}
+		errs = append(errs, fmt.Sprintf("%s: %v", sp, err))
+	}
+	return nil, fmt.Errorf("arima: search: %w: no candidate could be refitted by exact likelihood: %s", almanac.ErrNotFitted, strings.Join(errs, "; "))
+}
+
+// noCandidate builds the error for a search in which nothing could be
+// fitted: it wraps almanac.ErrNotFitted and the first candidate's error.
+func noCandidate(cands []Candidate) error {
+	if len(cands) == 0 {
+		return fmt.Errorf("arima: search: %w: no candidate model within the limits", almanac.ErrNotFitted)
+	}
+	return fmt.Errorf("arima: search: %w: none of %d candidate models could be fitted; first, %s: %w", almanac.ErrNotFitted, len(cands), cands[0].Spec, cands[0].Err)
+}
+
+// unitRootMargin is the modulus below which a root of a fitted AR or MA
+// polynomial counts as on the unit circle (Hyndman & Khandakar 2008).
+const unitRootMargin = 1.001
+
+// nearUnitRoot returns an error wrapping ErrNearUnitRoot when a root of
+// the fitted AR, MA, seasonal AR or seasonal MA polynomial has modulus
+// below 1.001 (for a seasonal polynomial in B^s, the corresponding roots
+// in B: |z| = |w|^(1/s)).
+func nearUnitRoot(f *Fitted) error {
+	var ar, ma, sar, sma []float64
+	for _, c := range f.Coef() {
+		switch {
+		case strings.HasPrefix(c.Name, "sar"):
+			sar = append(sar, -c.Value)
+		case strings.HasPrefix(c.Name, "sma"):
+			sma = append(sma, c.Value)
+		case strings.HasPrefix(c.Name, "ar"):
+			ar = append(ar, -c.Value)
+		case strings.HasPrefix(c.Name, "ma"):
+			ma = append(ma, c.Value)
+		}
+	}
+	s := max(f.Period(), 1)
+	for _, b := range []struct {
+		name  string
+		coef  []float64
+		power int
+	}{{"AR", ar, 1}, {"MA", ma, 1}, {"seasonal AR", sar, s}, {"seasonal MA", sma, s}} {
+		m := minRootModulus(b.coef)
+		if m < math.Pow(unitRootMargin, float64(b.power)) {
+			return fmt.Errorf("arima: %w: %s polynomial of %s has a root of modulus %.4f", ErrNearUnitRoot, b.name, f, math.Pow(m, 1/float64(b.power)))
+		}
+	}
+	return nil
+}
+
+// minRootModulus returns the smallest modulus of the roots of
+// 1 + c₁z + … + c_k z^k (+Inf when the polynomial is constant). The roots
+// are the reciprocals of the eigenvalues of the companion matrix of the
+// reversed polynomial z^k + c₁z^{k−1} + … + c_k.
+func minRootModulus(c []float64) float64 {
+	k := len(c)
+	for k > 0 && c[k-1] == 0 {
+		k--
+	}
+	if k == 0 {
+		return math.Inf(1)
+	}
+	a := mat.NewDense(k, k, nil)
+	for j := 0; j < k; j++ {
+		a.Set(0, j, -c[j])
+	}
+	for i := 1; i < k; i++ {
+		a.Set(i, i-1, 1)
+	}
+	var eig mat.Eigen
+	if !eig.Factorize(a, mat.EigenNone) {
+		return 0 // treat as unusable
+	}
+	maxAbs := 0.0
+	for _, v := range eig.Values(nil) {
+		maxAbs = math.Max(maxAbs, math.Hypot(real(v), imag(v)))
+	}
+	if maxAbs == 0 {
+		return math.Inf(1)
+	}
+	return 1 / maxAbs
+}

@@ -1,0 +1,304 @@
+package arima_test
+
+import (
+	"context"
+	"errors"
+	"math"
+	"math/rand/v2"
+	"testing"
+	"time"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/arima"
+	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/internal/numtest"
+)
+
+var _ almanac.Model = arima.Search{}
+
+func monthly(key string, v []float64) almanac.Series {
+	return almanac.Series{Key: key, Start: time.Date(1949, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly, Values: v}
+}
+
+func yearly(key string, v []float64) almanac.Series {
+	return almanac.Series{Key: key, Start: time.Date(1871, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Yearly, Values: v}
+}
+
+func searchFit(t *testing.T, s arima.Search, y almanac.Series) *arima.SearchResult {
+	t.Helper()
+	f, err := s.Fit(context.Background(), y)
+	if err != nil {
+		t.Fatalf("%+v: %v", s, err)
+	}
+	r, ok := f.(*arima.SearchResult)
+	if !ok {
+		t.Fatalf("Fit returned %T, want *arima.SearchResult", f)
+	}
+	return r
+}
+
+// TestSearchAirline: the stepwise search on log(AirPassengers).
+//
+// The well-known answer of the automatic stepwise algorithm on
+// log(AirPassengers) is ARIMA(0,1,1)(0,1,1)[12], the airline model of Box &
+// Jenkins (recalled from memory). The check that can fail independently of
+// that memory: the chosen model's AICc is not above the AICc of the airline
+// model fitted directly on the same differencing (d = 1, D = 1; Box &
+// Jenkins difference log Series G this way, published.md).
+func TestSearchAirline(t *testing.T) {
+	y := monthly("log AirPassengers", logOf(selAirPassengers))
+	r := searchFit(t, arima.Search{}, y)
+	sp := r.Spec()
+	if sp.D != 1 || sp.SD != 1 {
+		t.Fatalf("chose %s: differencing d = %d, D = %d; want 1 and 1 (Box & Jenkins, published.md)", r, sp.D, sp.SD)
+	}
+	airline, err := arima.Spec{D: 1, Q: 1, SD: 1, SQ: 1}.Fit(context.Background(), y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := airline.(*arima.Fitted).AICc()
+	if got := r.AICc(); got > want+1e-9*math.Abs(want) {
+		t.Errorf("chosen %s has AICc %.6f, above the airline model's %.6f", r, got, want)
+	}
+	if got := r.String(); got != "ARIMA(0,1,1)(0,1,1)[12]" {
+		t.Errorf("chose %s, want ARIMA(0,1,1)(0,1,1)[12] (recalled from memory as the stepwise algorithm's answer)", got)
+	}
+	// The record of the search: the chosen candidate is scored, its
+	// score is the smallest, and it matches the returned model.
+	if r.Approximated || r.Exhaustive {
+		t.Errorf("Approximated %v Exhaustive %v for a 144-point monthly series, want exact stepwise", r.Approximated, r.Exhaustive)
+	}
+	ch := r.Candidates[r.Chosen]
+	if ch.Err != nil || ch.Spec.P != sp.P || ch.Spec.Q != sp.Q || ch.Spec.SP != sp.SP || ch.Spec.SQ != sp.SQ {
+		t.Errorf("Candidates[Chosen] = %+v, fitted %s", ch, r)
+	}
+	numtest.Scalar(t, "chosen score", ch.Score, r.AICc(), 0, 0)
+	for i, c := range r.Candidates {
+		if c.Score < ch.Score {
+			t.Errorf("candidate %d %s scores %.4f below the chosen %.4f", i, c.Spec, c.Score, ch.Score)
+		}
+	}
+	if f := r.SeasonalStrength; !(f > arima.DefaultStrengthThreshold) {
+		t.Errorf("SeasonalStrength %v, want above 0.64 since D = 1 was chosen", f)
+	}
+}
+
+// TestSearchFixedOrdersOfDifferencing: D and SD given explicitly are used,
+// and NoDifferencing fixes zero.
+func TestSearchFixedDifferencing(t *testing.T) {
+	y := monthly("log AirPassengers", logOf(selAirPassengers))
+	r := searchFit(t, arima.Search{D: 1, SD: arima.NoDifferencing, MaxSP: -1, MaxSQ: -1, MaxP: 2, MaxQ: 2}, y)
+	sp := r.Spec()
+	if sp.D != 1 || sp.SD != 0 || sp.SP != 0 || sp.SQ != 0 || sp.P > 2 || sp.Q > 2 {
+		t.Errorf("chose %s with limits d = 1, no seasonal part, p, q ≤ 2", r)
+	}
+	// d + D = 1: drift is considered (Hyndman & Khandakar 2008).
+	drift := false
+	for _, c := range r.Candidates {
+		drift = drift || c.Spec.Constant == arima.ConstantInclude
+	}
+	if !drift {
+		t.Error("no candidate with drift although d + D = 1")
+	}
+	r = searchFit(t, arima.Search{D: 1, SD: arima.NoDifferencing, MaxSP: -1, MaxSQ: -1, NoDrift: true}, y)
+	for _, c := range r.Candidates {
+		if c.Spec.Constant == arima.ConstantInclude {
+			t.Errorf("NoDrift: candidate %s has a constant", c.Spec)
+		}
+	}
+}
+
+// TestSearchExhaustiveDeterministic: the exhaustive search gives
+// bit-identical candidates, choice and forecasts with 1 and 4 workers
+// (DESIGN.md: results do not depend on the number of goroutines).
+func TestSearchExhaustiveDeterministic(t *testing.T) {
+	y := monthly("log AirPassengers", logOf(selAirPassengers))
+	base := arima.Search{Exhaustive: true, MaxP: 1, MaxQ: 1, MaxSP: 1, MaxSQ: 1}
+	var runs []*arima.SearchResult
+	for _, w := range []int{1, 4} {
+		s := base
+		s.Workers = w
+		runs = append(runs, searchFit(t, s, y))
+	}
+	a, b := runs[0], runs[1]
+	if len(a.Candidates) != 16 || len(b.Candidates) != 16 {
+		t.Fatalf("%d and %d candidates, want the 2·2·2·2 = 16 of the grid (no constant with d + D = 2)", len(a.Candidates), len(b.Candidates))
+	}
+	for i := range a.Candidates {
+		ca, cb := a.Candidates[i], b.Candidates[i]
+		if ca.Spec.String() != cb.Spec.String() || math.Float64bits(ca.Score) != math.Float64bits(cb.Score) {
+			t.Errorf("candidate %d: %s %v vs %s %v", i, ca.Spec, ca.Score, cb.Spec, cb.Score)
+		}
+	}
+	if a.Chosen != b.Chosen || a.String() != b.String() {
+		t.Fatalf("chosen %d %s vs %d %s", a.Chosen, a, b.Chosen, b)
+	}
+	fa, err := a.Forecast(12, 95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fb, err := b.Forecast(12, 95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for h := range fa.Mean {
+		if math.Float64bits(fa.Mean[h]) != math.Float64bits(fb.Mean[h]) {
+			t.Errorf("forecast %d: %v vs %v", h, fa.Mean[h], fb.Mean[h])
+		}
+	}
+	// The airline model is in this grid, so the exhaustive choice can be
+	// no worse than it (a check on the search, not on our own numbers).
+	airline, err := arima.Spec{D: 1, Q: 1, SD: 1, SQ: 1}.Fit(context.Background(), y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got, want := a.AICc(), airline.(*arima.Fitted).AICc(); got > want+1e-9*math.Abs(want) {
+		t.Errorf("exhaustive choice %s AICc %.6f above the airline model's %.6f", a, got, want)
+	}
+}
+
+// TestSearchScaleInvariance: forecasts of c·y are c times the forecasts of
+// y (DESIGN.md), with the same model chosen. The tolerance 1e-4 relative
+// allows for the optimiser stopping at slightly different points on the
+// two scales (the fixtures' own tolerance for estimated forecasts).
+func TestSearchScaleInvariance(t *testing.T) {
+	tests := []struct {
+		name string
+		y    almanac.Series
+		c    float64
+	}{
+		{"Nile ×1000", yearly("Nile", selNile), 1000},
+		{"lh ×0.01", yearly("lh", selLH), 0.01},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			scaled := make([]float64, tc.y.Len())
+			for i, v := range tc.y.Values {
+				scaled[i] = tc.c * v
+			}
+			ys := tc.y
+			ys.Values = scaled
+			a := searchFit(t, arima.Search{}, tc.y)
+			b := searchFit(t, arima.Search{}, ys)
+			if a.String() != b.String() {
+				t.Fatalf("chose %s for y and %s for c·y", a, b)
+			}
+			fa, err := a.Forecast(10, 80)
+			if err != nil {
+				t.Fatal(err)
+			}
+			fb, err := b.Forecast(10, 80)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for h := range fa.Mean {
+				numtest.Scalar(t, "scaled forecast", fb.Mean[h], tc.c*fa.Mean[h], 0, 1e-4)
+			}
+		})
+	}
+}
+
+// TestSearchMissingValues: gaps are allowed (exact likelihood skips them).
+func TestSearchMissingValues(t *testing.T) {
+	v := append([]float64(nil), selNile...)
+	v[10], v[11], v[50] = math.NaN(), math.NaN(), math.NaN()
+	r := searchFit(t, arima.Search{Approximation: arima.ApproxAlways}, yearly("Nile with gaps", v))
+	if r.Approximated {
+		t.Error("Approximated with missing values; CSS cannot handle them")
+	}
+	fc, err := r.Forecast(5)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, m := range fc.Mean {
+		if math.IsNaN(m) || math.IsInf(m, 0) {
+			t.Fatalf("forecast %v", fc.Mean)
+		}
+	}
+}
+
+// TestSearchApproximate: a long series is searched by CSS and the chosen
+// model refitted by exact likelihood.
+func TestSearchApproximate(t *testing.T) {
+	src := rand.New(rand.NewPCG(3, 5))
+	v := make([]float64, 240)
+	e1 := 0.0
+	for i := range v {
+		e := src.NormFloat64()
+		v[i] = 0.6*e1 + e // invented MA(1) data
+		if i > 0 {
+			v[i] += 0.5 * v[i-1]
+		}
+		e1 = e
+	}
+	r := searchFit(t, arima.Search{}, yearly("invented ARMA(1,1)", v))
+	if !r.Approximated {
+		t.Error("a 240-point series was not searched by CSS")
+	}
+	if r.Method() == arima.CSS {
+		t.Errorf("chosen model fitted by %v, want an exact refit", r.Method())
+	}
+	if r.Spec().P+r.Spec().Q == 0 {
+		t.Errorf("chose %s for ARMA(1,1) data with φ = 0.5, θ = 0.6 and n = 240", r)
+	}
+}
+
+func TestSearchBadInput(t *testing.T) {
+	nan := math.NaN()
+	canceled, cancel := context.WithCancel(context.Background())
+	cancel()
+	tests := []struct {
+		name  string
+		ctx   context.Context
+		s     arima.Search
+		y     almanac.Series
+		wants []error
+	}{
+		{"too short", context.Background(), arima.Search{}, yearly("short", []float64{1, 2}), []error{almanac.ErrTooShort}},
+		{"all missing", context.Background(), arima.Search{}, yearly("gaps", []float64{nan, nan, nan, nan}), []error{almanac.ErrAllMissing}},
+		{"constant", context.Background(), arima.Search{}, yearly("flat", []float64{3, 3, 3, 3, 3, 3, 3, 3}), []error{almanac.ErrConstant}},
+		{"infinite", context.Background(), arima.Search{}, yearly("inf", []float64{1, 2, math.Inf(1), 4, 5}), []error{almanac.ErrNonFinite}},
+		{"empty", context.Background(), arima.Search{}, yearly("empty", nil), []error{almanac.ErrEmpty}},
+		{"nothing fits", context.Background(), arima.Search{D: 4}, yearly("five", []float64{1, 4, 2, 8, 5}),
+			[]error{almanac.ErrNotFitted, almanac.ErrTooShort}},
+		{"negative MaxOrder", context.Background(), arima.Search{MaxOrder: -1}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
+		{"bad D", context.Background(), arima.Search{D: -2}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
+		{"bad criterion", context.Background(), arima.Search{Criterion: 7}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
+		{"bad approximation", context.Background(), arima.Search{Approximation: -1}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
+		{"SD on a yearly series", context.Background(), arima.Search{SD: 1}, yearly("lh", selLH), []error{almanac.ErrTooShort}},
+		{"canceled", canceled, arima.Search{}, yearly("lh", selLH), []error{context.Canceled}},
+		{"canceled exhaustive", canceled, arima.Search{Exhaustive: true}, yearly("lh", selLH), []error{context.Canceled}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := tc.s.Fit(tc.ctx, tc.y)
+			if err == nil {
+				t.Fatal("no error")
+			}
+			for _, w := range tc.wants {
+				if !errors.Is(err, w) {
+					t.Errorf("err = %v, want it to wrap %v", err, w)
+				}
+			}
+		})
+	}
+}
+
+func TestSearchEnumStrings(t *testing.T) {
+	tests := []struct {
+		name, got, want string
+	}{
+		{"AICc", arima.AICc.String(), "AICc"},
+		{"BIC", arima.BIC.String(), "BIC"},
+		{"unknown criterion", arima.Criterion(9).String(), "Criterion(9)"},
+		{"approx auto", arima.ApproxAuto.String(), "auto"},
+		{"unknown approx", arima.Approximation(5).String(), "Approximation(5)"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			if tc.got != tc.want {
+				t.Errorf("got %q, want %q", tc.got, tc.want)
+			}
+		})
+	}
+}
