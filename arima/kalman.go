@@ -55,6 +55,9 @@ type kalman struct {
 	tVal []float64
 	rIdx []int
 	u    []float64 // scratch column
+
+	// diffuseStart work space: C (r×nd, by column), S (nd×nd), z (nd).
+	cm, sm, zv []float64
 }
 
 // resize prepares k for AR length p, MA length q (both multiplied out)
@@ -97,7 +100,10 @@ func (k *kalman) resize(p, q int, delta []float64) {
 	}
 	k.rv = grow(k.rv, r)
 	k.g = grow(k.g, r)
-	k.gam = grow(k.gam, r+1)
+	k.gam = grow(k.gam, max(r, nd)+1)
+	k.cm = grow(k.cm, r*nd)
+	k.sm = grow(k.sm, nd*nd)
+	k.zv = grow(k.zv, nd)
 	k.psi = grow(k.psi, r+1)
 	k.sys = grow(k.sys, (p+1)*(p+1))
 	k.rhs = grow(k.rhs, p+1)
@@ -227,7 +233,7 @@ func (k *kalman) stationaryCov() bool {
 	}
 	gam := k.gam
 	if p == 0 {
-		for kk := 0; kk <= r; kk++ {
+		for kk := range gam {
 			gam[kk] = c(kk)
 		}
 	} else {
@@ -251,7 +257,7 @@ func (k *kalman) stationaryCov() bool {
 		for kk := 0; kk <= p && kk <= r; kk++ {
 			gam[kk] = k.rhs[kk]
 		}
-		for kk := p + 1; kk <= r; kk++ {
+		for kk := p + 1; kk < len(gam); kk++ {
 			v := c(kk)
 			for i := 1; i <= p; i++ {
 				v += phi[i-1] * gam[kk-i]
@@ -425,15 +431,17 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 		if !fast {
 			return k.filterFull(w, resid)
 		}
-		var rs []float64
-		if resid != nil {
-			rs = resid[:nd]
-		}
-		res = k.filterFull(w[:nd], rs)
-		for j := 0; j < r; j++ {
-			k.ax[j] = k.a[j]
-			for i := 0; i < r; i++ {
-				k.px[i+st*j] = k.pm[i+rd*j]
+		if resid != nil || !k.diffuseStart(w) {
+			var rs []float64
+			if resid != nil {
+				rs = resid[:nd]
+			}
+			res = k.filterFull(w[:nd], rs)
+			for j := 0; j < r; j++ {
+				k.ax[j] = k.a[j]
+				for i := 0; i < r; i++ {
+					k.px[i+st*j] = k.pm[i+rd*j]
+				}
 			}
 		}
 		start = nd
@@ -478,23 +486,19 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 		for i := 0; i < r; i++ {
 			k.ax[i] = k.axnew[i] + Pnew[i]*f
 		}
+		// Only the lower triangle (i ≥ j) of px and pxnew is kept.
 		m := Pnew[:r]
 		for j := 0; j < r; j++ {
 			mj := m[j] / gain
-			col := P[st*j : st*j+r]
-			ncol := Pnew[st*j : st*j+r]
+			col := P[st*j+j : st*j+r]
+			ncol := Pnew[st*j+j : st*j+r]
 			if mj == 0 {
-				for i := j; i < r; i++ {
-					v := ncol[i]
-					col[i] = v
-					P[j+st*i] = v
-				}
+				copy(col, ncol)
 				continue
 			}
-			for i := j; i < r; i++ {
-				v := ncol[i] - m[i]*mj
-				col[i] = v
-				P[j+st*i] = v
+			mm := m[j:r]
+			for i, v := range ncol {
+				col[i] = v - mm[i]*mj
 			}
 		}
 	}
@@ -503,14 +507,115 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 	clear(k.pm)
 	for j := 0; j < r; j++ {
 		k.a[j] = k.ax[j]
-		for i := 0; i < r; i++ {
-			k.pm[i+rd*j] = k.px[i+st*j]
+		for i := j; i < r; i++ {
+			v := k.px[i+st*j]
+			k.pm[i+rd*j] = v
+			k.pm[j+rd*i] = v
 		}
 	}
 	for i := 0; i < nd; i++ {
 		k.a[r+i] = w[n-2-i]
 	}
 	return res
+}
+
+// diffuseStart computes in one step what the first nd iterations of the
+// full filter compute: the filtered ARMA state after observations
+// 1..nd, written to ax and px. None of these observations enters the
+// likelihood: each carries a fresh pre-sample value of prior variance κ
+// (the last differencing coefficient is ±1), so F_t ≥ κ > 10⁴.
+//
+// With ψ the nd pre-sample values (prior N(0, κI)) and W = (w_1..w_nd)
+// the ARMA values, the observations amount to z = W + Bψ, where
+// z_t = y_t − Σ_{i<t} delta_i y_{t−i} and B[t][k] = delta[t+k] (0-based).
+// Then x_nd | z ~ N(C S⁻¹ z, Q0 − C S⁻¹ C') with S = Γ_W + κBB' (Γ_W the
+// ARMA autocovariances) and C = Cov(x_nd, W), whose column s is
+// T^{nd−s} Q0 e₀. The initial covariance must be in pnew (init). It
+// returns false when S is not numerically positive definite.
+func (k *kalman) diffuseStart(w []float64) bool {
+	r, rd, nd := k.r, k.rd, k.nd
+	st := r + 1
+	phi := k.phir
+	C, S, z, gam, delta := k.cm, k.sm, k.zv, k.gam, k.delta
+	// C: last column Q0 e₀, then backwards by T.
+	col := C[r*(nd-1) : r*nd]
+	for i := 0; i < r; i++ {
+		col[i] = k.pnew[i]
+	}
+	for s := nd - 2; s >= 0; s-- {
+		prev := C[r*(s+1) : r*(s+2)]
+		cur := C[r*s : r*(s+1)]
+		v0 := prev[0]
+		for i := 0; i < r-1; i++ {
+			cur[i] = phi[i]*v0 + prev[i+1]
+		}
+		cur[r-1] = phi[r-1] * v0
+	}
+	// S (lower triangle, row-major nd×nd) and z.
+	for a := 0; a < nd; a++ {
+		for b := 0; b <= a; b++ {
+			bb := 0.0
+			for kk := 0; a+kk < nd; kk++ {
+				bb += delta[a+kk] * delta[b+kk]
+			}
+			S[a*nd+b] = gam[a-b] + kappa*bb
+		}
+		v := w[a]
+		for i := 1; i <= a; i++ {
+			v -= delta[i-1] * w[a-i]
+		}
+		z[a] = v
+	}
+	// Cholesky S = L L' in place (lower triangle).
+	for j := 0; j < nd; j++ {
+		d := S[j*nd+j]
+		for kk := 0; kk < j; kk++ {
+			d -= S[j*nd+kk] * S[j*nd+kk]
+		}
+		if !(d > 0) {
+			return false
+		}
+		d = math.Sqrt(d)
+		S[j*nd+j] = d
+		for i := j + 1; i < nd; i++ {
+			v := S[i*nd+j]
+			for kk := 0; kk < j; kk++ {
+				v -= S[i*nd+kk] * S[j*nd+kk]
+			}
+			S[i*nd+j] = v / d
+		}
+	}
+	// z ← L⁻¹ z; each row of C (as a vector over s) ← L⁻¹ row.
+	forward := func(x []float64, stride int) {
+		for i := 0; i < nd; i++ {
+			v := x[i*stride]
+			for kk := 0; kk < i; kk++ {
+				v -= S[i*nd+kk] * x[kk*stride]
+			}
+			x[i*stride] = v / S[i*nd+i]
+		}
+	}
+	forward(z, 1)
+	for i := 0; i < r; i++ {
+		forward(C[i:], r)
+	}
+	// m = X' z and V = Q0 − X'X with X = L⁻¹C'.
+	for i := 0; i < r; i++ {
+		m := 0.0
+		for s := 0; s < nd; s++ {
+			m += C[r*s+i] * z[s]
+		}
+		k.ax[i] = m
+		for j := 0; j <= i; j++ {
+			v := k.pnew[i+rd*j]
+			for s := 0; s < nd; s++ {
+				v -= C[r*s+i] * C[r*s+j]
+			}
+			k.px[i+st*j] = v
+			k.px[j+st*i] = v
+		}
+	}
+	return true
 }
 
 // predictARMA is predict for the ARMA block alone (states ax, covariance
@@ -528,30 +633,30 @@ func (k *kalman) predictARMA() {
 	P, Pnew, rv, g := k.px, k.pxnew, k.rv, k.g
 	p0 := P[0]
 	for j := 0; j < r; j++ {
-		g[j] = P[st*(j+1)] // P[0][j+1]; zero border for j = r−1
+		g[j] = P[j+1] // P[j+1][0] = P[0][j+1]; zero border for j = r−1
 	}
+	// Lower triangle only: Pnew[i][j], i ≥ j, from P[i+1][j+1] (also
+	// lower, zero border row r).
 	if p == 0 {
 		for j := 0; j < r; j++ {
-			src := P[st*(j+1)+1 : st*(j+1)+1+r]
-			dst := Pnew[st*j : st*j+r]
+			src := P[st*(j+1)+j+1 : st*(j+1)+1+r]
+			dst := Pnew[st*j+j : st*j+r]
+			rr := rv[j:r]
 			rj := rv[j]
-			for i := j; i < r; i++ {
-				v := src[i] + rv[i]*rj
-				dst[i] = v
-				Pnew[j+st*i] = v
+			for i, v := range src {
+				dst[i] = v + rr[i]*rj
 			}
 		}
 		return
 	}
 	for j := 0; j < r; j++ {
-		src := P[st*(j+1)+1 : st*(j+1)+1+r]
-		dst := Pnew[st*j : st*j+r]
+		src := P[st*(j+1)+j+1 : st*(j+1)+1+r]
+		dst := Pnew[st*j+j : st*j+r]
+		rr, ph, gg := rv[j:r], phi[j:r], g[j:r]
 		rj, pj := rv[j], phi[j]
 		cj := pj*p0 + g[j]
-		for i := j; i < r; i++ {
-			v := src[i] + phi[i]*cj + pj*g[i] + rv[i]*rj
-			dst[i] = v
-			Pnew[j+st*i] = v
+		for i, v := range src {
+			dst[i] = v + ph[i]*cj + pj*gg[i] + rr[i]*rj
 		}
 	}
 }

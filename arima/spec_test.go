@@ -251,8 +251,9 @@ func TestMissingAtEnd(t *testing.T) {
 }
 
 // TestShortcutEqualsFullFilter: the ARMA-only filter used after the first
-// d + sD observations gives the sums, residuals and final state of the
-// full filter (to rounding: the full filter carries κ = 1e6 in its
+// d + sD observations, started either by filtering those observations
+// with the full state or by the closed form of diffuseStart, gives the
+// sums, residuals and final state of the full filter (to rounding: the full filter carries κ = 1e6 in its
 // covariance, which costs it about six digits, so agreement is asked to
 // 1e-8 relative). Internal consistency, not a reference check.
 func TestShortcutEqualsFullFilter(t *testing.T) {
@@ -275,6 +276,18 @@ func TestShortcutEqualsFullFilter(t *testing.T) {
 	if fast.nu != full.nu {
 		t.Fatalf("nu %d vs %d", fast.nu, full.nu)
 	}
+	// The objective's path: the first d + sD steps in closed form.
+	noResid, _ := pr.likelihood(coef, nil)
+	if noResid.nu != full.nu {
+		t.Fatalf("nu %d vs %d", noResid.nu, full.nu)
+	}
+	numtest.Scalar(t, "ssq (closed-form start)", noResid.ssq, full.ssq, 0, 1e-8)
+	numtest.Scalar(t, "sumlog (closed-form start)", noResid.sumlog, full.sumlog, 1e-8, 1e-8)
+	pr.lay.expand(coef, pr.phi, pr.theta)
+	pr.kal.setARMA(pr.phi, pr.theta)
+	pr.kal.init()
+	pr.adjust(coef)
+	full = pr.kal.filterFull(pr.w, r2)
 	numtest.Scalar(t, "ssq", fast.ssq, full.ssq, 0, 1e-8)
 	numtest.Scalar(t, "sumlog", fast.sumlog, full.sumlog, 1e-8, 1e-8)
 	numtest.Slice(t, "residuals", r1, r2, 1e-8, 1e-8)
