@@ -35,10 +35,10 @@ func ResidualMatrix(st Structure, fits []almanac.Fitted) (*mat.Dense, error) {
 }
 
 func columns(st Structure, cols [][]float64, what string) (*mat.Dense, error) {
-	if st == nil {
-		return nil, fmt.Errorf("reconcile: %w: nil structure", almanac.ErrInvalid)
+	c, err := coreOf(st)
+	if err != nil {
+		return nil, err
 	}
-	c := st.tree()
 	if len(cols) != c.n() {
 		return nil, fmt.Errorf("reconcile: %w: %w: %d %s for %d nodes", ErrDimension, almanac.ErrLength, len(cols), what, c.n())
 	}

@@ -71,10 +71,11 @@ type CovarianceEstimate struct {
 // ErrSingular (a node whose residuals are all zero) or almanac.ErrInvalid
 // (unknown kind).
 func EstimateCovariance(st Structure, residuals mat.Matrix, kind Covariance) (CovarianceEstimate, error) {
-	if st == nil {
-		return CovarianceEstimate{}, fmt.Errorf("reconcile: %w: nil structure", almanac.ErrInvalid)
+	c, err := coreOf(st)
+	if err != nil {
+		return CovarianceEstimate{}, err
 	}
-	return estimateCov(st.tree(), residuals, kind)
+	return estimateCov(c, residuals, kind)
 }
 
 func estimateCov(c *core, residuals mat.Matrix, kind Covariance) (CovarianceEstimate, error) {

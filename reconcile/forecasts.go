@@ -41,13 +41,13 @@ import (
 // almanac.ErrInvalid (different frequencies or start times),
 // almanac.ErrLevel, almanac.ErrHorizon, and everything Reconcile returns.
 func Forecasts(st Structure, fcs []almanac.Forecast, spec Spec, levels ...float64) ([]almanac.Forecast, error) {
-	if st == nil {
-		return nil, fmt.Errorf("reconcile: %w: nil structure", almanac.ErrInvalid)
+	c, err := coreOf(st)
+	if err != nil {
+		return nil, err
 	}
 	if err := almanac.CheckLevels(levels...); err != nil {
 		return nil, fmt.Errorf("reconcile: %w", err)
 	}
-	c := st.tree()
 	n := c.n()
 	if len(fcs) != n {
 		return nil, fmt.Errorf("reconcile: %w: %w: %d forecasts for %d nodes", ErrDimension, almanac.ErrLength, len(fcs), n)

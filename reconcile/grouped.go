@@ -166,4 +166,9 @@ func (g *Grouped) Bottoms(i int) []int { return g.c.bottomsOf(i) }
 // Summing returns a fresh copy of the n × m summing matrix S.
 func (g *Grouped) Summing() *mat.Dense { return g.c.summing() }
 
-func (g *Grouped) tree() *core { return &g.c }
+func (g *Grouped) tree() *core {
+	if g == nil {
+		return nil
+	}
+	return &g.c
+}

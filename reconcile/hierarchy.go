@@ -260,4 +260,9 @@ func (h *Hierarchy) Children(i int) []int {
 // Summing returns a fresh copy of the n × m summing matrix S.
 func (h *Hierarchy) Summing() *mat.Dense { return h.c.summing() }
 
-func (h *Hierarchy) tree() *core { return &h.c }
+func (h *Hierarchy) tree() *core {
+	if h == nil {
+		return nil
+	}
+	return &h.c
+}

@@ -321,6 +321,8 @@ func TestBadInput(t *testing.T) {
 		want []error
 	}{
 		{"nil structure", nil, base, reconcile.Spec{}, []error{almanac.ErrInvalid}},
+		{"typed nil hierarchy", (*reconcile.Hierarchy)(nil), base, reconcile.Spec{}, []error{almanac.ErrInvalid}},
+		{"zero grouped structure", &reconcile.Grouped{}, base, reconcile.Spec{}, []error{almanac.ErrInvalid}},
 		{"nil base", h, nil, reconcile.Spec{}, []error{almanac.ErrEmpty}},
 		{"too few columns", h, mat.NewDense(2, 6, nil), reconcile.Spec{}, []error{reconcile.ErrDimension, almanac.ErrLength}},
 		{"NaN base forecast", h, withCell(base, 1, 2, math.NaN()), reconcile.Spec{}, []error{almanac.ErrMissing}},

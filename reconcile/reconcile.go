@@ -95,10 +95,10 @@ type plan struct {
 }
 
 func newPlan(st Structure, spec Spec, y [][]float64) (*plan, error) {
-	if st == nil {
-		return nil, fmt.Errorf("reconcile: %w: nil structure", almanac.ErrInvalid)
+	c, err := coreOf(st)
+	if err != nil {
+		return nil, err
 	}
-	c := st.tree()
 	method := spec.Method
 	if method == MethodAuto {
 		method = MethodWLSStructural
@@ -271,10 +271,11 @@ func (p *plan) apply(y [][]float64) (*mat.Dense, error) {
 // NonNegative with top-down), the covariance errors of
 // EstimateCovariance, ErrSingular, ErrProportion or ErrNoConvergence.
 func Reconcile(st Structure, base mat.Matrix, spec Spec) (*mat.Dense, error) {
-	if st == nil {
-		return nil, fmt.Errorf("reconcile: %w: nil structure", almanac.ErrInvalid)
+	c, err := coreOf(st)
+	if err != nil {
+		return nil, err
 	}
-	y, err := baseRows(st.tree(), base)
+	y, err := baseRows(c, base)
 	if err != nil {
 		return nil, err
 	}
@@ -366,10 +367,13 @@ func BottomMap(st Structure, spec Spec) (*mat.Dense, error) {
 // reconciled forecasts whose base forecast errors have covariance w
 // (n × n), for the linear map g (m × n, e.g. from BottomMap).
 func ReconciledCovariance(st Structure, g mat.Matrix, w mat.Symmetric) (*mat.SymDense, error) {
-	if st == nil || g == nil || w == nil {
+	c, err := coreOf(st)
+	if err != nil {
+		return nil, err
+	}
+	if g == nil || w == nil {
 		return nil, fmt.Errorf("reconcile: %w: nil argument", almanac.ErrInvalid)
 	}
-	c := st.tree()
 	n, m := c.n(), c.m
 	if r, k := g.Dims(); r != m || k != n {
 		return nil, fmt.Errorf("reconcile: %w: %w: G is %d × %d, want %d × %d", ErrDimension, almanac.ErrLength, r, k, m, n)

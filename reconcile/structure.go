@@ -2,6 +2,8 @@ package reconcile
 
 import (
 	"fmt"
+
+	"github.com/almanac-go/almanac"
 	"slices"
 
 	"gonum.org/v1/gonum/mat"
@@ -129,4 +131,18 @@ func checkName(pkgWhat, name string) error {
 		return fmt.Errorf("reconcile: %w: %s with an empty name", ErrStructure, pkgWhat)
 	}
 	return nil
+}
+
+// coreOf returns the representation behind st, or an error wrapping
+// almanac.ErrInvalid for a nil structure or one not made by a
+// constructor.
+func coreOf(st Structure) (*core, error) {
+	if st == nil {
+		return nil, fmt.Errorf("reconcile: %w: nil structure", almanac.ErrInvalid)
+	}
+	c := st.tree()
+	if c == nil || c.n() == 0 || c.index == nil {
+		return nil, fmt.Errorf("reconcile: %w: empty structure (build it with NewHierarchy, HierarchyFromPaths or NewGrouped)", almanac.ErrInvalid)
+	}
+	return c, nil
 }
