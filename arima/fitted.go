@@ -139,10 +139,22 @@ func (f *Fitted) Period() int { return f.lay.s }
 // d + s·D + p + s·P).
 func (f *Fitted) Residuals() []float64 { return append([]float64(nil), f.resid...) }
 
-// FittedValues returns y_t minus Residuals()[t].
+// FittedValues returns the one-step-ahead predictions y_t minus
+// Residuals()[t], with NaN where no prediction exists: at missing values
+// and for the first d + s·D observations (which only fix the differencing
+// states; for Method CSS the first d + s·D + p + s·P, the conditioning
+// values).
 func (f *Fitted) FittedValues() []float64 {
+	skip := f.lay.d + f.lay.s*f.lay.sd
+	if f.method == CSS {
+		skip = f.ncond
+	}
 	out := make([]float64, f.n)
 	for i := range out {
+		if i < skip {
+			out[i] = math.NaN()
+			continue
+		}
 		out[i] = f.y[i] - f.resid[i]
 	}
 	return out
