@@ -111,9 +111,13 @@ func reconcileDists(p *plan, spec Spec, fcs []almanac.Forecast, h int) ([]almana
 	for _, f := range fcs {
 		switch d := f.Dist.(type) {
 		case *almanac.Sample:
-			samples = append(samples, d)
+			if d != nil {
+				samples = append(samples, d)
+			}
 		case *almanac.Normal:
-			normals = append(normals, d)
+			if d != nil {
+				normals = append(normals, d)
+			}
 		}
 	}
 	switch {

@@ -202,6 +202,8 @@ func TestForecastsErrors(t *testing.T) {
 	shifted[1].Start = start.AddDate(0, 1, 0)
 	quarterly := append([]almanac.Forecast(nil), normals...)
 	quarterly[2].Freq = calendar.Quarterly
+	typedNil := append([]almanac.Forecast(nil), normals...)
+	typedNil[0].Dist = (*almanac.Normal)(nil)
 	short := append([]almanac.Forecast(nil), normals...)
 	short[1].Mean = short[1].Mean[:1]
 	tests := []struct {
@@ -218,6 +220,7 @@ func TestForecastsErrors(t *testing.T) {
 		{"different frequency", quarterly, reconcile.Spec{}, nil, []error{almanac.ErrFrequency}},
 		{"different horizon", short, reconcile.Spec{}, nil, []error{reconcile.ErrDimension, almanac.ErrLength}},
 		{"empty forecasts", []almanac.Forecast{{}, {}, {}, {}}, reconcile.Spec{}, nil, []error{almanac.ErrHorizon}},
+		{"typed nil distribution", typedNil, reconcile.Spec{}, []float64{80}, []error{almanac.ErrNoDistribution}},
 		{"non-negative Gaussian", normals, reconcile.Spec{NonNegative: true}, []float64{80}, []error{almanac.ErrInvalid}},
 	}
 	for _, tt := range tests {
