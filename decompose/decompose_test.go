@@ -285,3 +285,27 @@ func TestConcurrentDeterminism(t *testing.T) {
 		}
 	}
 }
+
+// TestExactMedianOption: the option reaches the kernel (even n, robust:
+// the results differ from R's default scale) and is reported in Settings.
+func TestExactMedianOption(t *testing.T) {
+	y := fixtureInput(t, "stl_airpassengers_log_swin13_robust")
+	a, err := decompose.STL{SeasonalWindow: 13, Robust: true}.Decompose(y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := decompose.STL{SeasonalWindow: 13, Robust: true, ExactMedian: true}.Decompose(y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !b.Settings[0].ExactMedian || a.Settings[0].ExactMedian {
+		t.Fatal("ExactMedian not reported in Settings")
+	}
+	differ := false
+	for i := range a.Weights {
+		differ = differ || a.Weights[i] != b.Weights[i]
+	}
+	if !differ {
+		t.Error("ExactMedian changed nothing on a robust even-length fit where R's partial sort is known to be off")
+	}
+}

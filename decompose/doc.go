@@ -64,8 +64,10 @@
 // and stats::decompose) on ten fixtures: every component agrees within
 // 1e-8 absolute (in fact within about 1e-11). R's robust STL computes its
 // robustness scale with a partial sort that, for an even number of
-// observations, does not always return the exact median; internal/stl
-// reproduces that routine, which is why the robust fixtures match.
+// observations, does not always return the exact median (about one
+// sample in ten, sometimes by far); internal/stl reproduces that routine,
+// which is why the robust fixtures match. STL.ExactMedian uses the exact
+// median instead, as the paper defines the weights.
 //
 // # Performance
 //

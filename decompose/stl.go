@@ -104,6 +104,14 @@ type STL struct {
 	// Outer is the number of robustness passes; 0 = default (a positive
 	// value makes the fit robust even when Robust is false).
 	Outer int
+	// ExactMedian scales the robustness weights by six times the exact
+	// median absolute remainder, as the paper defines them. By default
+	// the scale is computed as R's stl computes it, with a partial sort
+	// that for an even number of observations returns a value other than
+	// the median about one time in ten (sometimes a much larger one,
+	// which makes the weights too lenient for that pass); the default
+	// keeps results identical to R's.
+	ExactMedian bool
 }
 
 var _ Method = STL{}
@@ -173,6 +181,7 @@ func (s STL) params(n, fp int) (stl.Params, STL, error) {
 	if s.Outer > 0 {
 		p.Outer = s.Outer
 	}
+	p.ExactMedian = s.ExactMedian
 	if err := p.Validate(n); err != nil {
 		return p, s, stlError(err)
 	}
@@ -182,7 +191,7 @@ func (s STL) params(n, fp int) (stl.Params, STL, error) {
 		SeasonalDegree: degreeOf(e.SDegree), TrendWindow: e.TWindow, TrendDegree: degreeOf(e.TDegree),
 		LowPassWindow: e.LWindow, LowPassDegree: degreeOf(e.LDegree),
 		SeasonalJump: e.SJump, TrendJump: e.TJump, LowPassJump: e.LJump,
-		Robust: e.Outer > 0, Inner: e.Inner, Outer: e.Outer,
+		Robust: e.Outer > 0, Inner: e.Inner, Outer: e.Outer, ExactMedian: s.ExactMedian,
 	}
 	return p, used, nil
 }

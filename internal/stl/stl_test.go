@@ -221,3 +221,53 @@ func TestScaleByTwo(t *testing.T) {
 		}
 	}
 }
+
+// TestExactMedian: with ExactMedian the weights of a run with one
+// robustness pass are the bisquare weights of the residuals of the run
+// without it, scaled by six times the median (Cleveland et al. 1990,
+// section 2, robustness weights); for odd n R's partial sort is exact,
+// so both options agree.
+func TestExactMedian(t *testing.T) {
+	y := loadInput(t, "stl_airpassengers_log_swin13_robust") // n = 144, even
+	p := Defaults(len(y), 12, 13, false, true)
+	p.Outer, p.ExactMedian = 0, true
+	s0, t0, _, _, err := Decompose(y, p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p.Outer = 1
+	_, _, _, w1, err := Decompose(y, p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := make([]float64, len(y))
+	for i := range y {
+		r[i] = math.Abs(y[i] - s0[i] - t0[i])
+	}
+	sorted := slices.Clone(r)
+	slices.Sort(sorted)
+	h := 6 * (sorted[len(y)/2-1] + sorted[len(y)/2]) / 2
+	for i, ri := range r {
+		want := 0.0
+		switch u := ri / h; {
+		case ri <= 0.001*h:
+			want = 1
+		case ri <= 0.999*h:
+			want = (1 - u*u) * (1 - u*u)
+		}
+		if math.Abs(w1[i]-want) > 1e-15 {
+			t.Fatalf("weight %d = %v, want %v", i, w1[i], want)
+		}
+	}
+	// Odd length: both options give identical results.
+	odd := loadInput(t, "stl_co2_swin7")[:467]
+	q := Defaults(len(odd), 12, 7, false, true)
+	a, _, _, wa, _ := Decompose(odd, q)
+	q.ExactMedian = true
+	b, _, _, wb, _ := Decompose(odd, q)
+	for i := range a {
+		if a[i] != b[i] || wa[i] != wb[i] {
+			t.Fatalf("odd n: options differ at %d", i)
+		}
+	}
+}
