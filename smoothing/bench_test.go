@@ -108,3 +108,16 @@ func objectiveFor(tb testing.TB, sp Spec, y almanac.Series) (*problem, []float64
 }
 
 var _ = rand.NewPCG
+
+// BenchmarkGradient: one evaluation of the objective with its analytic
+// gradient (ETS(M,Ad,M), n = 144, 17 coordinates).
+func BenchmarkGradient(b *testing.B) {
+	y := airPassengers(b)
+	sp := Spec{Error: MultiplicativeError, Trend: DampedTrend, Season: MultiplicativeSeason}
+	p, x := objectiveFor(b, sp, y)
+	g := make([]float64, len(x))
+	b.ReportAllocs()
+	for b.Loop() {
+		p.objectiveGrad(x, g)
+	}
+}

@@ -33,10 +33,21 @@ type problem struct {
 	fixS                                     []float64 // chronological, scaled
 
 	ws []float64 // seasonal ring, length m
+	aw *adjWork  // gradient workspace (sized by prepare)
+	gw *gradWork // forward-mode workspace, tests only
 }
 
-func sigmoid(u float64) float64 { return 1 / (1 + math.Exp(-u)) }
-func logit(r float64) float64   { return math.Log(r / (1 - r)) }
+// prepare sizes the gradient workspace.
+func (p *problem) prepare() { p.aw = newAdjWork(len(p.y), p.f.m) }
+
+// squash maps the optimiser's unbounded coordinate to (0, 1) for a
+// bounded parameter: ½(1 + sin u). Unlike a logistic map it has no flat
+// tail, so a parameter that reaches a bound can come back (the periodic
+// transform for box constraints, common practice). dsquash is its
+// derivative and unsquash an inverse.
+func squash(u float64) float64   { return 0.5 * (1 + math.Sin(u)) }
+func dsquash(u float64) float64  { return 0.5 * math.Cos(u) }
+func unsquash(r float64) float64 { return math.Asin(2*r - 1) }
 
 // dim returns the length of the optimiser's vector.
 func (p *problem) dim() int {
@@ -60,30 +71,30 @@ func (p *problem) params(x []float64) (Params, int) {
 	usual := p.bounds != AdmissibleBounds
 	if p.estA {
 		if usual {
-			par.Alpha = boxLo + (boxHi-boxLo)*sigmoid(x[i])
+			par.Alpha = boxLo + (boxHi-boxLo)*squash(x[i])
 		} else {
-			par.Alpha = boxLo + (admAlpha-boxLo)*sigmoid(x[i])
+			par.Alpha = boxLo + (admAlpha-boxLo)*squash(x[i])
 		}
 		i++
 	}
 	if p.estB {
 		if usual {
-			par.Beta = par.Alpha * (boxLo + (boxHi-boxLo)*sigmoid(x[i]))
+			par.Beta = par.Alpha * (boxLo + (boxHi-boxLo)*squash(x[i]))
 		} else {
-			par.Beta = boxLo + (admBeta-boxLo)*sigmoid(x[i])
+			par.Beta = boxLo + (admBeta-boxLo)*squash(x[i])
 		}
 		i++
 	}
 	if p.estG {
 		if usual {
-			par.Gamma = (1 - par.Alpha) * (boxLo + (boxHi-boxLo)*sigmoid(x[i]))
+			par.Gamma = (1 - par.Alpha) * (boxLo + (boxHi-boxLo)*squash(x[i]))
 		} else {
-			par.Gamma = boxLo + (admGamma-boxLo)*sigmoid(x[i])
+			par.Gamma = boxLo + (admGamma-boxLo)*squash(x[i])
 		}
 		i++
 	}
 	if p.estP {
-		par.Phi = phiLo + (phiHi-phiLo)*sigmoid(x[i])
+		par.Phi = phiLo + (phiHi-phiLo)*squash(x[i])
 		i++
 	}
 	return par, i
@@ -323,11 +334,12 @@ func startValues(f form, y []float64) (l0, b0 float64, s []float64) {
 	return l0, b0, s
 }
 
-// optimise minimises p.objective from x0 with Nelder–Mead, restarted
-// from the best point with a fresh, smaller simplex until a restart no
-// longer improves the objective (restarts guard against the simplex
-// collapsing early, common practice). It returns the best point and value
-// and whether the last search converged.
+// optimise minimises p.objective from x0: a BFGS search with the
+// analytic gradient (gradient.go), repeated after pulling smoothing
+// parameters off their bounds (see below); if it does not converge, a
+// Nelder–Mead simplex search restarted from the best point with a fresh,
+// smaller simplex until a restart no longer improves the objective. It
+// returns the best point and value and whether the last search converged.
 func (p *problem) optimise(ctx context.Context, x0 []float64) ([]float64, float64, bool, error) {
 	d := len(x0)
 	x := append([]float64(nil), x0...)
@@ -335,9 +347,31 @@ func (p *problem) optimise(ctx context.Context, x0 []float64) ([]float64, float6
 	if d == 0 {
 		return x, fx, true, nil
 	}
+	converged := false
+	{
+		qn := newQuasiNewton(d)
+		f, conv, err := qn.minimize(ctx, p.objectiveGrad, x, 1e-10, 200*d)
+		if err != nil {
+			return nil, 0, false, err
+		}
+		fx, converged = f, conv
+		// One restart from the end point with a fresh inverse Hessian
+		// catches a search that stopped on a poor curvature estimate.
+		f2, conv2, err := qn.minimize(ctx, p.objectiveGrad, x, 1e-10, 200*d)
+		if err != nil {
+			return nil, 0, false, err
+		}
+		if f2 <= fx {
+			fx, converged = f2, conv2
+		}
+	}
+	if converged {
+		return x, fx, converged, nil
+	}
+	// Fallback when the quasi-Newton search stalls (e.g. along the edge of
+	// the model's domain): the restarted simplex search from its end point.
 	steps := p.steps(x)
 	sx := newSimplex(d)
-	converged := false
 	for restart := 0; restart < 6; restart++ {
 		f, conv, err := sx.nelderMead(ctx, p.objective, x, fx, steps, 1e-8, 2000*d)
 		if err != nil {

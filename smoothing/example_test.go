@@ -48,9 +48,9 @@ func ExampleSpec() {
 	}
 	// Output:
 	// ETS(M,Ad,M)
-	// 2025-01 322.182 [308.261, 336.103]
-	// 2025-02 334.474 [320.005, 348.944]
-	// 2025-03 406.174 [388.555, 423.793]
+	// 2025-01 322.184 [308.263, 336.105]
+	// 2025-02 334.475 [320.005, 348.945]
+	// 2025-03 406.175 [388.555, 423.794]
 }
 
 // Fix some parameters and estimate the rest.
@@ -68,7 +68,7 @@ func ExampleSpec_fixed() {
 	m := fit.(*smoothing.Fitted)
 	fmt.Printf("%v alpha=%.3f beta=%.3f level0=%.3f\n", m, m.Params.Alpha, m.Params.Beta, m.InitLevel)
 	// Output:
-	// ETS(A,A,N) alpha=0.300 beta=0.050 level0=251.129
+	// ETS(A,A,N) alpha=0.300 beta=0.050 level0=251.119
 }
 
 // Let Select choose the model by AICc.
@@ -86,8 +86,8 @@ func ExampleSelect() {
 	}
 	// Output:
 	// ETS(M,A,M) AICc 431.617
-	// 323.476 [303.825, 343.127]
-	// 336.180 [315.757, 356.603]
+	// 323.475 [303.824, 343.127]
+	// 336.178 [315.755, 356.601]
 }
 
 // Classical Holt-Winters with fixed constants.
@@ -121,5 +121,5 @@ func ExampleFitted_Update() {
 	fc, _ := up.Forecast(1)
 	fmt.Printf("%s %.3f\n", fc.Start.Format("2006-01"), fc.Mean[0])
 	// Output:
-	// 2025-01 307.615
+	// 2025-01 307.616
 }

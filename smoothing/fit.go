@@ -179,6 +179,7 @@ func (s Spec) newProblem(f form, ys []float64, scale float64) *problem {
 			}
 		}
 	}
+	p.prepare()
 	return p
 }
 
@@ -187,7 +188,7 @@ func (p *problem) start() []float64 {
 	l0, b0, s0 := startValues(p.f, p.y)
 	x := make([]float64, 0, p.dim())
 	usual := p.bounds != AdmissibleBounds
-	ratio := func(v, hi float64) float64 { return logit((v - boxLo) / (hi - boxLo)) }
+	ratio := func(v, hi float64) float64 { return unsquash((v - boxLo) / (hi - boxLo)) }
 	alpha := 0.3
 	if !p.estA {
 		alpha = p.fix.Alpha
@@ -214,7 +215,7 @@ func (p *problem) start() []float64 {
 		}
 	}
 	if p.estP {
-		x = append(x, logit((0.95-phiLo)/(phiHi-phiLo)))
+		x = append(x, unsquash((0.95-phiLo)/(phiHi-phiLo)))
 	}
 	if p.estL {
 		x = append(x, l0)
@@ -329,7 +330,7 @@ func (p *problem) bestAlphaStart(x []float64) []float64 {
 	}
 	try := slices.Clone(x)
 	for _, a := range []float64{0.1, 0.5, 0.8} {
-		try[0] = logit((a - boxLo) / (hi - boxLo))
+		try[0] = unsquash((a - boxLo) / (hi - boxLo))
 		if v := p.objective(try); v < fb {
 			fb = v
 			copy(best, try)

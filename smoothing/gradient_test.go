@@ -1,0 +1,65 @@
+package smoothing
+
+import (
+	"github.com/almanac-go/almanac/internal/numtest"
+	"math"
+	"slices"
+	"testing"
+)
+
+// TestGradient compares the adjoint gradient with forward-mode
+// differentiation and with central finite differences of the objective, for every model form and both kinds of
+// bounds, at the start values and at a perturbed point.
+func TestGradient(t *testing.T) {
+	y := airPassengers(t).Head(60)
+	for _, e := range []ErrorType{AdditiveError, MultiplicativeError} {
+		for tr := NoTrend; tr <= DampedMultiplicativeTrend; tr++ {
+			for _, se := range []SeasonType{NoSeason, AdditiveSeason, MultiplicativeSeason} {
+				for _, bd := range []Bounds{UsualBounds, AdmissibleBounds} {
+					sp := Spec{Error: e, Trend: tr, Season: se, Bounds: bd}
+					t.Run(sp.String()+"/"+bd.String(), func(t *testing.T) {
+						f, err := sp.resolve(y)
+						if err != nil {
+							t.Fatal(err)
+						}
+						ys := y.Slice()
+						for i := range ys {
+							ys[i] /= 200
+						}
+						p := sp.newProblem(f, ys, 200)
+						x := p.start()
+						for k := range x {
+							x[k] += 0.01 * float64(k%3-1)
+						}
+						g := make([]float64, len(x))
+						fv := p.objectiveGrad(x, g)
+						gf := make([]float64, len(x))
+						if ff := p.objectiveGradForward(x, gf); ff != fv {
+							t.Fatalf("forward-mode value %g, adjoint pass %g", ff, fv)
+						}
+						numtest.Slice(t, "adjoint vs forward-mode gradient", g, gf, 1e-10, 1e-8)
+						if fv >= penalty {
+							t.Skip("start outside the domain")
+						}
+						if fo := p.objective(x); math.Abs(fo-fv) > 1e-9*math.Abs(fo) {
+							t.Fatalf("objectiveGrad value %g, objective %g", fv, fo)
+						}
+						xp := slices.Clone(x)
+						for k := range x {
+							h := 1e-6 * math.Max(1, math.Abs(x[k]))
+							xp[k] = x[k] + h
+							fp := p.objective(xp)
+							xp[k] = x[k] - h
+							fm := p.objective(xp)
+							xp[k] = x[k]
+							fd := (fp - fm) / (2 * h)
+							if math.Abs(fd-g[k]) > 1e-4*math.Max(1, math.Abs(fd)) {
+								t.Errorf("d/dx[%d]: analytic %.8g, finite difference %.8g", k, g[k], fd)
+							}
+						}
+					})
+				}
+			}
+		}
+	}
+}
