@@ -1,0 +1,132 @@
+package arima_test
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"time"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/arima"
+	"github.com/almanac-go/almanac/calendar"
+)
+
+// guestNights is an invented scenario: monthly overnight stays at a small
+// lakeside guest house over eight years, growing slowly, busy in summer,
+// with irregular noise. The numbers are generated, not observed.
+func guestNights() almanac.Series {
+	src := rand.New(rand.NewPCG(2024, 7))
+	v := make([]float64, 96)
+	level := 300.0
+	for t := range v {
+		level += 1.2 + 4*src.NormFloat64()
+		season := 90 * math.Sin(2*math.Pi*float64(t%12-3)/12)
+		v[t] = math.Round(level + season + 10*src.NormFloat64())
+	}
+	return almanac.Series{Key: "guest nights", Start: time.Date(2017, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly, Values: v}
+}
+
+// ExampleSearch chooses the orders of a seasonal ARIMA model for a monthly
+// series and forecasts the next quarter with 80% intervals.
+func ExampleSearch() {
+	y := guestNights()
+	fit, err := arima.Search{}.Fit(context.Background(), y)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	res := fit.(*arima.SearchResult)
+	fmt.Println("chosen:", res)
+	fmt.Printf("candidates tried: %d, AICc %.1f\n", len(res.Candidates), res.AICc())
+	fc, err := res.Forecast(3, 80)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	lo, hi, _ := fc.Bounds(80)
+	for h := range fc.Mean {
+		fmt.Printf("%s  %.0f  [%.0f, %.0f]\n", fc.Time(h).Format("2006-01"), fc.Mean[h], lo[h], hi[h])
+	}
+	// Output:
+	// chosen: ARIMA(1,0,1)(2,1,0)[12]
+	// candidates tried: 38, AICc 696.7
+	// 2025-01  265  [247, 282]
+	// 2025-02  283  [264, 301]
+	// 2025-03  302  [283, 321]
+}
+
+// ExampleSearch_exhaustive searches the whole bounded grid in parallel,
+// ranks by BIC, and lists the three best candidates.
+func ExampleSearch_exhaustive() {
+	y := guestNights()
+	s := arima.Search{Exhaustive: true, Workers: 2, Criterion: arima.BIC, MaxP: 1, MaxQ: 1, MaxSP: 1, MaxSQ: 1}
+	fit, err := s.Fit(context.Background(), y)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	res := fit.(*arima.SearchResult)
+	fmt.Println("chosen:", res)
+	fmt.Println("grid size:", len(res.Candidates))
+	// Output:
+	// chosen: ARIMA(1,0,1)(1,1,0)[12]
+	// grid size: 32
+}
+
+// ExampleKPSS tests a series for level and for trend stationarity, then
+// chooses the orders of ordinary and seasonal differencing.
+func ExampleKPSS() {
+	y := guestNights().Values
+	r, err := arima.KPSS(y, arima.KPSSSpec{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	reject, _ := r.Reject(0.05)
+	fmt.Printf("level: statistic %.3f, %d lags, p-value %.3f (%v), reject at 5%%: %v\n", r.Statistic, r.Lags, r.PValue, r.Clipped, reject)
+	r, err = arima.KPSS(y, arima.KPSSSpec{Null: arima.TrendStationary, LagRule: arima.LagFixed, Lags: 4})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("trend: statistic %.3f, %d lags, p-value %.3f (%v)\n", r.Statistic, r.Lags, r.PValue, r.Clipped)
+	d, err := arima.Differences(y, arima.DifferencesSpec{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	D, err := arima.SeasonalDifferences(y, 12, arima.SeasonalDifferencesSpec{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	f, _ := arima.SeasonalStrength(y, 12, 0)
+	fmt.Printf("d = %d, D = %d (seasonal strength %.3f)\n", d, D, f)
+	// Output:
+	// level: statistic 0.405, 2 lags, p-value 0.075 (not clipped), reject at 5%: false
+	// trend: statistic 0.022, 4 lags, p-value 0.100 (true p-value is larger)
+	// d = 0, D = 1 (seasonal strength 0.981)
+}
+
+// ExampleACF prints the autocorrelations that stand out from white noise.
+func ExampleACF() {
+	y := guestNights().Values
+	c, err := arima.ACF(y, 24)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("bound ±%.3f\n", c.Bound)
+	fmt.Printf("r(1) %.3f, r(6) %.3f, r(12) %.3f\n", c.Values[1], c.Values[6], c.Values[12])
+	p, err := arima.PACF(y, 24)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println("significant partial autocorrelations at lags", p.Significant())
+	// Output:
+	// bound ±0.200
+	// r(1) 0.848, r(6) -0.734, r(12) 0.847
+	// significant partial autocorrelations at lags [1 2 3 7 8 11]
+}
