@@ -62,6 +62,9 @@ func (f Forecaster) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, 
 	}
 	n := y.Len()
 	fv := inner.FittedValues()
+	if len(fv) != n {
+		return nil, fmt.Errorf("decompose: forecaster: %w: %s returned %d fitted values for %d observations", almanac.ErrLength, inner.String(), len(fv), n)
+	}
 	fitted := make([]float64, n)
 	resid := make([]float64, n)
 	for i := range fitted {
@@ -157,6 +160,14 @@ func (f *ForecasterFit) Forecast(h int, levels ...float64) (almanac.Forecast, er
 	if err != nil {
 		return almanac.Forecast{}, fmt.Errorf("decompose: forecaster: %w", err)
 	}
+	if len(fc.Mean) != h {
+		return almanac.Forecast{}, fmt.Errorf("decompose: forecaster: %w: %s returned %d forecasts for horizon %d", almanac.ErrLength, f.inner.String(), len(fc.Mean), h)
+	}
+	for _, iv := range fc.Intervals {
+		if len(iv.Lower) != h || len(iv.Upper) != h {
+			return almanac.Forecast{}, fmt.Errorf("decompose: forecaster: %w: %s returned an interval of length %d/%d for horizon %d", almanac.ErrLength, f.inner.String(), len(iv.Lower), len(iv.Upper), h)
+		}
+	}
 	s := f.decomp.SeasonalForward(h)
 	mul := f.decomp.Multiplicative
 	move := func(x []float64) []float64 {
@@ -211,6 +222,9 @@ func (f *ForecasterFit) Simulate(h, n int, src rand.Source) ([][]float64, error)
 	}
 	s := f.decomp.SeasonalForward(h)
 	for _, p := range paths {
+		if len(p) != h {
+			return nil, fmt.Errorf("decompose: forecaster: %w: %s simulated a path of %d steps for horizon %d", almanac.ErrLength, f.inner.String(), len(p), h)
+		}
 		for k := range p {
 			if f.decomp.Multiplicative {
 				p[k] *= s[k]

@@ -160,3 +160,44 @@ func TestForecasterErrors(t *testing.T) {
 		t.Errorf("level 100: %v", err)
 	}
 }
+
+// badModel is a caller's model that returns slices of the wrong length.
+type badModel struct{ short bool }
+
+type badFit struct {
+	n     int
+	short bool
+}
+
+func (m badModel) Fit(_ context.Context, y almanac.Series) (almanac.Fitted, error) {
+	return badFit{n: y.Len(), short: m.short}, nil
+}
+
+func (f badFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	return almanac.Forecast{Mean: make([]float64, h+1)}, nil
+}
+
+func (f badFit) FittedValues() []float64 {
+	if f.short {
+		return make([]float64, f.n-1)
+	}
+	return make([]float64, f.n)
+}
+func (f badFit) Residuals() []float64 { return make([]float64, f.n) }
+func (f badFit) String() string       { return "Bad" }
+
+// TestForecasterBadInnerModel: a caller's model returning slices of the
+// wrong length gives an error wrapping almanac.ErrLength, not a panic.
+func TestForecasterBadInnerModel(t *testing.T) {
+	y := fixtureInput(t, "stl_co2_swin7")
+	if _, err := (decompose.Forecaster{Model: badModel{short: true}}).Fit(context.Background(), y); !errors.Is(err, almanac.ErrLength) {
+		t.Errorf("short fitted values: %v", err)
+	}
+	fit, err := decompose.Forecaster{Model: badModel{}}.Fit(context.Background(), y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := fit.Forecast(5); !errors.Is(err, almanac.ErrLength) {
+		t.Errorf("long forecast: %v", err)
+	}
+}
