@@ -238,3 +238,51 @@ func ExampleBoxCox() {
 	// BoxCox[0](SeasonalNaive[12]): 47.211 [39.030, 56.598]
 	// BoxCox[0.1552](SeasonalNaive[12]): 47.000 [38.420, 57.146]
 }
+
+func ExampleNaive() {
+	y := almanac.Series{Key: "cans", Start: time.Date(2023, time.January, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly, Values: cans}
+	for _, m := range []almanac.Model{almanac.Naive{}, almanac.SeasonalNaive{}, almanac.Drift{}, almanac.Mean{}} {
+		fit, err := m.Fit(context.Background(), y)
+		if err != nil {
+			fmt.Println(err)
+			return
+		}
+		fc, err := fit.Forecast(2, 95)
+		if err != nil {
+			fmt.Println(err)
+			return
+		}
+		iv := fc.Intervals[0]
+		fmt.Printf("%-18s h=1 %7.3f [%7.3f, %7.3f]  h=2 %7.3f [%7.3f, %7.3f]\n", fit,
+			fc.Mean[0], iv.Lower[0], iv.Upper[0], fc.Mean[1], iv.Lower[1], iv.Upper[1])
+	}
+	// Output:
+	// Naive              h=1  57.000 [ 27.138,  86.862]  h=2  57.000 [ 14.769,  99.231]
+	// SeasonalNaive[12]  h=1  47.000 [ 32.224,  61.776]  h=2  50.000 [ 35.224,  64.776]
+	// Drift              h=1  57.652 [ 26.491,  88.813]  h=2  58.304 [ 13.327, 103.281]
+	// Mean               h=1  78.167 [ 22.594, 133.740]  h=2  78.167 [ 22.594, 133.740]
+}
+
+func ExampleLambdaGuerrero() {
+	lam, err := almanac.LambdaGuerrero(cans, 12, 0, 0) // default search interval [-1, 2]
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	z, err := almanac.BoxCoxTransform(nil, cans[:3], lam)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	back, _ := almanac.BoxCoxInverse(nil, z, lam)
+	fmt.Printf("lambda %.3f\n", lam)
+	fmt.Printf("transformed %.3f\n", z)
+	fmt.Printf("back %.3f\n", back)
+	_, err = almanac.BoxCoxTransform(nil, []float64{3, 0}, 0)
+	fmt.Println(err)
+	// Output:
+	// lambda 0.155
+	// transformed [5.066 5.189 5.752]
+	// back [42.000 45.000 61.000]
+	// almanac: box-cox: non-positive value: y[1] = 0 with lambda 0 (need y > 0, or y ≥ 0 when lambda > 0)
+}
