@@ -55,6 +55,9 @@ func (f Forecaster) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, 
 	if err != nil {
 		return nil, err
 	}
+	if err := d.check(y.Len()); err != nil {
+		return nil, err
+	}
 	adj := d.Adjusted()
 	inner, err := f.Model.Fit(ctx, adj)
 	if err != nil {
@@ -234,4 +237,21 @@ func (f *ForecasterFit) Simulate(h, n int, src rand.Source) ([][]float64, error)
 		}
 	}
 	return paths, nil
+}
+
+// check verifies that a decomposition (possibly from a caller's Method)
+// has the shape Forecaster relies on.
+func (d *Decomposition) check(n int) error {
+	bad := d == nil || len(d.Seasonal) != n || len(d.Series.Values) != n || len(d.Seasonals) != len(d.Periods) || len(d.Seasonals) == 0
+	if !bad {
+		for k, s := range d.Seasonals {
+			if len(s) != n || d.Periods[k] < 1 || d.Periods[k] > n {
+				bad = true
+			}
+		}
+	}
+	if bad {
+		return fmt.Errorf("decompose: forecaster: %w: the decomposition does not match the series (%d observations)", almanac.ErrLength, n)
+	}
+	return nil
 }

@@ -201,3 +201,17 @@ func TestForecasterBadInnerModel(t *testing.T) {
 		t.Errorf("long forecast: %v", err)
 	}
 }
+
+// badMethod is a caller's decomposition method with a malformed result.
+type badMethod struct{}
+
+func (badMethod) Decompose(y almanac.Series) (*decompose.Decomposition, error) {
+	return &decompose.Decomposition{Series: y, Seasonal: make([]float64, y.Len()), Seasonals: [][]float64{make([]float64, 3)}, Periods: []int{12}}, nil
+}
+
+func TestForecasterBadMethod(t *testing.T) {
+	y := fixtureInput(t, "stl_co2_swin7")
+	if _, err := (decompose.Forecaster{Model: almanac.Naive{}, Method: badMethod{}}).Fit(context.Background(), y); !errors.Is(err, almanac.ErrLength) {
+		t.Errorf("malformed decomposition: %v", err)
+	}
+}
