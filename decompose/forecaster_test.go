@@ -215,3 +215,44 @@ func TestForecasterBadMethod(t *testing.T) {
 		t.Errorf("malformed decomposition: %v", err)
 	}
 }
+
+// TestForecasterBatch: the forecaster works with almanac.BatchFit, with
+// bit-identical forecasts for 1 and 4 workers, and reports a gappy
+// series as an error wrapping almanac.ErrMissing without stopping others.
+func TestForecasterBatch(t *testing.T) {
+	gappy := fixtureInput(t, "stl_nottem_periodic")
+	gappy.Values[7] = math.NaN()
+	ys := []almanac.Series{fixtureInput(t, "stl_co2_swin7"), gappy, fixtureInput(t, "stl_ukgas_swin9_sdeg1"), fixtureInput(t, "decompose_airpassengers_multiplicative")}
+	m := decompose.Forecaster{Model: almanac.Drift{}, Method: decompose.STL{Robust: true}}
+	var means [2][][]float64
+	for k, workers := range []int{1, 4} {
+		res, err := almanac.BatchFit(context.Background(), m, ys, almanac.BatchOptions{Workers: workers})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i, r := range res {
+			if i == 1 {
+				if !errors.Is(r.Err, almanac.ErrMissing) {
+					t.Fatalf("gappy series: %v", r.Err)
+				}
+				means[k] = append(means[k], nil)
+				continue
+			}
+			if r.Err != nil {
+				t.Fatal(r.Err)
+			}
+			fc, err := r.Fitted.Forecast(8)
+			if err != nil {
+				t.Fatal(err)
+			}
+			means[k] = append(means[k], fc.Mean)
+		}
+	}
+	for i := range means[0] {
+		for h := range means[0][i] {
+			if math.Float64bits(means[0][i][h]) != math.Float64bits(means[1][i][h]) {
+				t.Fatalf("series %d step %d differs between 1 and 4 workers", i, h)
+			}
+		}
+	}
+}
