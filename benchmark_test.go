@@ -166,6 +166,18 @@ func TestBenchmarkMissing(t *testing.T) {
 		numtest.Slice(t, "sd", sdOf(t, fc), []float64{s * math.Sqrt(2), s * math.Sqrt(3)}, 1e-12, 1e-12)
 		numtest.Slice(t, "fitted", f.FittedValues(), []float64{nan, 1, 3, 3, 5, 4}, 0, 0)
 	})
+	t.Run("drift with a trailing gap", func(t *testing.T) {
+		f, err := almanac.Drift{}.Fit(ctx, quarterly("gap", 1, 3, 4, nan))
+		if err != nil {
+			t.Fatal(err)
+		}
+		fc, _ := f.Forecast(1)
+		// d = (4 − 1)/2 = 1.5; residuals ±0.5 → σ̂² = 0.5/(2 − 1); the
+		// first forecast step is j = 2 steps after the last observation:
+		// mean 4 + 2·1.5 = 7, variance σ̂²·j(1 + j/(L − F)) = 0.5·2·2.
+		numtest.Scalar(t, "mean", fc.Mean[0], 7, 1e-12, 0)
+		numtest.Scalar(t, "sd", sdOf(t, fc)[0], math.Sqrt(2), 1e-12, 1e-12)
+	})
 	t.Run("mean ignores NaN", func(t *testing.T) {
 		f, err := almanac.Mean{}.Fit(ctx, quarterly("gap", 2, nan, 4, nan))
 		if err != nil {
