@@ -43,6 +43,29 @@ func BenchmarkFitAirline(b *testing.B) {
 	}
 }
 
+// BenchmarkFitSizes fits an ARIMA(1,1,1) with drift (CSS then ML) to
+// series of growing length built from log air passengers.
+func BenchmarkFitSizes(b *testing.B) {
+	base := logAirPassengers(b)
+	for _, n := range []int{144, 1440, 14400} {
+		vals := make([]float64, n)
+		for i := range vals {
+			vals[i] = base.Values[i%144] + 0.5*math.Floor(float64(i)/144)
+		}
+		y := base
+		y.Values = vals
+		s := Spec{P: 1, D: 1, Q: 1, Constant: ConstantInclude}
+		b.Run(fmt.Sprintf("n=%d", n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := s.Fit(context.Background(), y); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
 // mlObjectiveOf prepares the ML objective of spec on y at its starting
 // point, as Fit does.
 func mlObjectiveOf(tb testing.TB, s Spec, y almanac.Series) (func([]float64) float64, []float64) {

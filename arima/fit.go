@@ -148,11 +148,21 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 	}
 	if method == ML || method == CSSThenML {
 		if k > 0 {
+			obj := func(v []float64) float64 { return pr.mlObjective(v, true) }
 			x0, ok := pr.paramsFrom(coef, true)
+			if (!ok || obj(x0) >= badObjective) && method == CSSThenML {
+				// The CSS estimate is no usable start: estimated ARMA
+				// coefficients start from zero instead.
+				for _, i := range pr.free {
+					if i < na {
+						coef[i] = 0
+					}
+				}
+				x0, ok = pr.paramsFrom(coef, true)
+			}
 			if !ok {
 				return nil, fmt.Errorf("arima: %w: %s: starting values not stationary", almanac.ErrNotFitted, lay.orders())
 			}
-			obj := func(v []float64) float64 { return pr.mlObjective(v, true) }
 			if obj(x0) >= badObjective {
 				return nil, fmt.Errorf("arima: %w: %s: likelihood not finite at the starting values", almanac.ErrNotFitted, lay.orders())
 			}

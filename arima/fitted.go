@@ -205,7 +205,8 @@ func (f *Fitted) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
 //
 // Special cases: as Forecast; future with the wrong number of columns,
 // a column of length ≠ h or a non-finite value gives an error wrapping
-// ErrNeedRegressors.
+// ErrNeedRegressors; a Method CSS fit whose AR part is not stationary has
+// no state-space form and gives an error wrapping ErrNonStationary.
 func (f *Fitted) ForecastWith(h int, future [][]float64, levels ...float64) (almanac.Forecast, error) {
 	if err := almanac.CheckHorizon(h); err != nil {
 		return almanac.Forecast{}, fmt.Errorf("arima: %w", err)

@@ -91,3 +91,36 @@ func TestStationaryCov(t *testing.T) {
 		t.Error("unit root accepted as stationary")
 	}
 }
+
+// TestStationaryCovSolvesLyapunov: Q0 satisfies its defining equation
+// Q0 = T Q0 T' + R R' for seasonal ARMA models with AR and MA parts
+// (where the first-row construction and the recursion both matter).
+func TestStationaryCovSolvesLyapunov(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		lay  *layout
+		coef []float64
+	}{
+		{"ARMA(2,1)(1,0)[12]", newLayout(2, 0, 1, 1, 0, 0, 12, false, false, nil), []float64{0.5, -0.3, 0.4, 0.6}},
+		{"ARMA(1,2)(1,1)[4]", newLayout(1, 0, 2, 1, 0, 1, 4, false, false, nil), []float64{-0.7, 0.2, 0.3, 0.5, -0.4}},
+		{"AR(3)", newLayout(3, 0, 0, 0, 0, 0, 0, false, false, nil), []float64{0.6448, -0.0634, -0.2198}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			pf, qf := tc.lay.fullLengths()
+			phi, theta := make([]float64, pf), make([]float64, qf)
+			tc.lay.expand(tc.coef, phi, theta)
+			var k kalman
+			k.resize(pf, qf, nil)
+			k.setARMA(phi, theta)
+			if !k.init() {
+				t.Fatal("stationary model reported non-stationary")
+			}
+			r := k.r
+			q0 := append([]float64(nil), k.pnew[:r*r]...)
+			// One prediction step from Q0 must return Q0.
+			copy(k.pm, q0)
+			k.predict()
+			numtest.Slice(t, "T Q0 T' + R R' − Q0", k.pnew[:r*r], q0, 1e-12, 1e-12)
+		})
+	}
+}
