@@ -458,7 +458,8 @@ func smooth(y []float64, length, ideg, njump int, userw bool, rw, ys []float64, 
 // weighted mean position, the weighted spread and the fit. Here one pass
 // accumulates the weighted sums in coordinates centred on xs and the
 // degree-1 correction is applied in closed form: the same estimator with
-// a different order of rounding (agreement with R to about 1e-13), about
+// a different order of rounding (agreement with R to about 1e-13
+// relative), about
 // three times faster.
 func estimate(y []float64, length, ideg int, xs float64, nleft, nright int, userw bool, rw []float64, kc *kernel) (ys float64, ok bool) {
 	n := len(y)
