@@ -459,8 +459,7 @@ func smooth(y []float64, length, ideg, njump int, userw bool, rw, ys []float64, 
 // accumulates the weighted sums in coordinates centred on xs and the
 // degree-1 correction is applied in closed form: the same estimator with
 // a different order of rounding (agreement with R to about 1e-13
-// relative), about
-// three times faster.
+// relative), and faster.
 func estimate(y []float64, length, ideg int, xs float64, nleft, nright int, userw bool, rw []float64, kc *kernel) (ys float64, ok bool) {
 	n := len(y)
 	rng := float64(n) - 1
