@@ -460,3 +460,78 @@ func TestDeterminismAcrossProcs(t *testing.T) {
 		}
 	}
 }
+
+// Scale invariance (DESIGN.md "Numbers"): reconciling c·ŷ with residuals
+// and history c·E, c·Y gives c times the reconciled forecasts.
+func TestScaleInvariance(t *testing.T) {
+	rng := rand.New(rand.NewPCG(71, 72))
+	h := testHierarchy(t, 3, 4, 2)
+	resid := randomResiduals(h, 30, rng)
+	hist := coherentData(h, 30, 0, rng)
+	base := coherentData(h, 6, 8, rng)
+	for _, c := range []float64{1e-4, 7, 1e6} {
+		var cb, cr, ch mat.Dense
+		cb.Scale(c, base)
+		cr.Scale(c, resid)
+		ch.Scale(c, hist)
+		for _, tt := range allSpecs(resid, hist) {
+			t.Run(fmt.Sprintf("c=%g/%s", c, tt.name), func(t *testing.T) {
+				want, err := reconcile.Reconcile(h, base, tt.spec)
+				if err != nil {
+					t.Fatal(err)
+				}
+				want.Scale(c, want)
+				spec := tt.spec
+				if spec.Residuals != nil {
+					spec.Residuals = &cr
+				}
+				if spec.History != nil {
+					spec.History = &ch
+				}
+				got, err := reconcile.Reconcile(h, &cb, spec)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if !mat.EqualApprox(got, want, 1e-9*mat.Norm(want, math.Inf(1))) {
+					t.Error("not scale invariant")
+				}
+			})
+		}
+	}
+}
+
+// Nodes whose scales differ by six orders of magnitude (a large and a
+// tiny region): the singularity tests work on the correlation scale, so
+// MinT neither fails nor loses the projection property.
+func TestMixedScales(t *testing.T) {
+	rng := rand.New(rand.NewPCG(73, 74))
+	h := testHierarchy(t, 3, 3) // total, r0, r1, r0-s0..2, r1-s0..2
+	n := h.Len()
+	scale := []float64{1e6, 1e6, 1, 1e6, 1e6, 1e6, 1, 1, 1}
+	resid := randomResiduals(h, 40, rng)
+	for t0 := 0; t0 < 40; t0++ {
+		for i := 0; i < n; i++ {
+			resid.Set(t0, i, resid.At(t0, i)*scale[i])
+		}
+	}
+	b := mat.NewDense(2, 6, []float64{3e6, 2e6, 4e6, 3, 2, 4, 3.5e6, 2.5e6, 4.5e6, 2, 1, 5})
+	var base mat.Dense
+	base.Mul(b, h.Summing().T())
+	for _, m := range []reconcile.Method{reconcile.MethodMinTSample, reconcile.MethodMinTShrink, reconcile.MethodWLSVariance} {
+		t.Run(m.String(), func(t *testing.T) {
+			got, err := reconcile.Reconcile(h, &base, reconcile.Spec{Method: m, Residuals: resid})
+			if err != nil {
+				t.Fatal(err)
+			}
+			// The small region must come back to its own precision, not
+			// to that of the total.
+			for k := 0; k < 2; k++ {
+				for i := 0; i < n; i++ {
+					if d := math.Abs(got.At(k, i) - base.At(k, i)); d > 1e-8*math.Abs(base.At(k, i)) {
+						t.Errorf("step %d node %s: %v, want %v", k, h.Names()[i], got.At(k, i), base.At(k, i))
+					}
+				}
+			}
+		})
+	}
+}

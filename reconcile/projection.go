@@ -153,13 +153,9 @@ func bottomForm(c *core, w *weights, what string) (*glsMap, error) {
 			q.SetSym(a, b, s)
 		}
 	}
-	var cq mat.Cholesky
-	if ok := cq.Factorize(q); !ok || cq.Cond() > condLimit {
+	g, ok := solveSPD(q, x.T())
+	if !ok {
 		return nil, fmt.Errorf("reconcile: %w: S' W⁻¹ S is singular or nearly so for the %s weights", ErrSingular, what)
-	}
-	g := mat.NewDense(m, n, nil)
-	if err := cq.SolveTo(g, x.T()); err != nil {
-		return nil, fmt.Errorf("reconcile: %w: S' W⁻¹ S for the %s weights: %v", ErrSingular, what, err)
 	}
 	return &glsMap{g: g, x: x, q: q}, nil
 }
@@ -198,14 +194,10 @@ func constraintForm(c *core, w *weights, what string) (*mat.Dense, error) {
 			uwu.SetSym(a, b, v)
 		}
 	}
-	var ch mat.Cholesky
-	if ok := ch.Factorize(uwu); !ok || ch.Cond() > condLimit {
-		return nil, fmt.Errorf("reconcile: %w: U' W U is singular or nearly so for the %s weights", ErrSingular, what)
-	}
 	// k = (U' W U)⁻¹ (J W U)'  (na × m).
-	var k mat.Dense
-	if err := ch.SolveTo(&k, wu.Slice(na, n, 0, na).T()); err != nil {
-		return nil, fmt.Errorf("reconcile: %w: U' W U for the %s weights: %v", ErrSingular, what, err)
+	k, ok := solveSPD(uwu, wu.Slice(na, n, 0, na).T())
+	if !ok {
+		return nil, fmt.Errorf("reconcile: %w: U' W U is singular or nearly so for the %s weights (for MinT, use the shrinkage estimator)", ErrSingular, what)
 	}
 	// g = J − k' U': g[j, a] = −k[a, j] for aggregates a;
 	// g[j, na+l] = δ_jl + Σ_{a ∋ l} k[a, j].
@@ -256,4 +248,51 @@ func mulSerial(a, b *mat.Dense) *mat.Dense {
 		}
 	}
 	return out
+}
+
+// solveSPD returns M⁻¹ B for a symmetric positive definite M without
+// forming the inverse. It factorises the equilibrated matrix D⁻¹ M D⁻¹,
+// D = diag(√M_ii), by Cholesky, so that the singularity test (failure or a
+// condition estimate above condLimit) does not depend on the units of the
+// series: nodes whose scales differ by many orders of magnitude are fine.
+// It reports false when M is singular or nearly so.
+func solveSPD(m *mat.SymDense, b mat.Matrix) (*mat.Dense, bool) {
+	k := m.SymmetricDim()
+	d := make([]float64, k)
+	for i := range d {
+		v := m.At(i, i)
+		if !(v > 0) || math.IsInf(v, 0) {
+			return nil, false
+		}
+		d[i] = math.Sqrt(v)
+	}
+	r := mat.NewSymDense(k, nil)
+	for i := 0; i < k; i++ {
+		for j := i; j < k; j++ {
+			r.SetSym(i, j, m.At(i, j)/(d[i]*d[j]))
+		}
+	}
+	var ch mat.Cholesky
+	if ok := ch.Factorize(r); !ok || ch.Cond() > condLimit {
+		return nil, false
+	}
+	rows, cols := b.Dims()
+	y := mat.NewDense(rows, cols, nil)
+	for i := 0; i < rows; i++ {
+		row := y.RawRowView(i)
+		for j := range row {
+			row[j] = b.At(i, j) / d[i]
+		}
+	}
+	x := mat.NewDense(rows, cols, nil)
+	if err := ch.SolveTo(x, y); err != nil {
+		return nil, false
+	}
+	for i := 0; i < rows; i++ {
+		row := x.RawRowView(i)
+		for j := range row {
+			row[j] /= d[i]
+		}
+	}
+	return x, true
 }
