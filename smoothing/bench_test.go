@@ -2,7 +2,7 @@ package smoothing
 
 import (
 	"context"
-	"math/rand/v2"
+	"fmt"
 	"testing"
 	"time"
 
@@ -22,7 +22,8 @@ func airPassengers(tb testing.TB) almanac.Series {
 	return almanac.Series{Key: "AirPassengers", Start: time.Date(1949, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly, Values: f.Floats(tb, "dataset.values")}
 }
 
-// BenchmarkFit: one ETS fit on AirPassengers (n = 144, m = 12).
+// BenchmarkFit: one ETS fit on the first n values of AirPassengers
+// (m = 12), by model and length.
 func BenchmarkFit(b *testing.B) {
 	y := airPassengers(b)
 	for _, sp := range []Spec{
@@ -30,14 +31,17 @@ func BenchmarkFit(b *testing.B) {
 		{Trend: AdditiveTrend, Season: AdditiveSeason},
 		{Error: MultiplicativeError, Trend: DampedTrend, Season: MultiplicativeSeason},
 	} {
-		b.Run(sp.String(), func(b *testing.B) {
-			b.ReportAllocs()
-			for b.Loop() {
-				if _, err := sp.fit(context.Background(), y); err != nil {
-					b.Fatal(err)
+		for _, n := range []int{48, 96, 144} {
+			b.Run(fmt.Sprintf("%v/n=%d", sp, n), func(b *testing.B) {
+				yn := y.Head(n)
+				b.ReportAllocs()
+				for b.Loop() {
+					if _, err := sp.fit(context.Background(), yn); err != nil {
+						b.Fatal(err)
+					}
 				}
-			}
-		})
+			})
+		}
 	}
 }
 
@@ -106,8 +110,6 @@ func objectiveFor(tb testing.TB, sp Spec, y almanac.Series) (*problem, []float64
 	p := sp.newProblem(f, y.Slice(), 1)
 	return p, p.start()
 }
-
-var _ = rand.NewPCG
 
 // BenchmarkGradient: one evaluation of the objective with its analytic
 // gradient (ETS(M,Ad,M), n = 144, 17 coordinates).

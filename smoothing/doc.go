@@ -39,19 +39,48 @@
 // instead fixes the first. Both give the same set of fitted values and the
 // same maximum.
 //
+// # Residuals and forecasts
+//
+// Fitted.Residuals are the innovations e_t (relative errors for
+// multiplicative error, the convention of the reference fixtures);
+// Fitted.ResponseResiduals gives y − ŷ for every model. Sigma2 is Σe²/n.
+// Forecast means are the recursion run with zero future errors (the mean
+// for the linear models and classes 2–3; for multiplicative trends it is
+// the usual point forecast, not the mean of the simulated paths).
+// Prediction intervals: classes 1–3 of Hyndman, Koehler, Ord & Snyder
+// (2005) analytically (see IntervalMethod and Fitted.Variance), all other
+// models by simulation with a generator seeded by Spec.Seed
+// (Fitted.Simulate, almanac.Simulator, gives the sample paths on request).
+// Fitted.Update appends observations without re-estimation.
+//
 // # Numerical notes
 //
 // The series is divided by its mean absolute value before estimation (the
-// results are mapped back), so forecasts scale with the data. Smoothing
-// parameters are searched through logistic transforms of the box in
-// Bounds; the admissible region is checked by the Schur–Cohn test on the
-// characteristic polynomial. The optimiser is a restarted Nelder–Mead
-// simplex (see neldermead.go for why it is not gonum's); the likelihood
-// evaluation does not allocate.
+// results are mapped back), so forecasts scale with the data. Bounded
+// smoothing parameters are searched through the periodic map
+// ½(1 + sin u) of their box (Bounds); the admissible region is checked by
+// the Schur–Cohn test on the characteristic polynomial of the discount
+// matrix. Parameters and initial states are estimated jointly, from
+// start values given by a classical decomposition of the first seasons
+// and a line through the first ten adjusted values. The optimiser is
+// BFGS with the exact gradient of the likelihood obtained by reverse-mode
+// (adjoint) differentiation of the recursion, restarted once from its end
+// point, with a restarted Nelder–Mead simplex as the fallback when it does
+// not converge. Both are our own, deterministic and single-goroutine (see
+// neldermead.go for why not gonum/optimize). Neither the likelihood nor
+// its gradient allocates.
 //
-// Prediction intervals: classes 1–3 of Hyndman, Koehler, Ord & Snyder
-// (2005) analytically (see IntervalMethod), all other models by simulation
-// with a generator seeded by Spec.Seed.
+// # Performance
+//
+// Measured with go test -bench on a 2-core AMD EPYC box shared with
+// other jobs, so the figures are indicative: one likelihood evaluation of
+// ETS(M,Ad,M) on 144 monthly values 2.4–3.4 µs, its gradient 5–13 µs, 0
+// allocations; fitting ETS(M,Ad,M) to AirPassengers (n = 144, m = 12)
+// 1.0–1.5 ms; ETS(A,A,A) 0.2–0.4 ms; ETS(A,N,N) 0.03–0.05 ms; Select on
+// the same series (15 candidates) 5–8 ms on one worker, 3–4 ms on two; a
+// 24-step forecast with two analytic interval levels about 4 µs (5000
+// simulated paths for the models without analytic intervals take several
+// milliseconds). Targets: a single fit under 1.5 ms, Select under 15 ms.
 //
 // # Concurrency
 //
@@ -76,6 +105,10 @@
 //     by exponentially weighted moving averages. IJF 20:5–10; Winters, P.R.
 //     (1960). Forecasting sales by exponentially weighted moving averages.
 //     Management Science 6:324–342.
+//   - Nocedal, J. & Wright, S.J. (2006). Numerical Optimization, 2nd ed.
+//     Springer (BFGS, ch. 6; automatic differentiation, ch. 8).
+//   - Schur, I. (1917), Cohn, A. (1922): the step-down test for roots
+//     inside the unit circle.
 //   - Nelder, J.A. & Mead, R. (1965). A simplex method for function
 //     minimization. Computer Journal 7:308–313; Gao, F. & Han, L. (2012).
 //     Implementing the Nelder-Mead simplex algorithm with adaptive

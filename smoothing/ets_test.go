@@ -373,6 +373,10 @@ func TestObjectiveAllocs(t *testing.T) {
 			if a := testing.AllocsPerRun(100, func() { p.objective(x) }); a != 0 {
 				t.Errorf("%v allocations per likelihood evaluation", a)
 			}
+			g := make([]float64, len(x))
+			if a := testing.AllocsPerRun(100, func() { p.objectiveGrad(x, g) }); a != 0 {
+				t.Errorf("%v allocations per gradient evaluation", a)
+			}
 		})
 	}
 }
@@ -650,4 +654,46 @@ func shifted(y almanac.Series, d float64) almanac.Series {
 		y.Values[i] += d
 	}
 	return y
+}
+
+// TestBoundsRegions: estimates respect the chosen region, and the
+// admissible fits are admissible.
+func TestBoundsRegions(t *testing.T) {
+	y := airPassengers(t)
+	for _, b := range []Bounds{UsualBounds, AdmissibleBounds, BothBounds} {
+		for _, sp := range []Spec{{Trend: DampedTrend, Season: AdditiveSeason}, {Error: MultiplicativeError, Trend: AdditiveTrend, Season: MultiplicativeSeason}, {Trend: AdditiveTrend}} {
+			sp.Bounds = b
+			t.Run(sp.String()+"/"+b.String(), func(t *testing.T) {
+				fit, err := sp.fit(ctx, y)
+				if err != nil {
+					t.Fatal(err)
+				}
+				p := fit.Params
+				if b != AdmissibleBounds {
+					if !(p.Alpha >= boxLo && p.Alpha <= boxHi) || (sp.Trend != NoTrend && !(p.Beta >= 0 && p.Beta <= p.Alpha)) || (sp.Season != NoSeason && !(p.Gamma >= 0 && p.Gamma <= 1-p.Alpha)) {
+						t.Errorf("%+v outside the usual bounds", p)
+					}
+				}
+				if b != UsualBounds && !admissible(fit.f, p) {
+					t.Errorf("%+v not admissible", p)
+				}
+				if sp.Trend.damped() && !(p.Phi >= phiLo && p.Phi <= phiHi) {
+					t.Errorf("phi %v outside [0.8, 0.98]", p.Phi)
+				}
+				t.Logf("%+v loglik %.4f", p, fit.LogLik)
+			})
+		}
+	}
+}
+
+// TestCancel: a cancelled context stops the fit with its error.
+func TestCancel(t *testing.T) {
+	c, cancel := context.WithCancel(context.Background())
+	cancel()
+	y := airPassengers(t)
+	for _, m := range []almanac.Model{Spec{Trend: AdditiveTrend}, Select{}} {
+		if _, err := m.Fit(c, y); !errors.Is(err, context.Canceled) {
+			t.Errorf("%T: error %v, want context.Canceled", m, err)
+		}
+	}
 }

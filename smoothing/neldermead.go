@@ -8,10 +8,12 @@ import (
 // Why not gonum/optimize: gonum.org/v1/gonum/optimize imports
 // gonum/stat/distmv, which needs golang.org/x/tools, and the module's
 // go.sum does not carry it, so the package cannot be built here without a
-// go.mod change. Until it is added, this file holds a plain Nelder–Mead
-// simplex search (Nelder & Mead 1965) with the dimension-dependent
-// coefficients of Gao & Han (2012), the same choice gonum's NelderMead
-// makes. It is deterministic and single-goroutine.
+// go.mod change. The optimisers are therefore our own: BFGS with an
+// adjoint gradient (quasinewton.go, adjoint.go) as the main search, and
+// this plain Nelder–Mead simplex search (Nelder & Mead 1965) with the
+// dimension-dependent coefficients of Gao & Han (2012), the same choice
+// gonum's NelderMead makes, as the fallback. Both are deterministic and
+// single-goroutine.
 
 // simplex is the state of one Nelder–Mead search, reused across restarts.
 type simplex struct {
