@@ -5,11 +5,15 @@ import "math"
 // cssWork is the workspace of the conditional-sum-of-squares objective.
 type cssWork struct {
 	w, resid []float64
+	phiIdx   []int // non-zero entries of phi and theta
+	thetaIdx []int
 }
 
-func (c *cssWork) resize(n int) {
+func (c *cssWork) resize(n, p, q int) {
 	c.w = grow(c.w, n)
 	c.resid = grow(c.resid, n)
+	c.phiIdx = make([]int, 0, p)
+	c.thetaIdx = make([]int, 0, q)
 }
 
 // cssResiduals computes the conditional residuals of the
@@ -37,13 +41,27 @@ func (c *cssWork) cssResiduals(y, phi, theta []float64, d, sd, s, ncond int) (ss
 	for l := 0; l < ncond && l < n; l++ {
 		resid[l] = 0
 	}
-	p, q := len(phi), len(theta)
+	c.phiIdx, c.thetaIdx = c.phiIdx[:0], c.thetaIdx[:0]
+	for j, v := range phi {
+		if v != 0 {
+			c.phiIdx = append(c.phiIdx, j)
+		}
+	}
+	for j, v := range theta {
+		if v != 0 {
+			c.thetaIdx = append(c.thetaIdx, j)
+		}
+	}
 	for l := ncond; l < n; l++ {
 		tmp := w[l]
-		for j := 0; j < p; j++ {
+		for _, j := range c.phiIdx {
 			tmp -= phi[j] * w[l-j-1]
 		}
-		for j := 0; j < min(l-ncond, q); j++ {
+		lim := l - ncond // residuals before ncond count as zero
+		for _, j := range c.thetaIdx {
+			if j >= lim {
+				break
+			}
 			tmp -= theta[j] * resid[l-j-1]
 		}
 		resid[l] = tmp

@@ -89,7 +89,7 @@ func newProblem(lay *layout, y []float64, x [][]float64, fixed map[string]float6
 	pr.w = make([]float64, pr.n)
 	pr.work = make([]float64, max(lay.p, lay.sp))
 	pr.kal.resize(pf, qf, lay.delta())
-	pr.css.resize(pr.n)
+	pr.css.resize(pr.n, pf, qf)
 	return pr
 }
 

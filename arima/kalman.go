@@ -641,8 +641,12 @@ func (k *kalman) predictARMA() {
 		for j := 0; j < r; j++ {
 			src := P[st*(j+1)+j+1 : st*(j+1)+1+r]
 			dst := Pnew[st*j+j : st*j+r]
-			rr := rv[j:r]
 			rj := rv[j]
+			if rj == 0 {
+				copy(dst, src)
+				continue
+			}
+			rr := rv[j:r]
 			for i, v := range src {
 				dst[i] = v + rr[i]*rj
 			}
