@@ -567,6 +567,17 @@ func TestBadInput(t *testing.T) {
 	if _, err := fit.Forecast(3, 100); !errors.Is(err, almanac.ErrLevel) {
 		t.Errorf("level 100: %v", err)
 	}
+	var zero Fitted
+	if _, err := zero.Forecast(3); !errors.Is(err, almanac.ErrNotFitted) {
+		t.Errorf("zero Fitted: %v", err)
+	}
+	if _, err := zero.Update([]float64{1}); !errors.Is(err, almanac.ErrNotFitted) {
+		t.Errorf("zero Fitted, Update: %v", err)
+	}
+	var zeroHW HoltWintersFit
+	if _, err := zeroHW.Forecast(3); !errors.Is(err, almanac.ErrNotFitted) {
+		t.Errorf("zero HoltWintersFit: %v", err)
+	}
 }
 
 // TestConstantSeries: a constant series still forecasts (no optimiser

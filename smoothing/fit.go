@@ -422,6 +422,9 @@ func (m *Fitted) NumParams() int { return m.free }
 //
 // newY must be finite (and positive for multiplicative components).
 func (m *Fitted) Update(newY []float64) (*Fitted, error) {
+	if err := m.usable(); err != nil {
+		return nil, err
+	}
 	all := almanac.Series{Key: m.series.Key, Start: m.series.Start, Freq: m.series.Freq,
 		Values: append(slices.Clone(m.series.Values), newY...)}
 	if _, err := m.spec.resolve(all); err != nil {

@@ -145,6 +145,9 @@ func (m *Fitted) cj(j int, withSeason bool) float64 {
 // TestAnalyticVarianceBySimulation (class 2 exact, class 3 within the
 // approximation).
 func (m *Fitted) Variance(H int) ([]float64, error) {
+	if err := m.usable(); err != nil {
+		return nil, err
+	}
 	if err := almanac.CheckHorizon(H); err != nil {
 		return nil, fmt.Errorf("smoothing: %w", err)
 	}
@@ -209,6 +212,9 @@ func (m *Fitted) Variance(H int) ([]float64, error) {
 // Special cases: h < 1 wraps almanac.ErrHorizon; a level outside (0, 100)
 // wraps almanac.ErrLevel.
 func (m *Fitted) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	if err := m.usable(); err != nil {
+		return almanac.Forecast{}, err
+	}
 	if err := almanac.CheckHorizon(h); err != nil {
 		return almanac.Forecast{}, fmt.Errorf("smoothing: %w", err)
 	}
@@ -254,6 +260,9 @@ func (m *Fitted) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
 // same paths. A path that leaves the model's domain (a non-positive
 // forecast with multiplicative components) is continued with NaN.
 func (m *Fitted) Simulate(h, n int, src rand.Source) ([][]float64, error) {
+	if err := m.usable(); err != nil {
+		return nil, err
+	}
 	if err := almanac.CheckHorizon(h); err != nil {
 		return nil, fmt.Errorf("smoothing: %w", err)
 	}
@@ -342,4 +351,13 @@ func (m *Fitted) Simulate(h, n int, src rand.Source) ([][]float64, error) {
 		}
 	}
 	return paths, nil
+}
+
+// usable reports an error wrapping almanac.ErrNotFitted for a Fitted that
+// did not come from Fit or Update (e.g. a zero value).
+func (m *Fitted) usable() error {
+	if m == nil || m.f.m < 1 || m.series.Len() == 0 {
+		return fmt.Errorf("smoothing: %w: use the value returned by Fit", almanac.ErrNotFitted)
+	}
+	return nil
 }

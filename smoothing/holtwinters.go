@@ -252,6 +252,9 @@ func (f *HoltWintersFit) Variance(H int) []float64 {
 // Forecast returns (a + h·b) (+) s forecasts with Gaussian intervals of
 // variance Variance(h) (R's predict.HoltWinters).
 func (f *HoltWintersFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	if f == nil || f.m < 2 || len(f.S) != f.m {
+		return almanac.Forecast{}, fmt.Errorf("smoothing: %w: use the value returned by Fit", almanac.ErrNotFitted)
+	}
 	if err := almanac.CheckHorizon(h); err != nil {
 		return almanac.Forecast{}, fmt.Errorf("smoothing: %w", err)
 	}
