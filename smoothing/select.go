@@ -236,6 +236,9 @@ func (s Select) search(ctx context.Context, y almanac.Series) (*Fitted, []Candid
 		return nil, nil, err
 	}
 	if len(specs) == 0 {
+		if y.Len() <= (Spec{}).df(1)+1 {
+			return nil, nil, fmt.Errorf("smoothing: select: %w: %w: %d observations, even ETS(A,N,N) needs %d", ErrNoCandidate, almanac.ErrTooShort, y.Len(), (Spec{}).df(1)+2)
+		}
 		return nil, nil, fmt.Errorf("smoothing: select: %w: no candidate model suits %d observations with the given restrictions", ErrNoCandidate, y.Len())
 	}
 	cands := make([]Candidate, len(specs))
