@@ -239,9 +239,10 @@ func limit(v, def int) int {
 // Special cases:
 //   - an invalid series (empty, all missing, ±Inf) gives the error of
 //     almanac.Series.Validate; a constant series almanac.ErrConstant;
-//   - too few observations to choose d gives almanac.ErrTooShort; a
-//     series too short for seasonal differencing is searched without
-//     seasonal terms;
+//   - too few observations to choose d, or fewer than 4 (3 when no
+//     constant is considered) left after differencing, give
+//     almanac.ErrTooShort; a series with no more than two full periods of
+//     observed values is searched without seasonal terms;
 //   - a negative MaxOrder, an unknown Criterion or Approximation, or a D
 //     or SD below NoDifferencing wrap almanac.ErrInvalid;
 //   - when no candidate can be fitted the error wraps almanac.ErrNotFitted
@@ -335,6 +336,17 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 		pl.constOK = !s.NoMean
 	case 1:
 		pl.constOK = !s.NoDrift
+	}
+	// The simplest candidates (white noise, with the constant when one is
+	// allowed) need n − k − 2 ≥ 1 for a finite AICc; with fewer
+	// observations the models cannot be compared, and choosing the
+	// zero-mean model by default would be a silent wrong answer.
+	need := 3
+	if pl.constOK {
+		need = 4
+	}
+	if used := nObs - pl.d - pl.period*pl.sd; used < need {
+		return nil, fmt.Errorf("arima: search: %w: %d observed values leave %d after differencing (d = %d, D = %d); comparing models needs at least %d", almanac.ErrTooShort, nObs, used, pl.d, pl.sd, need)
 	}
 
 	// Likelihood used while searching.

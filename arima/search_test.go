@@ -255,11 +255,15 @@ func TestSearchBadInput(t *testing.T) {
 		wants []error
 	}{
 		{"too short", context.Background(), arima.Search{}, yearly("short", []float64{1, 2}), []error{almanac.ErrTooShort}},
+		{"three values", context.Background(), arima.Search{}, yearly("three", []float64{10, 12, 11}), []error{almanac.ErrTooShort}},
+		{"four values, two missing", context.Background(), arima.Search{}, yearly("gappy", []float64{10, nan, 12, nan, 11}), []error{almanac.ErrTooShort}},
 		{"all missing", context.Background(), arima.Search{}, yearly("gaps", []float64{nan, nan, nan, nan}), []error{almanac.ErrAllMissing}},
 		{"constant", context.Background(), arima.Search{}, yearly("flat", []float64{3, 3, 3, 3, 3, 3, 3, 3}), []error{almanac.ErrConstant}},
 		{"infinite", context.Background(), arima.Search{}, yearly("inf", []float64{1, 2, math.Inf(1), 4, 5}), []error{almanac.ErrNonFinite}},
 		{"empty", context.Background(), arima.Search{}, yearly("empty", nil), []error{almanac.ErrEmpty}},
-		{"nothing fits", context.Background(), arima.Search{D: 4}, yearly("five", []float64{1, 4, 2, 8, 5}),
+		// Only the first starting model, (2,0,2) with mean, is tried, and
+		// six values are too few for its five coefficients.
+		{"nothing fits", context.Background(), arima.Search{D: arima.NoDifferencing, MaxModels: 1}, yearly("six", []float64{1, 4, 2, 8, 5, 7}),
 			[]error{almanac.ErrNotFitted, almanac.ErrTooShort}},
 		{"negative MaxOrder", context.Background(), arima.Search{MaxOrder: -1}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
 		{"bad D", context.Background(), arima.Search{D: -2}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
