@@ -437,6 +437,7 @@ type BoxCoxFit struct {
 	bias      bool
 	inner     Fitted
 	fitted    []float64
+	response  []float64 // y − fitted on the original scale
 }
 
 // Fit implements Model.
@@ -480,7 +481,11 @@ func (b BoxCox) Fit(ctx context.Context, y Series) (Fitted, error) {
 		return nil, err
 	}
 	fv, _ := BoxCoxInverse(nil, inner.FittedValues(), lam)
-	return &BoxCoxFit{lambda: lam, estimated: b.Method != LambdaFixed, bias: b.BiasAdjust, inner: inner, fitted: fv}, nil
+	resp := make([]float64, len(fv))
+	for i, v := range y.Values {
+		resp[i] = v - fv[i]
+	}
+	return &BoxCoxFit{lambda: lam, estimated: b.Method != LambdaFixed, bias: b.BiasAdjust, inner: inner, fitted: fv, response: resp}, nil
 }
 
 // Lambda returns the λ used.
@@ -503,6 +508,10 @@ func (f *BoxCoxFit) FittedValues() []float64 { return append([]float64(nil), f.f
 // scale: they are the model's innovations, which residual diagnostics
 // need. Compute y − FittedValues() for errors on the original scale.
 func (f *BoxCoxFit) Residuals() []float64 { return f.inner.Residuals() }
+
+// ResponseResiduals implements ResponseResidualer: y − FittedValues() on
+// the original scale.
+func (f *BoxCoxFit) ResponseResiduals() []float64 { return append([]float64(nil), f.response...) }
 
 // NumParams implements ParamCounter: the inner model's count (0 when it
 // does not report one) plus one when λ was estimated.

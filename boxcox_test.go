@@ -6,8 +6,10 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+	"time"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
 	"github.com/almanac-go/almanac/internal/numtest"
 	"github.com/almanac-go/almanac/internal/reftest"
 )
@@ -404,4 +406,27 @@ func mustLLF(t *testing.T, y []float64, lambda float64) float64 {
 		t.Fatal(err)
 	}
 	return v
+}
+
+// TestBoxCoxResponseResiduals: the response residuals are y minus the
+// back-transformed fitted values, whatever the scale of Residuals.
+func TestBoxCoxResponseResiduals(t *testing.T) {
+	y := almanac.Series{Key: "r", Start: time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly,
+		Values: []float64{12, 15, 14, 18, 21, 19, 25, 28, 26, 31, 35, 33}}
+	f, err := almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaFixed, Lambda: 0}.Fit(context.Background(), y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fv := f.FittedValues()
+	got := almanac.ResponseResiduals(f)
+	for i, v := range y.Values {
+		want := v - fv[i]
+		if !(math.IsNaN(want) && math.IsNaN(got[i])) && got[i] != want {
+			t.Errorf("response residual %d = %v, want %v", i, got[i], want)
+		}
+	}
+	// Naive on the log scale: fitted value i is y[i-1], so residual 1 is 3.
+	if got[1] != 3 {
+		t.Errorf("response residual 1 = %v, want 3 (15 − 12)", got[1])
+	}
 }

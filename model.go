@@ -59,3 +59,24 @@ type Simulator interface {
 type ParamCounter interface {
 	NumParams() int
 }
+
+// ResponseResidualer is implemented by fitted models whose Residuals are
+// not on the scale of the data — multiplicative-error models give relative
+// errors, transformed models errors on the transformed scale.
+// ResponseResiduals returns y − fitted on the data's scale (NaN where
+// undefined). Methods that combine errors of several series, such as
+// forecast reconciliation, need that scale; use the ResponseResiduals
+// function, which falls back to Residuals.
+type ResponseResidualer interface {
+	ResponseResiduals() []float64
+}
+
+// ResponseResiduals returns f's in-sample errors y − fitted on the scale
+// of the data: f.ResponseResiduals() when f implements
+// ResponseResidualer, f.Residuals() otherwise.
+func ResponseResiduals(f Fitted) []float64 {
+	if r, ok := f.(ResponseResidualer); ok {
+		return r.ResponseResiduals()
+	}
+	return f.Residuals()
+}

@@ -20,7 +20,10 @@ func HistoryMatrix(st Structure, series []almanac.Series) (*mat.Dense, error) {
 
 // ResidualMatrix stacks the in-sample residuals of fitted base models (one
 // per node, in the structure's order) into a T × n matrix for
-// Spec.Residuals. All models must have been fitted to series of the same
+// Spec.Residuals. The residuals are taken on the data's scale
+// (almanac.ResponseResiduals: y − fitted even for multiplicative-error or
+// transformed models), since reconciliation combines errors of series
+// that add up. All models must have been fitted to series of the same
 // length; NaN residuals (e.g. the first one of a naive model) are kept and
 // their rows are later dropped.
 func ResidualMatrix(st Structure, fits []almanac.Fitted) (*mat.Dense, error) {
@@ -29,7 +32,7 @@ func ResidualMatrix(st Structure, fits []almanac.Fitted) (*mat.Dense, error) {
 		if f == nil {
 			return nil, fmt.Errorf("reconcile: %w: fitted model %d is nil", almanac.ErrInvalid, i)
 		}
-		cols[i] = f.Residuals()
+		cols[i] = almanac.ResponseResiduals(f)
 	}
 	return columns(st, cols, "residual series")
 }
