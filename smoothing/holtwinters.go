@@ -33,6 +33,12 @@ type HoltWinters struct {
 	// Multiplicative selects multiplicative seasonality; the zero value
 	// is additive.
 	Multiplicative bool
+	// Estimate chooses Alpha, Beta and Gamma in [0, 1] by minimising the
+	// sum of squared one-step errors (as R's HoltWinters does when the
+	// constants are not given), starting from 0.3, 0.1, 0.1; the given
+	// constants are then ignored. The estimates are in Fit's result
+	// (HoltWintersFit.Constants).
+	Estimate bool
 	// Period is the seasonal period; 0 takes it from the series.
 	Period int
 }
@@ -147,31 +153,14 @@ func (h HoltWinters) fit(ctx context.Context, y almanac.Series) (*HoltWintersFit
 	out.Season = make([]float64, cnt)
 	out.xhat = make([]float64, cnt)
 	seas := make([]float64, n) // seas[i] = seasonal state of observation i (0-based)
-	copy(seas, dec.Figure)
-	level, trend := out.StartLevel, out.StartSlope
-	a, b, g := h.Alpha, h.Beta, h.Gamma
-	for i := m; i < n; i++ {
-		s := seas[i-m]
-		k := i - m
-		out.Level[k], out.Slope[k], out.Season[k] = level, trend, s
-		var xh, lv float64
-		if h.Multiplicative {
-			xh = (level + trend) * s
-			lv = a*(x[i]/s) + (1-a)*(level+trend)
-		} else {
-			xh = level + trend + s
-			lv = a*(x[i]-s) + (1-a)*(level+trend)
+	if h.Estimate {
+		if err := h.estimate(ctx, x, m, out, seas); err != nil {
+			return nil, err
 		}
-		out.xhat[k] = xh
-		out.SSE += (x[i] - xh) * (x[i] - xh)
-		tr := b*(lv-level) + (1-b)*trend
-		if h.Multiplicative {
-			seas[i] = g*(x[i]/lv) + (1-g)*s
-		} else {
-			seas[i] = g*(x[i]-lv) + (1-g)*s
-		}
-		level, trend = lv, tr
+		h = out.spec
 	}
+	var level, trend float64
+	out.SSE, level, trend = hwRun(x, m, h.Multiplicative, h.Alpha, h.Beta, h.Gamma, out.StartLevel, out.StartSlope, out.StartSeason, seas, out)
 	out.A, out.B = level, trend
 	out.S = slices.Clone(seas[n-m:])
 	mean := 0.0
@@ -186,6 +175,82 @@ func (h HoltWinters) fit(ctx context.Context, y almanac.Series) (*HoltWintersFit
 	}
 	out.ResidualVariance = ss / float64(cnt-1)
 	return out, nil
+}
+
+// Constants returns the smoothing constants used (estimated when
+// HoltWinters.Estimate is set).
+func (f *HoltWintersFit) Constants() (alpha, beta, gamma float64) {
+	return f.spec.Alpha, f.spec.Beta, f.spec.Gamma
+}
+
+// hwRun runs R's Holt-Winters recursion from observation m+1 (1-based)
+// with the start values, writing the seasonal states into seas (length n)
+// and, when out is not nil, the per-observation records. It returns the
+// SSE and the final level and slope.
+func hwRun(x []float64, m int, mult bool, a, b, g, l0, b0 float64, s0, seas []float64, out *HoltWintersFit) (sse, level, trend float64) {
+	copy(seas, s0)
+	level, trend = l0, b0
+	for i := m; i < len(x); i++ {
+		s := seas[i-m]
+		k := i - m
+		var xh, lv float64
+		if mult {
+			xh = (level + trend) * s
+			lv = a*(x[i]/s) + (1-a)*(level+trend)
+		} else {
+			xh = level + trend + s
+			lv = a*(x[i]-s) + (1-a)*(level+trend)
+		}
+		if out != nil {
+			out.Level[k], out.Slope[k], out.Season[k] = level, trend, s
+			out.xhat[k] = xh
+		}
+		sse += (x[i] - xh) * (x[i] - xh)
+		tr := b*(lv-level) + (1-b)*trend
+		if mult {
+			seas[i] = g*(x[i]/lv) + (1-g)*s
+		} else {
+			seas[i] = g*(x[i]-lv) + (1-g)*s
+		}
+		level, trend = lv, tr
+	}
+	return sse, level, trend
+}
+
+// estimate minimises the SSE over the constants in [0, 1]³ (through the
+// periodic map of squash) with the restarted simplex search, and stores
+// the result in out.spec.
+func (h HoltWinters) estimate(ctx context.Context, x []float64, m int, out *HoltWintersFit, seas []float64) error {
+	sse := func(u []float64) float64 {
+		v, _, _ := hwRun(x, m, h.Multiplicative, squash(u[0]), squash(u[1]), squash(u[2]), out.StartLevel, out.StartSlope, out.StartSeason, seas, nil)
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return penalty
+		}
+		return v
+	}
+	u := []float64{unsquash(0.3), unsquash(0.1), unsquash(0.1)}
+	fu := sse(u)
+	sx := newSimplex(3)
+	steps := []float64{0.5, 0.5, 0.5}
+	for restart := 0; restart < 6; restart++ {
+		f, _, err := sx.nelderMead(ctx, sse, u, fu, steps, 1e-10, 3000)
+		if err != nil {
+			return fmt.Errorf("smoothing: %v: %w", h, err)
+		}
+		improved := fu - f
+		fu = f
+		if !(improved > 1e-10*math.Abs(f)) {
+			break
+		}
+		for i := range steps {
+			steps[i] *= 0.5
+		}
+	}
+	if fu >= penalty {
+		return fmt.Errorf("smoothing: %v: %w: no constants give a finite sum of squares", h, almanac.ErrNotFitted)
+	}
+	out.spec.Alpha, out.spec.Beta, out.spec.Gamma = squash(u[0]), squash(u[1]), squash(u[2])
+	return nil
 }
 
 // String returns the method's name with its seasonal form.

@@ -305,3 +305,30 @@ func checkHoltWinters(t *testing.T, f *reftest.Fixture) {
 	numtest.Slice(t, "upr", fc.Intervals[0].Upper, f.Floats(t, "expect.predict.upr"), a, r)
 	numtest.Slice(t, "lwr", fc.Intervals[0].Lower, f.Floats(t, "expect.predict.lwr"), a, r)
 }
+
+// TestHoltWintersEstimate: the fixtures' constants are R's SSE-optimal
+// values rounded (shared reference README, "R HoltWinters"), so the SSE at
+// our estimated constants must not exceed the fixture's SSE (R 4.2.2
+// stats::HoltWinters at those constants), with the fixture's SSE tolerance.
+func TestHoltWintersEstimate(t *testing.T) {
+	for _, file := range []string{"hw_airpassengers_additive", "hw_airpassengers_multiplicative", "hw_co2_additive", "hw_co2_multiplicative"} {
+		t.Run(file, func(t *testing.T) {
+			f, err := reftest.Load("testdata/reference/" + file + ".json")
+			if err != nil {
+				t.Fatal(err)
+			}
+			hw := HoltWinters{Estimate: true, Multiplicative: f.String("spec.seasonal") == "multiplicative", Period: int(f.Float(t, "spec.period"))}
+			fit, err := hw.fit(context.Background(), fixtureSeries(t, f))
+			if err != nil {
+				t.Fatal(err)
+			}
+			ref := f.Float(t, "expect.SSE")
+			_, rel, _ := f.Tol("SSE")
+			a, b, g := fit.Constants()
+			t.Logf("estimated α=%.4f β=%.4f γ=%.4f SSE %.6g; R at α=%v β=%v γ=%v: %.6g", a, b, g, fit.SSE, f.Float(t, "spec.alpha"), f.Float(t, "spec.beta"), f.Float(t, "spec.gamma"), ref)
+			if fit.SSE > ref*(1+rel) {
+				t.Errorf("SSE %.10g above R's %.10g at its (rounded) optimal constants", fit.SSE, ref)
+			}
+		})
+	}
+}
