@@ -1,7 +1,7 @@
 // Package smoothing implements exponential smoothing: the ETS
 // error/trend/season state-space family estimated by maximum likelihood
 // (Spec), automatic model selection (Select), and classical Holt-Winters
-// with fixed constants (HoltWinters).
+// as R's stats::HoltWinters computes it (HoltWinters).
 //
 // A Spec names one model of the taxonomy — error additive (A) or
 // multiplicative (M); trend none (N), additive (A), additive damped (Ad),

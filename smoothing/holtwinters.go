@@ -16,14 +16,15 @@ var (
 )
 
 // HoltWinters is the classical Holt-Winters seasonal method (Holt 1957;
-// Winters 1960) in its error-correction form with fixed smoothing
-// constants, computed exactly as R's stats::HoltWinters with
+// Winters 1960) in its error-correction form, computed exactly as R's
+// stats::HoltWinters with
 // start.periods = 2: start values from a classical decomposition of the
 // first two seasons (trend regressed on time for the level and slope),
 // the recursion from observation m+1, and R's prediction-interval formula
 // (predict.HoltWinters). Unlike Spec it is not a statistical model: the
-// constants are used as given (not estimated) and the intervals follow
-// R's ψ-weight formula with the sample variance of the one-step errors.
+// constants are used as given, or chosen by least squares when Estimate
+// is set, and the intervals follow R's ψ-weight formula with the sample
+// variance of the one-step errors.
 //
 // A HoltWinters value is immutable and safe to share between goroutines.
 type HoltWinters struct {
