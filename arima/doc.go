@@ -88,6 +88,38 @@
 // state). Results are deterministic: the same input gives bit-identical
 // output, whatever else runs.
 //
+// # Performance
+//
+// Measured with the package benchmarks (go test -bench . -cpu 1) on a
+// 2-core machine shared with other jobs (load average 7–10 while
+// measuring), so the figures are indicative; the lower ends are the
+// quieter runs:
+//
+//   - airline model (0,1,1)(0,1,1)[12] on log air passengers, 144 monthly
+//     values: CSS then ML (the default) 1.2–1.6 ms per fit, ML from zero
+//     coefficients 1.9–4.7 ms, CSS alone 0.14–0.27 ms, about 68 kB and 180
+//     allocations per fit (R's arima takes about 19 ms for this fit, as
+//     reported in the issue; not measured here);
+//   - one exact likelihood evaluation of that model: 33–60 µs at n = 144,
+//     150 µs at n = 576, with 0 allocations (TestNoAllocPerLikelihood
+//     asserts it, with and without missing values);
+//   - ARIMA(1,1,1) with drift, CSS then ML: 0.5 ms at n = 144, 32 ms at
+//     n = 14 400.
+//
+// The likelihood is cheap because only the first d + sD observations go
+// through the full state (in closed form, see below); after them the
+// differencing states are observed values and the filter runs on the r
+// ARMA states alone, on one triangle of the covariance matrix, with the
+// sparsity of the seasonal polynomials exploited. With missing values in
+// a differenced model the full filter runs throughout (a few times
+// slower).
+//
+// The closed form: the first d + sD observations z = W + Bψ only fix the
+// pre-sample values ψ (prior N(0, κI)), so the filtered ARMA state after
+// them is N(C S⁻¹z, Q0 − C S⁻¹C') with S = Γ_W + κBB' — the value R's
+// sequential filter reaches, at a fraction of the cost (the reference
+// test checks it against R's log-likelihoods to 1e-9).
+//
 // # References
 //
 //   - Box, G.E.P., Jenkins, G.M., Reinsel, G.C. (1994). Time Series
