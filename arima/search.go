@@ -159,6 +159,12 @@ type Search struct {
 	// MaxModels bounds the number of models a stepwise search fits (0
 	// means 100); the result records whether the bound was reached.
 	MaxModels int
+	// Regressors, when given, make every candidate a regression with
+	// ARIMA errors (see Spec.Regressors); the orders of differencing are
+	// then chosen on the residuals of the least-squares regression of y
+	// on a constant and the regressors, and forecasts need future values
+	// (SearchResult.ForecastWith).
+	Regressors []Regressor
 }
 
 var _ almanac.Model = Search{}
@@ -222,6 +228,7 @@ type searchPlan struct {
 	method                   Method
 	crit                     Criterion
 	maxModels                int
+	regs                     []Regressor
 }
 
 func limit(v, def int) int {
@@ -245,6 +252,9 @@ func limit(v, def int) int {
 //     observed values is searched without seasonal terms;
 //   - a negative MaxOrder, an unknown Criterion or Approximation, or a D
 //     or SD below NoDifferencing wrap almanac.ErrInvalid;
+//   - regressors of the wrong length wrap almanac.ErrLength, non-finite
+//     regressor values almanac.ErrNonFinite, regressors linearly dependent
+//     with each other or the constant ErrCollinear;
 //   - when no candidate can be fitted the error wraps almanac.ErrNotFitted
 //     and the first candidate's error; there is never a silent fallback.
 func (s Search) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
@@ -284,6 +294,16 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 		pl.maxOrder = DefaultMaxOrder
 	}
 
+	// The series whose differencing is chosen: y itself, or the residuals
+	// of its regression on the regressors.
+	base := y.Values
+	if len(s.Regressors) > 0 {
+		var err error
+		if base, err = regressionResiduals(y.Values, s.Regressors); err != nil {
+			return nil, err
+		}
+	}
+
 	// Seasonal period and seasonal differencing.
 	nObs := y.Len() - y.Missing()
 	pl.period = s.Period
@@ -303,11 +323,11 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 		pl.sd = s.SD
 	case s.SD == 0 && seasonal:
 		var err error
-		strength, err = SeasonalStrength(y.Values, pl.period, s.SeasonalDifferencing.Span)
+		strength, err = SeasonalStrength(base, pl.period, s.SeasonalDifferencing.Span)
 		if err != nil {
 			return nil, fmt.Errorf("arima: search: choosing D: %w", err)
 		}
-		pl.sd, err = SeasonalDifferences(y.Values, pl.period, s.SeasonalDifferencing)
+		pl.sd, err = SeasonalDifferences(base, pl.period, s.SeasonalDifferencing)
 		if err != nil {
 			return nil, fmt.Errorf("arima: search: choosing D: %w", err)
 		}
@@ -321,7 +341,7 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 	case s.D > 0:
 		pl.d = s.D
 	case s.D == 0:
-		w := append([]float64(nil), y.Values...)
+		w := append([]float64(nil), base...)
 		for range pl.sd {
 			w = selDiff(w, pl.period)
 		}
@@ -341,9 +361,9 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 	// allowed) need n − k − 2 ≥ 1 for a finite AICc; with fewer
 	// observations the models cannot be compared, and choosing the
 	// zero-mean model by default would be a silent wrong answer.
-	need := 3
+	need := 3 + len(s.Regressors)
 	if pl.constOK {
-		need = 4
+		need++
 	}
 	if used := nObs - pl.d - pl.period*pl.sd; used < need {
 		return nil, fmt.Errorf("arima: search: %w: %d observed values leave %d after differencing (d = %d, D = %d); comparing models needs at least %d", almanac.ErrTooShort, nObs, used, pl.d, pl.sd, need)
@@ -362,6 +382,7 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 		}
 	}
 
+	pl.regs = s.Regressors
 	res := &SearchResult{Criterion: s.Criterion, Approximated: pl.method == CSS, Exhaustive: s.Exhaustive, SeasonalStrength: strength}
 	var fits []*Fitted
 	var err error
@@ -380,13 +401,69 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 	return pl.finish(ctx, y, res, fits)
 }
 
+// regressionResiduals returns the residuals of the least-squares
+// regression of y on a constant and the regressors, over the observed
+// values of y (NaN where y is missing).
+func regressionResiduals(y []float64, regs []Regressor) ([]float64, error) {
+	n := len(y)
+	for _, r := range regs {
+		if len(r.Values) != n {
+			return nil, fmt.Errorf("arima: search: %w: regressor %q has %d values, the series %d", almanac.ErrLength, r.Name, len(r.Values), n)
+		}
+		for i, v := range r.Values {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return nil, fmt.Errorf("arima: search: %w: regressor %q at index %d is %v", almanac.ErrNonFinite, r.Name, i, v)
+			}
+		}
+	}
+	var rows []int
+	for t, v := range y {
+		if !math.IsNaN(v) {
+			rows = append(rows, t)
+		}
+	}
+	k := len(regs) + 1
+	if len(rows) <= k {
+		return nil, fmt.Errorf("arima: search: %w: %d observed values for a constant and %d regressors", almanac.ErrTooShort, len(rows), len(regs))
+	}
+	x := mat.NewDense(len(rows), k, nil)
+	yv := mat.NewVecDense(len(rows), nil)
+	for i, t := range rows {
+		x.Set(i, 0, 1)
+		for j, r := range regs {
+			x.Set(i, j+1, r.Values[t])
+		}
+		yv.SetVec(i, y[t])
+	}
+	var qr mat.QR
+	qr.Factorize(x)
+	var b mat.VecDense
+	if err := qr.SolveVecTo(&b, false, yv); err != nil {
+		return nil, fmt.Errorf("arima: search: %w: the regressors and the constant are linearly dependent: %v", ErrCollinear, err)
+	}
+	var cond mat.SVD
+	if cond.Factorize(x, mat.SVDNone) {
+		if v := cond.Values(nil); v[len(v)-1] <= 1e-10*v[0] {
+			return nil, fmt.Errorf("arima: search: %w: the regressors and the constant are (nearly) linearly dependent", ErrCollinear)
+		}
+	}
+	out := make([]float64, n)
+	for t := range out {
+		out[t] = math.NaN()
+	}
+	for i, t := range rows {
+		out[t] = y[t] - mat.Dot(x.RowView(i), &b)
+	}
+	return out, nil
+}
+
 // spec returns the candidate Spec for the given orders.
 func (pl *searchPlan) spec(p, q, sp, sq int, constant bool) Spec {
 	c := ConstantNone
 	if constant {
 		c = ConstantInclude
 	}
-	return Spec{P: p, D: pl.d, Q: q, SP: sp, SD: pl.sd, SQ: sq, Period: pl.period, Constant: c, Method: pl.method}
+	return Spec{P: p, D: pl.d, Q: q, SP: sp, SD: pl.sd, SQ: sq, Period: pl.period, Constant: c, Method: pl.method, Regressors: pl.regs}
 }
 
 // evaluate fits one candidate and scores it.

@@ -243,6 +243,78 @@ func TestSearchApproximate(t *testing.T) {
 	}
 }
 
+// TestSearchRegressors: regression with ARIMA errors and automatic orders
+// on invented data (a monthly series with AR(1) errors and a promotion
+// effect of 30 in the promoted months). The check is a property of
+// least squares: the estimate is within three standard errors of the
+// effect used to generate the data.
+func TestSearchRegressors(t *testing.T) {
+	src := rand.New(rand.NewPCG(11, 13))
+	n := 96
+	promo := make([]float64, n)
+	v := make([]float64, n)
+	e := 0.0
+	for i := range v {
+		if i%9 == 4 || i%13 == 7 {
+			promo[i] = 1
+		}
+		e = 0.6*e + 5*src.NormFloat64()
+		v[i] = 100 + 30*promo[i] + e
+	}
+	y := yearly("invented promotions", v)
+	regs := []arima.Regressor{{Name: "promo", Values: promo}}
+	r := searchFit(t, arima.Search{Regressors: regs}, y)
+	var got arima.Coefficient
+	for _, c := range r.Coef() {
+		if c.Name == "promo" {
+			got = c
+		}
+	}
+	if got.Name == "" {
+		t.Fatalf("%s has no promo coefficient: %+v", r, r.Coef())
+	}
+	t.Logf("chose %s, promo %.3f ± %.3f", r, got.Value, got.StdErr)
+	if math.Abs(got.Value-30) > 3*got.StdErr || !(got.StdErr > 0) {
+		t.Errorf("promo effect %.3f ± %.3f, generated as 30", got.Value, got.StdErr)
+	}
+	if _, err := r.Forecast(3); !errors.Is(err, arima.ErrNeedRegressors) {
+		t.Errorf("Forecast without future regressors: err = %v, want ErrNeedRegressors", err)
+	}
+	fc, err := r.ForecastWith(3, [][]float64{{0, 1, 0}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(fc.Mean[1] > fc.Mean[0] && fc.Mean[1] > fc.Mean[2]) {
+		t.Errorf("forecast %v: the promoted month should stand out", fc.Mean)
+	}
+
+	bad := []struct {
+		name string
+		regs []arima.Regressor
+		want error
+	}{
+		{"wrong length", []arima.Regressor{{Name: "short", Values: promo[:10]}}, almanac.ErrLength},
+		{"non-finite", []arima.Regressor{{Name: "inf", Values: append([]float64{math.Inf(1)}, promo[1:]...)}}, almanac.ErrNonFinite},
+		{"constant column", []arima.Regressor{{Name: "ones", Values: constantSlice(n, 1)}}, arima.ErrCollinear},
+		{"duplicate columns", []arima.Regressor{{Name: "a", Values: promo}, {Name: "b", Values: promo}}, arima.ErrCollinear},
+	}
+	for _, tc := range bad {
+		t.Run(tc.name, func(t *testing.T) {
+			if _, err := (arima.Search{Regressors: tc.regs}).Fit(context.Background(), y); !errors.Is(err, tc.want) {
+				t.Errorf("err = %v, want %v", err, tc.want)
+			}
+		})
+	}
+}
+
+func constantSlice(n int, v float64) []float64 {
+	out := make([]float64, n)
+	for i := range out {
+		out[i] = v
+	}
+	return out
+}
+
 func TestSearchBadInput(t *testing.T) {
 	nan := math.NaN()
 	canceled, cancel := context.WithCancel(context.Background())
