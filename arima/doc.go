@@ -15,6 +15,10 @@
 // sar1.., sma1.., mean (the process mean when d + D = 0), drift (the slope
 // of a linear trend when d + D = 1) and the regressor names.
 //
+// A *Fitted gives forecasts with exact mean-squared errors (Forecast, or
+// ForecastWith when there are regressors) and sample paths
+// (Simulate/SimulateWith, implementing almanac.Simulator).
+//
 // Defaults: Constant's zero value includes a mean in undifferenced models
 // only (no drift unless asked for with ConstantInclude, because a drift is
 // a trend assumption the caller should make knowingly); Method's zero
