@@ -69,9 +69,16 @@ func ExampleSearch_exhaustive() {
 	res := fit.(*arima.SearchResult)
 	fmt.Println("chosen:", res)
 	fmt.Println("grid size:", len(res.Candidates))
+	for _, i := range res.Ranked()[:3] {
+		c := res.Candidates[i]
+		fmt.Printf("%-36s BIC %.1f\n", c, c.Score)
+	}
 	// Output:
 	// chosen: ARIMA(1,0,1)(1,1,0)[12]
 	// grid size: 32
+	// ARIMA(1,0,1)(1,1,0)[12]              BIC 711.5
+	// ARIMA(1,0,1)(1,1,0)[12] with drift   BIC 715.6
+	// ARIMA(1,0,0)(0,1,1)[12]              BIC 722.2
 }
 
 // ExampleKPSS tests a series for level and for trend stationarity, then

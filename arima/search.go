@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"sort"
 	"strings"
 	"sync"
 
@@ -187,6 +188,21 @@ type Candidate struct {
 	Err error
 }
 
+// String returns the candidate in the notation of Fitted.String:
+// "ARIMA(1,1,0)(0,1,1)[12]", with " with mean" or " with drift" when it
+// has a constant.
+func (c Candidate) String() string {
+	str := c.Spec.String()
+	if c.Spec.Constant == ConstantInclude {
+		if c.Spec.D+c.Spec.SD == 0 {
+			str += " with mean"
+		} else {
+			str += " with drift"
+		}
+	}
+	return str
+}
+
 // ErrNearUnitRoot marks a candidate rejected by a Search because a root
 // of its fitted AR or MA polynomial lies within 1.001 of the unit circle
 // (Hyndman & Khandakar 2008 exclude such nearly non-stationary or
@@ -218,6 +234,19 @@ type SearchResult struct {
 }
 
 var _ almanac.Fitted = (*SearchResult)(nil)
+
+// Ranked returns the indices into Candidates of the scored candidates,
+// best first (ties in candidate order), for reporting.
+func (r *SearchResult) Ranked() []int {
+	var idx []int
+	for i, c := range r.Candidates {
+		if c.Err == nil && !math.IsInf(c.Score, 0) {
+			idx = append(idx, i)
+		}
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return r.Candidates[idx[a]].Score < r.Candidates[idx[b]].Score })
+	return idx
+}
 
 // searchPlan is a Search with the defaults resolved against one series.
 type searchPlan struct {

@@ -73,6 +73,15 @@ func TestSearchAirline(t *testing.T) {
 		t.Errorf("Candidates[Chosen] = %+v, fitted %s", ch, r)
 	}
 	numtest.Scalar(t, "chosen score", ch.Score, r.AICc(), 0, 0)
+	if rk := r.Ranked(); len(rk) == 0 || rk[0] != r.Chosen {
+		t.Errorf("Ranked() = %v, want the chosen %d first", rk, r.Chosen)
+	} else {
+		for i := 1; i < len(rk); i++ {
+			if r.Candidates[rk[i]].Score < r.Candidates[rk[i-1]].Score {
+				t.Errorf("Ranked() not in score order at %d", i)
+			}
+		}
+	}
 	for i, c := range r.Candidates {
 		if c.Score < ch.Score {
 			t.Errorf("candidate %d %s scores %.4f below the chosen %.4f", i, c.Spec, c.Score, ch.Score)
@@ -369,6 +378,9 @@ func TestSearchEnumStrings(t *testing.T) {
 		{"unknown criterion", arima.Criterion(9).String(), "Criterion(9)"},
 		{"approx auto", arima.ApproxAuto.String(), "auto"},
 		{"unknown approx", arima.Approximation(5).String(), "Approximation(5)"},
+		{"candidate with drift", arima.Candidate{Spec: arima.Spec{D: 1, Q: 1, Constant: arima.ConstantInclude}}.String(), "ARIMA(0,1,1) with drift"},
+		{"candidate with mean", arima.Candidate{Spec: arima.Spec{P: 1, Constant: arima.ConstantInclude}}.String(), "ARIMA(1,0,0) with mean"},
+		{"candidate without constant", arima.Candidate{Spec: arima.Spec{P: 1, Constant: arima.ConstantNone}}.String(), "ARIMA(1,0,0)"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
