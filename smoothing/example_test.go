@@ -123,3 +123,43 @@ func ExampleFitted_Update() {
 	// Output:
 	// 2025-01 307.616
 }
+
+// List every candidate Select tried, with its criterion value.
+func ExampleSelect_Compare() {
+	cands, best, err := smoothing.Select{Errors: []smoothing.ErrorType{smoothing.MultiplicativeError}, Seasons: []smoothing.SeasonType{smoothing.MultiplicativeSeason}}.Compare(context.Background(), bookings())
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for i, c := range cands {
+		mark := ""
+		if i == best {
+			mark = " <- chosen"
+		}
+		fmt.Printf("%v AICc %.3f%s\n", c.Spec, c.Score, mark)
+	}
+	// Output:
+	// ETS(M,N,M) AICc 451.390
+	// ETS(M,A,M) AICc 431.617 <- chosen
+	// ETS(M,Ad,M) AICc 444.510
+}
+
+// Draw reproducible sample paths from a fitted model.
+func ExampleFitted_Simulate() {
+	fit, err := smoothing.Spec{Error: smoothing.MultiplicativeError, Trend: smoothing.AdditiveTrend, Season: smoothing.MultiplicativeSeason}.Fit(context.Background(), bookings())
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	paths, err := fit.(*smoothing.Fitted).Simulate(3, 2, rand.NewPCG(1, 2))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, p := range paths {
+		fmt.Printf("%.3f %.3f %.3f\n", p[0], p[1], p[2])
+	}
+	// Output:
+	// 327.280 336.957 410.981
+	// 312.192 332.003 369.384
+}
