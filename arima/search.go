@@ -758,13 +758,13 @@ func nearUnitRoot(f *Fitted) error {
 	var ar, ma, sar, sma []float64
 	for _, c := range f.Coef() {
 		switch {
-		case strings.HasPrefix(c.Name, "sar"):
+		case coefOf(c.Name, "sar"):
 			sar = append(sar, -c.Value)
-		case strings.HasPrefix(c.Name, "sma"):
+		case coefOf(c.Name, "sma"):
 			sma = append(sma, c.Value)
-		case strings.HasPrefix(c.Name, "ar"):
+		case coefOf(c.Name, "ar"):
 			ar = append(ar, -c.Value)
-		case strings.HasPrefix(c.Name, "ma"):
+		case coefOf(c.Name, "ma"):
 			ma = append(ma, c.Value)
 		}
 	}
@@ -780,6 +780,21 @@ func nearUnitRoot(f *Fitted) error {
 		}
 	}
 	return nil
+}
+
+// coefOf reports whether name is prefix followed by a lag number (so a
+// regressor called "market" is not taken for an MA coefficient).
+func coefOf(name, prefix string) bool {
+	rest, ok := strings.CutPrefix(name, prefix)
+	if !ok || rest == "" {
+		return false
+	}
+	for _, r := range rest {
+		if r < '0' || r > '9' {
+			return false
+		}
+	}
+	return true
 }
 
 // minRootModulus returns the smallest modulus of the roots of

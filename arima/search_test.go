@@ -271,20 +271,22 @@ func TestSearchRegressors(t *testing.T) {
 		v[i] = 100 + 30*promo[i] + e
 	}
 	y := yearly("invented promotions", v)
-	regs := []arima.Regressor{{Name: "promo", Values: promo}}
+	// The name starts with "ma" on purpose: it must not be mistaken for
+	// an MA coefficient by the unit-root screen.
+	regs := []arima.Regressor{{Name: "marketing", Values: promo}}
 	r := searchFit(t, arima.Search{Regressors: regs}, y)
 	var got arima.Coefficient
 	for _, c := range r.Coef() {
-		if c.Name == "promo" {
+		if c.Name == "marketing" {
 			got = c
 		}
 	}
 	if got.Name == "" {
-		t.Fatalf("%s has no promo coefficient: %+v", r, r.Coef())
+		t.Fatalf("%s has no marketing coefficient: %+v", r, r.Coef())
 	}
-	t.Logf("chose %s, promo %.3f ± %.3f", r, got.Value, got.StdErr)
+	t.Logf("chose %s, marketing effect %.3f ± %.3f", r, got.Value, got.StdErr)
 	if math.Abs(got.Value-30) > 3*got.StdErr || !(got.StdErr > 0) {
-		t.Errorf("promo effect %.3f ± %.3f, generated as 30", got.Value, got.StdErr)
+		t.Errorf("marketing effect %.3f ± %.3f, generated as 30", got.Value, got.StdErr)
 	}
 	if _, err := r.Forecast(3); !errors.Is(err, arima.ErrNeedRegressors) {
 		t.Errorf("Forecast without future regressors: err = %v, want ErrNeedRegressors", err)
