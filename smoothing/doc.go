@@ -76,8 +76,8 @@
 // other jobs, so the figures are indicative: one likelihood evaluation of
 // ETS(M,Ad,M) on 144 monthly values 2.4–3.4 µs, its gradient 5–13 µs, 0
 // allocations; fitting ETS(M,Ad,M) to AirPassengers (n = 144, m = 12)
-// 1.0–1.5 ms; ETS(A,A,A) 0.2–0.4 ms; ETS(A,N,N) 0.03–0.05 ms; Select on
-// the same series (15 candidates) 5–8 ms on one worker, 3–4 ms on two; a
+// 0.8–1.5 ms; ETS(A,A,A) 0.2–0.4 ms; ETS(A,N,N) 0.03–0.05 ms; Select on
+// the same series (15 candidates) 5–8 ms on one worker, 3–4.5 ms on two; a
 // 24-step forecast with two analytic interval levels about 4 µs (5000
 // simulated paths for the models without analytic intervals take several
 // milliseconds). Targets: a single fit under 1.5 ms, Select under 15 ms.
