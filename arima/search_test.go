@@ -92,6 +92,27 @@ func TestSearchAirline(t *testing.T) {
 	}
 }
 
+// TestSearchSeriesF: the stepwise and exhaustive searches on Box, Jenkins
+// & Reinsel's Series F both choose AR(2) with a mean — the model the
+// NIST/SEMATECH e-Handbook (section 6.4.4.9, "Identification (printed):
+// AR(2)", published.md) identifies from the ACF/PACF — and the estimates
+// agree with the exact ML fit computed with R's arima(x, c(2,0,0)) listed
+// in published.md (φ₁ = −0.3407, φ₂ = 0.1873, mean 51.2266, to 4
+// decimals), within 2e-3 (the fixtures' tolerance for optimiser-dependent
+// coefficients).
+func TestSearchSeriesF(t *testing.T) {
+	want := map[string]float64{"ar1": -0.3407, "ar2": 0.1873, "mean": 51.2266}
+	for _, s := range []arima.Search{{}, {Exhaustive: true}} {
+		r := searchFit(t, s, yearly("Series F", selSeriesF))
+		if got := r.String(); got != "ARIMA(2,0,0) with mean" {
+			t.Fatalf("exhaustive %v: chose %s, want ARIMA(2,0,0) with mean", s.Exhaustive, got)
+		}
+		for _, c := range r.Coef() {
+			numtest.Scalar(t, c.Name, c.Value, want[c.Name], 2e-3, 0)
+		}
+	}
+}
+
 // TestSearchFixedOrdersOfDifferencing: D and SD given explicitly are used,
 // and NoDifferencing fixes zero.
 func TestSearchFixedDifferencing(t *testing.T) {
