@@ -74,7 +74,7 @@ func mlObjectiveOf(tb testing.TB, s Spec, y almanac.Series) (func([]float64) flo
 	if err != nil {
 		tb.Fatal(err)
 	}
-	pr := newProblem(lay, y.Slice(), nil, s.Fixed)
+	pr := newProblem(lay, y.Slice(), nil, s.Fixed, s.Prior)
 	x0 := make([]float64, len(pr.free))
 	for i := range x0 {
 		x0[i] = -0.3

@@ -45,7 +45,7 @@ type problem struct {
 	css                 cssWork
 }
 
-func newProblem(lay *layout, y []float64, x [][]float64, fixed map[string]float64) *problem {
+func newProblem(lay *layout, y []float64, x [][]float64, fixed map[string]float64, prior Prior) *problem {
 	pr := &problem{lay: lay, y: y, x: x, n: len(y)}
 	nobs := 0
 	for _, v := range y {
@@ -89,6 +89,7 @@ func newProblem(lay *layout, y []float64, x [][]float64, fixed map[string]float6
 	pr.w = make([]float64, pr.n)
 	pr.work = make([]float64, max(lay.p, lay.sp))
 	pr.kal.resize(pf, qf, lay.delta())
+	pr.kal.exact = prior == DiffusePrior
 	pr.css.resize(pr.n, pf, qf)
 	return pr
 }

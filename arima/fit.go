@@ -43,7 +43,7 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 		x = append(x, append([]float64(nil), r.Values...))
 	}
 	yv := y.Slice()
-	pr := newProblem(lay, yv, x, s.Fixed)
+	pr := newProblem(lay, yv, x, s.Fixed, s.Prior)
 	k := len(pr.free)
 	nd := lay.d + lay.s*lay.sd
 	if pr.nUsed < k+2 {
@@ -212,6 +212,9 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 		f.sigma2 = res.ssq / nobs
 		f.loglik = -0.5 * (nobs*math.Log(res.ssq/nu) + (nobs/nu)*res.sumlog + nobs + nobs*math.Log(2*math.Pi))
 	}
+	if ok && pr.kal.exact && pr.kal.diffuseLeft() {
+		return nil, fmt.Errorf("arima: %w: %s: too few observed values to fix the %d differencing states", almanac.ErrTooShort, lay.orders(), nd)
+	}
 	if ok {
 		f.kal = pr.kal.clone()
 	}
@@ -251,6 +254,7 @@ func invertBlocks(pr *problem, coef []float64) {
 func (k *kalman) clone() *kalman {
 	c := &kalman{}
 	c.resize(k.p, len(k.theta), k.delta)
+	c.exact = k.exact
 	c.setARMA(k.phi, k.theta)
 	copy(c.a, k.a)
 	copy(c.pm, k.pm)

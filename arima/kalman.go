@@ -58,6 +58,14 @@ type kalman struct {
 
 	// diffuseStart work space: C (r×nd, by column), S (nd×nd), z (nd).
 	cm, sm, zv []float64
+
+	// exact selects the exact diffuse initialisation of the differencing
+	// states instead of the finite prior κ; pinf/pinfNew are the diffuse
+	// parts of the filtered and predicted covariances (Durbin & Koopman
+	// 2012, §5.2), minf their product with Z.
+	exact         bool
+	pinf, pinfNew []float64
+	minf          []float64
 }
 
 // resize prepares k for AR length p, MA length q (both multiplied out)
@@ -101,6 +109,9 @@ func (k *kalman) resize(p, q int, delta []float64) {
 	k.rv = grow(k.rv, r)
 	k.g = grow(k.g, r)
 	k.gam = grow(k.gam, max(r, nd)+1)
+	k.pinf = grow(k.pinf, rd*rd)
+	k.pinfNew = grow(k.pinfNew, rd*rd)
+	k.minf = grow(k.minf, rd)
 	k.cm = grow(k.cm, r*nd)
 	k.sm = grow(k.sm, nd*nd)
 	k.zv = grow(k.zv, nd)
@@ -179,6 +190,13 @@ func (k *kalman) init() bool {
 		return false
 	}
 	rd := k.rd
+	if k.exact {
+		clear(k.pinfNew)
+		for i := k.r; i < rd; i++ {
+			k.pinfNew[i+rd*i] = 1
+		}
+		return true
+	}
 	for i := k.r; i < rd; i++ {
 		k.pnew[i+rd*i] = kappa
 	}
@@ -358,7 +376,14 @@ func (k *kalman) predict() {
 		}
 		anew[i] = s
 	}
-	P, Pnew, u := k.pm, k.pnew, k.u
+	k.predictCov(k.pm, k.pnew, true)
+}
+
+// predictCov writes T P T' (+ R R' when addV) into Pnew.
+func (k *kalman) predictCov(P, Pnew []float64, addV bool) {
+	rd := k.rd
+	off, idx, val := k.tOff, k.tIdx, k.tVal
+	u := k.u
 	for j := 0; j < rd; j++ {
 		// u = P t_j
 		clear(u)
@@ -377,11 +402,13 @@ func (k *kalman) predict() {
 			Pnew[i+rd*j] = s
 		}
 	}
-	for _, i := range k.rIdx {
-		ri := k.rv[i]
-		for _, j := range k.rIdx {
-			if j >= i {
-				Pnew[j+rd*i] += ri * k.rv[j]
+	if addV {
+		for _, i := range k.rIdx {
+			ri := k.rv[i]
+			for _, j := range k.rIdx {
+				if j >= i {
+					Pnew[j+rd*i] += ri * k.rv[j]
+				}
 			}
 		}
 	}
@@ -421,6 +448,7 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 	clear(k.px)
 	clear(k.pxnew)
 	if nd > 0 {
+		clear(k.pinf)
 		fast := n > nd
 		for _, v := range w {
 			if math.IsNaN(v) {
@@ -429,9 +457,28 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 			}
 		}
 		if !fast {
+			if k.exact {
+				return k.filterDiffuse(w, resid)
+			}
 			return k.filterFull(w, resid)
 		}
-		if resid != nil || !k.diffuseStart(w) {
+		if k.exact {
+			// The exact diffuse start: the first nd observations only fix
+			// the differencing states; the ARMA state at time nd keeps its
+			// stationary distribution N(0, Q0), so what follows is the
+			// exact likelihood of the differenced series.
+			clear(k.ax)
+			for j := 0; j < r; j++ {
+				for i := 0; i < r; i++ {
+					k.px[i+st*j] = k.pnew[i+rd*j]
+				}
+			}
+			if resid != nil {
+				for i := 0; i < nd; i++ {
+					resid[i] = math.NaN()
+				}
+			}
+		} else if resid != nil || !k.diffuseStart(w) {
 			var rs []float64
 			if resid != nil {
 				rs = resid[:nd]
@@ -663,6 +710,109 @@ func (k *kalman) predictARMA() {
 			dst[i] = v + ph[i]*cj + pj*gg[i] + rr[i]*rj
 		}
 	}
+}
+
+// filterDiffuse is the exact diffuse Kalman filter (Durbin & Koopman
+// 2012, §5.2, univariate case with no observation noise): the predicted
+// covariance is κ P∞ + P* with κ → ∞; while Z'P∞Z > 0 an observation
+// resolves part of the diffuse state and does not enter the likelihood
+// (its residual is NaN), afterwards the ordinary filter runs on P*. It is
+// used with differencing and missing values; with complete data it gives
+// the same value as the differenced-series shortcut in filter.
+func (k *kalman) filterDiffuse(w, resid []float64) filterResult {
+	var res filterResult
+	rd, r := k.rd, k.r
+	delta := k.delta
+	Pinf, PinfNew, Minf := k.pinf, k.pinfNew, k.minf
+	for l, y := range w {
+		if l > 0 {
+			k.predict()
+			k.predictCov(Pinf, PinfNew, false)
+		} else {
+			copy(k.anew, k.a)
+		}
+		anew, Pnew := k.anew, k.pnew
+		if math.IsNaN(y) {
+			copy(k.a, anew)
+			copy(k.pm, Pnew)
+			copy(Pinf, PinfNew)
+			if resid != nil {
+				resid[l] = math.NaN()
+			}
+			continue
+		}
+		v := y - anew[0]
+		for _, i := range k.deltaIdx {
+			v -= delta[i] * anew[r+i]
+		}
+		M := k.m
+		for i := 0; i < rd; i++ {
+			tm, ti := Pnew[i], PinfNew[i]
+			for _, j := range k.deltaIdx {
+				tm += Pnew[i+rd*(r+j)] * delta[j]
+				ti += PinfNew[i+rd*(r+j)] * delta[j]
+			}
+			M[i], Minf[i] = tm, ti
+		}
+		fs, fi := M[0], Minf[0]
+		for _, i := range k.deltaIdx {
+			fs += delta[i] * M[r+i]
+			fi += delta[i] * Minf[r+i]
+		}
+		P := k.pm
+		if fi > 1e-8 {
+			// Diffuse step: a += M∞ v/F∞;
+			// P∞ −= M∞M∞'/F∞; P* += M∞M∞' F*/F∞² − (M*M∞' + M∞M*')/F∞.
+			f := v / fi
+			for i := 0; i < rd; i++ {
+				k.a[i] = anew[i] + Minf[i]*f
+			}
+			c := fs / (fi * fi)
+			for j := 0; j < rd; j++ {
+				for i := j; i < rd; i++ {
+					pi := PinfNew[i+rd*j] - Minf[i]*Minf[j]/fi
+					ps := Pnew[i+rd*j] + Minf[i]*Minf[j]*c - (M[i]*Minf[j]+Minf[i]*M[j])/fi
+					Pinf[i+rd*j], Pinf[j+rd*i] = pi, pi
+					P[i+rd*j], P[j+rd*i] = ps, ps
+				}
+			}
+			if resid != nil {
+				resid[l] = math.NaN()
+			}
+			continue
+		}
+		res.nu++
+		res.ssq += v * v / fs
+		res.sumlog += math.Log(fs)
+		if resid != nil {
+			resid[l] = v / math.Sqrt(fs)
+		}
+		f := v / fs
+		for i := 0; i < rd; i++ {
+			k.a[i] = anew[i] + M[i]*f
+		}
+		for j := 0; j < rd; j++ {
+			for i := j; i < rd; i++ {
+				ps := Pnew[i+rd*j] - M[i]*M[j]/fs
+				P[i+rd*j], P[j+rd*i] = ps, ps
+				pi := PinfNew[i+rd*j]
+				Pinf[i+rd*j], Pinf[j+rd*i] = pi, pi
+			}
+		}
+	}
+	return res
+}
+
+// diffuseLeft reports whether the last filterDiffuse run ended with a
+// diffuse part left (too few observations to fix the differencing
+// states). Only filterDiffuse leaves a non-zero pinf.
+func (k *kalman) diffuseLeft() bool {
+	for _, v := range k.pinf {
+		if math.Abs(v) > 1e-8 {
+			return true
+		}
+	}
+	return false
 }
 
 // filterFull is filter without the shortcut.

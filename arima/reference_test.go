@@ -164,7 +164,7 @@ func checkARIMAFixture(t *testing.T, f *reftest.Fixture) {
 				// The same log-likelihood through the optimiser's path
 				// (no residuals kept: closed-form start of the differencing
 				// block, see kalman.diffuseStart).
-				pr := newProblem(fit.lay, fit.y, fit.x, fs.Fixed)
+				pr := newProblem(fit.lay, fit.y, fit.x, fs.Fixed, FinitePrior)
 				res, ok := pr.likelihood(pr.base, nil)
 				if !ok {
 					t.Fatal("likelihood not available")
@@ -172,6 +172,23 @@ func checkARIMAFixture(t *testing.T, f *reftest.Fixture) {
 				nobs := float64(pr.nUsed)
 				ll := -0.5 * (nobs*math.Log(res.ssq/float64(res.nu)) + nobs/float64(res.nu)*res.sumlog + nobs + nobs*math.Log(2*math.Pi))
 				numtest.Scalar(t, "at_fixed.loglik (objective path)", ll, f.Float(t, "expect.at_fixed.loglik"), a, r)
+			}
+			if f.Has("expect.at_fixed.exact_differenced_likelihood") {
+				// The exact diffuse start (DiffusePrior) against the exact
+				// likelihood of the differenced series that the fixture
+				// generator computed by dense Cholesky factorisation (not
+				// an R arima output; see the fixture's "what").
+				ds := fs
+				ds.Prior = DiffusePrior
+				dm, err := ds.Fit(context.Background(), y)
+				if err != nil {
+					t.Fatal(err)
+				}
+				da, dr := tol(t, f, "at_fixed.exact_differenced_likelihood.loglik")
+				numtest.Scalar(t, "at_fixed.exact_differenced_likelihood.loglik", dm.(*Fitted).LogLik(), f.Float(t, "expect.at_fixed.exact_differenced_likelihood.loglik"), da, dr)
+				if got, want := dm.(*Fitted).NumObs(), int(f.Float(t, "expect.at_fixed.exact_differenced_likelihood.n")); got != want {
+					t.Errorf("exact: n = %d, want %d", got, want)
+				}
 			}
 			a, r = tol(t, f, "at_fixed.sigma2")
 			numtest.Scalar(t, "at_fixed.sigma2", fit.Sigma2(), f.Float(t, "expect.at_fixed.sigma2"), a, r)
@@ -225,6 +242,21 @@ func checkARIMAFixture(t *testing.T, f *reftest.Fixture) {
 	}
 	a, r = tol(t, f, "sigma2")
 	numtest.Scalar(t, "sigma2", fit.Sigma2(), f.Float(t, "expect.sigma2"), a, r)
+	if f.Has("expect.at_fixed.exact_differenced_likelihood") {
+		// With the exact diffuse start our maximum of the exact likelihood
+		// must reach at least its value at the fixture's fixed (rounded
+		// R) estimates, less the fixture's loglik bar.
+		ds := spec
+		ds.Prior = DiffusePrior
+		dm, err := ds.Fit(context.Background(), y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		bar, _ := tol(t, f, "loglik")
+		if ll, at := dm.(*Fitted).LogLik(), f.Float(t, "expect.at_fixed.exact_differenced_likelihood.loglik"); ll < at-bar {
+			t.Errorf("exact loglik maximum %.10g below its value %.10g at the fixed estimates", ll, at)
+		}
+	}
 	if css {
 		numtest.Scalar(t, "css_objective", 0.5*math.Log(fit.Sigma2()), f.Float(t, "expect.css_objective"), 0, r)
 		return

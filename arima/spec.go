@@ -72,6 +72,37 @@ func (c Constant) String() string {
 	return fmt.Sprintf("Constant(%d)", int(c))
 }
 
+// Prior chooses how the differencing states of a model with d + D > 0
+// start. Programs should not rely on the numeric values of the
+// constants.
+type Prior int
+
+const (
+	// FinitePrior (the zero value): the differencing states start with
+	// the large but finite variance κ = 10⁶σ², and observations whose
+	// innovation variance is 10⁴σ² or more are left out of the likelihood
+	// — R's stats::arima scheme, so log-likelihoods and estimates agree
+	// with R's.
+	FinitePrior Prior = iota
+	// DiffusePrior: the exact diffuse initialisation (κ → ∞; Durbin &
+	// Koopman 2012, ch. 5). The log-likelihood is then the exact
+	// likelihood of the differenced series (with missing values: of the
+	// observed values given the diffuse start), and the residuals of the
+	// first d + sD observations are NaN.
+	DiffusePrior
+)
+
+// String returns "finite" or "diffuse", or "Prior(n)".
+func (p Prior) String() string {
+	switch p {
+	case FinitePrior:
+		return "finite"
+	case DiffusePrior:
+		return "diffuse"
+	}
+	return fmt.Sprintf("Prior(%d)", int(p))
+}
+
 // Regressor is one column of a regression with ARIMA errors: a name
 // (used in Coef, Fixed and error messages) and one value per observation
 // of the series, all finite.
@@ -115,6 +146,9 @@ type Spec struct {
 	Fixed map[string]float64
 	// Method is the estimation method; the zero value is CSSThenML.
 	Method Method
+	// Prior is the start of the differencing states in the exact
+	// likelihood; the zero value is FinitePrior (R-compatible).
+	Prior Prior
 }
 
 var _ almanac.Model = Spec{}
@@ -198,6 +232,11 @@ func (s Spec) resolve(y almanac.Series) (*layout, error) {
 	case CSSThenML, ML, CSS:
 	default:
 		return nil, fmt.Errorf("arima: %w: unknown Method %v", almanac.ErrInvalid, s.Method)
+	}
+	switch s.Prior {
+	case FinitePrior, DiffusePrior:
+	default:
+		return nil, fmt.Errorf("arima: %w: unknown Prior %v", almanac.ErrInvalid, s.Prior)
 	}
 	n := y.Len()
 	seen := map[string]bool{}

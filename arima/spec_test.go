@@ -229,8 +229,15 @@ func TestPartlyFixed(t *testing.T) {
 // filter, Durbin & Koopman 2012 §4.10). Checked on the airline model,
 // where a missing value sends the filter through the full state.
 func TestMissingAtEnd(t *testing.T) {
+	for _, prior := range []Prior{FinitePrior, DiffusePrior} {
+		t.Run(prior.String(), func(t *testing.T) { testMissingAtEnd(t, prior) })
+	}
+}
+
+func testMissingAtEnd(t *testing.T, prior Prior) {
 	f, y := fixtureData(t, "usaccdeaths_airline")
 	s := airline
+	s.Prior = prior
 	s.Fixed = map[string]float64{"ma1": f.Float(t, "expect.at_fixed.fixed.ma1"), "sma1": f.Float(t, "expect.at_fixed.fixed.sma1")}
 	short := y.Head(y.Len() - 1)
 	gap := y.Clone()
@@ -262,7 +269,7 @@ func TestShortcutEqualsFullFilter(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	pr := newProblem(lay, y.Slice(), nil, nil)
+	pr := newProblem(lay, y.Slice(), nil, nil, FinitePrior)
 	coef := []float64{f.Float(t, "expect.coef.ma1"), f.Float(t, "expect.coef.sma1")}
 	r1 := make([]float64, y.Len())
 	r2 := make([]float64, y.Len())
@@ -292,6 +299,44 @@ func TestShortcutEqualsFullFilter(t *testing.T) {
 	numtest.Scalar(t, "sumlog", fast.sumlog, full.sumlog, 1e-8, 1e-8)
 	numtest.Slice(t, "residuals", r1, r2, 1e-8, 1e-8)
 	numtest.Slice(t, "state", a1, pr.kal.a, 1e-8, 1e-8)
+}
+
+// TestDiffuseFilterEqualsShortcut: with complete data the exact diffuse
+// filter (used with missing values) and the differenced-series shortcut
+// give the same likelihood sums and final state, and a gap inside the
+// series changes the likelihood only by what the skipped observation
+// contributed (it stays finite and the filter resolves the diffuse part).
+func TestDiffuseFilterEqualsShortcut(t *testing.T) {
+	f, y := fixtureData(t, "usaccdeaths_airline")
+	lay, err := airline.resolve(y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr := newProblem(lay, y.Slice(), nil, nil, DiffusePrior)
+	coef := []float64{f.Float(t, "expect.coef.ma1"), f.Float(t, "expect.coef.sma1")}
+	fast, _ := pr.likelihood(coef, nil)
+	a1 := append([]float64(nil), pr.kal.a...)
+	pr.kal.init()
+	pr.adjust(coef)
+	full := pr.kal.filterDiffuse(pr.w, nil)
+	if fast.nu != full.nu || fast.nu != y.Len()-13 {
+		t.Fatalf("nu %d vs %d", fast.nu, full.nu)
+	}
+	numtest.Scalar(t, "ssq", full.ssq, fast.ssq, 0, 1e-10)
+	numtest.Scalar(t, "sumlog", full.sumlog, fast.sumlog, 1e-10, 1e-10)
+	numtest.Slice(t, "state", pr.kal.a, a1, 1e-8, 1e-10)
+	if pr.kal.diffuseLeft() {
+		t.Error("diffuse part left after complete data")
+	}
+	gap := y.Clone()
+	gap.Values[30] = math.NaN()
+	gap.Values[31] = math.NaN()
+	s := airline
+	s.Prior = DiffusePrior
+	fit := mustFit(t, s, gap)
+	if fit.NumObs() != y.Len()-2-13 || math.IsNaN(fit.LogLik()) {
+		t.Errorf("with a gap: n = %d, loglik %v", fit.NumObs(), fit.LogLik())
+	}
 }
 
 // TestScaleInvariance: forecasts of c·y are c times the forecasts of y
@@ -376,7 +421,8 @@ func TestDeterminism(t *testing.T) {
 // allocate.
 func TestNoAllocPerLikelihood(t *testing.T) {
 	y := logAirPassengers(t)
-	for _, s := range []Spec{airline, {P: 2, Q: 1, SP: 1}, {P: 1, D: 1, Q: 1, Constant: ConstantInclude}} {
+	for _, s := range []Spec{airline, {P: 2, Q: 1, SP: 1}, {P: 1, D: 1, Q: 1, Constant: ConstantInclude},
+		{D: 1, Q: 1, SD: 1, SQ: 1, Prior: DiffusePrior}} {
 		lay, err := s.resolve(y)
 		if err != nil {
 			t.Fatal(err)
@@ -389,7 +435,7 @@ func TestNoAllocPerLikelihood(t *testing.T) {
 			}
 			x = append(x, col)
 		}
-		pr := newProblem(lay, y.Slice(), x, nil)
+		pr := newProblem(lay, y.Slice(), x, nil, s.Prior)
 		p := make([]float64, len(pr.free))
 		for i := range p {
 			p[i] = 0.1
@@ -411,6 +457,7 @@ func TestNoAllocPerLikelihood(t *testing.T) {
 func TestEnumStrings(t *testing.T) {
 	for _, tc := range []struct{ got, want string }{
 		{CSSThenML.String(), "CSS-ML"}, {ML.String(), "ML"}, {CSS.String(), "CSS"}, {Method(7).String(), "Method(7)"},
+		{FinitePrior.String(), "finite"}, {DiffusePrior.String(), "diffuse"}, {Prior(4).String(), "Prior(4)"},
 		{ConstantAuto.String(), "auto"}, {ConstantNone.String(), "none"}, {ConstantInclude.String(), "include"}, {Constant(5).String(), "Constant(5)"},
 		{Spec{P: 1, D: 1, Q: 1}.String(), "ARIMA(1,1,1)"},
 		{Spec{D: 1, Q: 1, SD: 1, SQ: 1, Period: 12}.String(), "ARIMA(0,1,1)(0,1,1)[12]"},
