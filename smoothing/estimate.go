@@ -34,7 +34,6 @@ type problem struct {
 
 	ws []float64 // seasonal ring, length m
 	aw *adjWork  // gradient workspace (sized by prepare)
-	gw *gradWork // forward-mode workspace, tests only
 }
 
 // prepare sizes the gradient workspace.

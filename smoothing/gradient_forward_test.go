@@ -50,11 +50,8 @@ func axpy(dst []float64, a float64, x []float64) {
 // grad. Outside the model's domain it returns penalty and a zero
 // gradient.
 func (p *problem) objectiveGradForward(x, grad []float64) float64 {
-	if p.gw == nil {
-		p.gw = newGradWork(len(x), p.f.m)
-	}
 	zero(grad)
-	w := p.gw
+	w := newGradWork(len(x), p.f.m) // a fresh workspace: this is a test-only cross-check
 	d := len(x)
 	f := p.f
 	par, l, b, ok := p.decode(x)
