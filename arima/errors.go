@@ -13,7 +13,8 @@ var (
 	// forecast without future regressor values (use ForecastWith), or the
 	// future values have the wrong shape or are not finite.
 	ErrNeedRegressors = errors.New("future regressor values needed")
-	// ErrNonStationary: fixed autoregressive coefficients that are not
-	// stationary, so no stationary initial state covariance exists.
+	// ErrNonStationary: an autoregressive part that is not stationary
+	// (fixed coefficients, or a CSS estimate asked for a forecast), so no
+	// stationary initial state covariance exists.
 	ErrNonStationary = errors.New("non-stationary autoregressive part")
 )

@@ -115,20 +115,25 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 		if k > 0 {
 			x0, _ := pr.paramsFrom(coef, false)
 			obj := func(v []float64) float64 { return pr.cssObjective(v) }
-			if obj(x0) >= badObjective {
-				return nil, fmt.Errorf("arima: %w: %s: conditional sum of squares not finite at the starting values", almanac.ErrNotFitted, lay.orders())
+			var xs []float64
+			var conv bool
+			err := fmt.Errorf("conditional sum of squares not finite at the starting values")
+			if obj(x0) < badObjective {
+				xs, _, conv, err = minimize(ctx, obj, x0)
 			}
-			xs, _, conv, err := minimize(ctx, obj, x0)
-			if err != nil {
-				if ctx.Err() != nil {
-					return nil, err
-				}
+			switch {
+			case err != nil && ctx.Err() != nil:
+				return nil, fmt.Errorf("arima: %w", ctx.Err())
+			case err != nil && method == CSS:
 				return nil, fmt.Errorf("arima: %w: %s by CSS: %v", almanac.ErrNotFitted, lay.orders(), err)
-			}
-			converged = conv
-			coef = append([]float64(nil), pr.coefFrom(xs, false)...)
-			if method == CSS {
-				cov = pr.covariance(obj, xs)
+			case err != nil:
+				// CSS failed: ML starts from the default values instead.
+			default:
+				converged = conv
+				coef = append([]float64(nil), pr.coefFrom(xs, false)...)
+				if method == CSS {
+					cov = pr.covariance(obj, xs)
+				}
 			}
 		}
 	}
@@ -147,6 +152,11 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 		invertBlocks(pr, coef)
 	}
 	if method == ML || method == CSSThenML {
+		l := lay
+		if !arStationary(coef[l.arOff():l.arOff()+l.p]) || !arStationary(coef[l.sarOff():l.sarOff()+l.sp]) {
+			// Only fixed AR coefficients can be non-zero here.
+			return nil, fmt.Errorf("arima: %w: %s: the fixed AR coefficients are not stationary", ErrNonStationary, lay.orders())
+		}
 		if k > 0 {
 			obj := func(v []float64) float64 { return pr.mlObjective(v, true) }
 			x0, ok := pr.paramsFrom(coef, true)
@@ -190,7 +200,7 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 	f.resid = make([]float64, n)
 	res, ok := pr.likelihood(coef, f.resid)
 	if !ok && method != CSS {
-		return nil, fmt.Errorf("arima: %w: %s: the estimated AR part is not stationary", almanac.ErrNotFitted, lay.orders())
+		return nil, fmt.Errorf("arima: %w: %s: the AR part at the estimate is not stationary (fixed AR coefficients?)", ErrNonStationary, lay.orders())
 	}
 	if method == CSS {
 		ssq, nu := pr.cssAt(coef)

@@ -65,6 +65,7 @@ func TestBadInput(t *testing.T) {
 		{"seasonal order without period", Spec{SP: 1}, huron, almanac.ErrInvalid, []string{"period"}},
 		{"unknown fixed name", Spec{P: 1, Fixed: map[string]float64{"ma1": 0.3}}, lh, almanac.ErrInvalid, []string{`"ma1"`}},
 		{"non-finite fixed value", Spec{P: 1, Fixed: map[string]float64{"ar1": math.NaN()}}, lh, almanac.ErrInvalid, nil},
+		{"non-stationary fixed AR", Spec{P: 1, Fixed: map[string]float64{"ar1": 1.2}}, lh, ErrNonStationary, nil},
 		{"drift with two differences", Spec{D: 2, Constant: ConstantInclude}, lh, almanac.ErrInvalid, nil},
 		{"unknown method", Spec{Method: Method(9)}, lh, almanac.ErrInvalid, nil},
 		{"CSS with missing values", Spec{P: 1, Method: CSS}, withValues(lh, lhNaN), almanac.ErrMissing, nil},
