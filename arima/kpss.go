@@ -50,10 +50,10 @@ const (
 	// (2004), computed from the residual autocovariances up to lag
 	// ⌊n^(2/9)⌋: L = ⌊1.1447 (ŝ₁/ŝ₀)^(2/3) n^(1/3)⌋, capped at n−1.
 	LagDataDependent
-	// LagLegacy: L = ⌈12 (n/100)^(1/4)⌉, capped at n−1 (the "l12" rule of
-	// Kwiatkowski et al. 1992, rounded up as statsmodels' "legacy"
-	// option does).
-	LagLegacy
+	// LagLong: L = ⌈12 (n/100)^(1/4)⌉, capped at n−1 (the "l12" rule of
+	// Kwiatkowski et al. 1992, rounded up; statsmodels' kpss computes the
+	// same lag for its nlags="legacy", which the reference test checks).
+	LagLong
 	// LagFixed: L = KPSSSpec.Lags exactly (0 allowed; must be < n).
 	LagFixed
 )
@@ -67,8 +67,8 @@ func (r LagRule) String() string {
 		return "short"
 	case LagDataDependent:
 		return "data-dependent"
-	case LagLegacy:
-		return "legacy"
+	case LagLong:
+		return "long"
 	case LagFixed:
 		return "fixed"
 	}
@@ -208,7 +208,7 @@ func KPSS(y []float64, spec KPSSSpec) (KPSSResult, error) {
 		lags = min(int(4*math.Pow(float64(n)/100, 0.25)), n-1)
 	case LagDataDependent:
 		lags = min(hobijnLag(e), n-1)
-	case LagLegacy:
+	case LagLong:
 		lags = min(int(math.Ceil(12*math.Pow(float64(n)/100, 0.25))), n-1)
 	case LagFixed:
 		if spec.Lags < 0 || spec.Lags >= n {

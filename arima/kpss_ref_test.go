@@ -57,7 +57,7 @@ func checkKPSS(t *testing.T, f *reftest.Fixture) {
 			case string:
 				switch a {
 				case "legacy":
-					spec.LagRule = LagLegacy
+					spec.LagRule = LagLong
 				case "auto":
 					spec.LagRule = LagDataDependent
 				default:

@@ -76,8 +76,8 @@ func TestKPSSReject(t *testing.T) {
 
 // TestKPSSLagRules checks the lag each rule gives for the fixture series'
 // lengths, from the rules' formulas: ⌊3√n/13⌋ (common practice), ⌊4 (n/100)^(1/4)⌋
-// (Kwiatkowski et al. 1992) and ⌈12 (n/100)^(1/4)⌉ (statsmodels' legacy
-// rule; the fixtures' spec.nlags_legacy_value gives 10, 12 and 14).
+// (Kwiatkowski et al. 1992) and ⌈12 (n/100)^(1/4)⌉ (the long rule; the
+// fixtures' spec.nlags_legacy_value gives 10, 12 and 14).
 func TestKPSSLagRules(t *testing.T) {
 	tests := []struct {
 		name string
@@ -90,11 +90,11 @@ func TestKPSSLagRules(t *testing.T) {
 		{"square root, n = 143", diffLog(selAirPassengers), arima.LagSquareRoot, 2},
 		{"short, n = 48", selLH, arima.LagShort, 3},
 		{"short, n = 100", selNile, arima.LagShort, 4},
-		{"legacy, n = 48 (fixture kpss_lh)", selLH, arima.LagLegacy, 10},
-		{"legacy, n = 100 (fixture kpss_nile)", selNile, arima.LagLegacy, 12},
-		{"legacy, n = 143 (fixture kpss_airpassengers_difflog)", diffLog(selAirPassengers), arima.LagLegacy, 14},
+		{"long, n = 48 (fixture kpss_lh)", selLH, arima.LagLong, 10},
+		{"long, n = 100 (fixture kpss_nile)", selNile, arima.LagLong, 12},
+		{"long, n = 143 (fixture kpss_airpassengers_difflog)", diffLog(selAirPassengers), arima.LagLong, 14},
 		{"square root capped at n−1", []float64{1, 3, 2}, arima.LagSquareRoot, 0},
-		{"legacy capped at n−1", []float64{1, 3, 2, 5}, arima.LagLegacy, 3},
+		{"long capped at n−1", []float64{1, 3, 2, 5}, arima.LagLong, 3},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -147,7 +147,7 @@ func TestKPSSEnumStrings(t *testing.T) {
 		{"unknown null", arima.KPSSNull(5).String(), "KPSSNull(5)"},
 		{"square root", arima.LagSquareRoot.String(), "square-root"},
 		{"short", arima.LagShort.String(), "short"},
-		{"legacy", arima.LagLegacy.String(), "legacy"},
+		{"long", arima.LagLong.String(), "long"},
 		{"unknown rule", arima.LagRule(-1).String(), "LagRule(-1)"},
 		{"unknown clip", arima.PValueClip(3).String(), "PValueClip(3)"},
 	}

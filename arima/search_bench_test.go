@@ -71,7 +71,7 @@ func BenchmarkKPSS(b *testing.B) {
 	for i := range y {
 		y[i] = math.Sin(float64(i)/7) + src.NormFloat64()
 	}
-	for _, r := range []arima.LagRule{arima.LagSquareRoot, arima.LagDataDependent, arima.LagLegacy} {
+	for _, r := range []arima.LagRule{arima.LagSquareRoot, arima.LagDataDependent, arima.LagLong} {
 		b.Run(r.String(), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
