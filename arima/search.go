@@ -52,34 +52,36 @@ func (c Criterion) of(f *Fitted) float64 {
 	return f.AICc()
 }
 
-// Approximation says whether a Search ranks candidates by the exact
-// likelihood or by the cheaper conditional sum of squares (CSS). Programs
-// should not rely on the numeric values of the constants.
-type Approximation int
+// SearchLikelihood says which likelihood ranks the candidates of a
+// Search. Programs should not rely on the numeric values of the
+// constants.
+type SearchLikelihood int
 
 const (
-	// ApproxAuto (the zero value): CSS while searching when the series
-	// has more than 150 observations or a period above 12 and no missing
-	// values (common practice); exact likelihood otherwise.
-	ApproxAuto Approximation = iota
-	// ApproxNever: every candidate by exact maximum likelihood.
-	ApproxNever
-	// ApproxAlways: every candidate by CSS (exact likelihood when the
-	// series has missing values, which CSS cannot handle).
-	ApproxAlways
+	// LikelihoodAuto (the zero value): CSS while searching when the
+	// series has more than 150 observations or a period above 12 and no
+	// missing values (common practice); exact likelihood otherwise.
+	LikelihoodAuto SearchLikelihood = iota
+	// LikelihoodExact: every candidate by exact maximum likelihood (CSS
+	// then ML).
+	LikelihoodExact
+	// LikelihoodCSS: every candidate by conditional sum of squares (exact
+	// likelihood when the series has missing values, which CSS cannot
+	// handle).
+	LikelihoodCSS
 )
 
-// String returns "auto", "never" or "always", or "Approximation(n)".
-func (a Approximation) String() string {
-	switch a {
-	case ApproxAuto:
+// String returns "auto", "exact" or "CSS", or "SearchLikelihood(n)".
+func (l SearchLikelihood) String() string {
+	switch l {
+	case LikelihoodAuto:
 		return "auto"
-	case ApproxNever:
-		return "never"
-	case ApproxAlways:
-		return "always"
+	case LikelihoodExact:
+		return "exact"
+	case LikelihoodCSS:
+		return "CSS"
 	}
-	return fmt.Sprintf("Approximation(%d)", int(a))
+	return fmt.Sprintf("SearchLikelihood(%d)", int(l))
 }
 
 // NoDifferencing, given as Search.D or Search.SD, fixes that order of
@@ -92,7 +94,7 @@ const (
 	DefaultMaxQ      = 5
 	DefaultMaxSP     = 2
 	DefaultMaxSQ     = 2
-	DefaultMaxOrder  = 5   // exhaustive search only, unless set
+	DefaultMaxTerms  = 5   // exhaustive search only, unless set
 	DefaultMaxModels = 100 // stepwise search
 )
 
@@ -119,10 +121,10 @@ type Search struct {
 	// MaxSP and MaxSQ bound the seasonal AR and MA orders (0 means 2,
 	// negative means 0).
 	MaxSP, MaxSQ int
-	// MaxOrder bounds p + q + P + Q. 0 means 5 for the exhaustive search
+	// MaxTerms bounds p + q + P + Q. 0 means 5 for the exhaustive search
 	// and no bound for the stepwise one (whose first starting model,
 	// (2,d,2)(1,D,1), has order 6); negative is invalid.
-	MaxOrder int
+	MaxTerms int
 	// D is the order of differencing: 0 chooses it (Differences with
 	// Differencing), NoDifferencing fixes 0, a positive value is used as
 	// given.
@@ -154,9 +156,10 @@ type Search struct {
 	// when d + D = 1; NoMean leaves out the mean considered when
 	// d + D = 0.
 	NoDrift, NoMean bool
-	// Approximation chooses CSS or exact likelihood while searching; the
-	// chosen model is always refitted by exact likelihood (CSS then ML).
-	Approximation Approximation
+	// Likelihood ranks the candidates: exact, or CSS (cheaper) for long
+	// series by default; a model chosen by CSS is always refitted by exact
+	// likelihood (CSS then ML).
+	Likelihood SearchLikelihood
 	// MaxModels bounds the number of models a stepwise search fits (0
 	// means 100); the result records whether the bound was reached.
 	MaxModels int
@@ -176,7 +179,7 @@ type Candidate struct {
 	// ConstantNone).
 	Spec Spec
 	// Score is the criterion value, on the likelihood used while
-	// searching (CSS when SearchResult.Approximated); +Inf when the model
+	// searching (CSS when SearchResult.RankedByCSS); +Inf when the model
 	// could not be fitted or was rejected.
 	Score float64
 	// LogLik is the log-likelihood of the candidate fit (NaN when it
@@ -221,8 +224,9 @@ type SearchResult struct {
 	Candidates []Candidate
 	// Chosen is the index in Candidates of the chosen model.
 	Chosen int
-	// Approximated reports that candidates were ranked by CSS.
-	Approximated bool
+	// RankedByCSS reports that candidates were ranked by CSS (and the
+	// chosen one refitted by exact likelihood).
+	RankedByCSS bool
 	// Exhaustive reports which search ran.
 	Exhaustive bool
 	// ModelLimitReached reports that a stepwise search stopped at
@@ -251,7 +255,7 @@ func (r *SearchResult) Ranked() []int {
 // searchPlan is a Search with the defaults resolved against one series.
 type searchPlan struct {
 	maxP, maxQ, maxSP, maxSQ int
-	maxOrder                 int // ≤ 0: none
+	maxTerms                 int // ≤ 0: none
 	d, sd, period            int
 	constOK                  bool
 	method                   Method
@@ -279,7 +283,7 @@ func limit(v, def int) int {
 //     constant is considered) left after differencing, give
 //     almanac.ErrTooShort; a series with no more than two full periods of
 //     observed values is searched without seasonal terms;
-//   - a negative MaxOrder, an unknown Criterion or Approximation, or a D
+//   - a negative MaxTerms, an unknown Criterion or Likelihood, or a D
 //     or SD below NoDifferencing wrap almanac.ErrInvalid;
 //   - regressors of the wrong length wrap almanac.ErrLength, non-finite
 //     regressor values almanac.ErrNonFinite, regressors linearly dependent
@@ -302,14 +306,14 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 		return nil, fmt.Errorf("arima: search: %w: series %q has one observed value repeated; no ARIMA model is identifiable", almanac.ErrConstant, y.Key)
 	}
 	switch {
-	case s.MaxOrder < 0:
-		return nil, fmt.Errorf("arima: search: %w: MaxOrder %d is negative", almanac.ErrInvalid, s.MaxOrder)
+	case s.MaxTerms < 0:
+		return nil, fmt.Errorf("arima: search: %w: MaxTerms %d is negative", almanac.ErrInvalid, s.MaxTerms)
 	case s.D < NoDifferencing || s.SD < NoDifferencing:
 		return nil, fmt.Errorf("arima: search: %w: D = %d, SD = %d (use NoDifferencing for none)", almanac.ErrInvalid, s.D, s.SD)
 	case s.Criterion < AICc || s.Criterion > BIC:
 		return nil, fmt.Errorf("arima: search: %w: unknown Criterion %v", almanac.ErrInvalid, s.Criterion)
-	case s.Approximation < ApproxAuto || s.Approximation > ApproxAlways:
-		return nil, fmt.Errorf("arima: search: %w: unknown Approximation %v", almanac.ErrInvalid, s.Approximation)
+	case s.Likelihood < LikelihoodAuto || s.Likelihood > LikelihoodCSS:
+		return nil, fmt.Errorf("arima: search: %w: unknown Likelihood %v", almanac.ErrInvalid, s.Likelihood)
 	case s.Workers < 0 || s.MaxModels < 0:
 		return nil, fmt.Errorf("arima: search: %w: Workers %d, MaxModels %d must be ≥ 0", almanac.ErrInvalid, s.Workers, s.MaxModels)
 	}
@@ -317,10 +321,10 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 	pl := searchPlan{
 		maxP: limit(s.MaxP, DefaultMaxP), maxQ: limit(s.MaxQ, DefaultMaxQ),
 		maxSP: limit(s.MaxSP, DefaultMaxSP), maxSQ: limit(s.MaxSQ, DefaultMaxSQ),
-		maxOrder: s.MaxOrder, crit: s.Criterion, maxModels: limit(s.MaxModels, DefaultMaxModels),
+		maxTerms: s.MaxTerms, crit: s.Criterion, maxModels: limit(s.MaxModels, DefaultMaxModels),
 	}
-	if pl.maxOrder == 0 && s.Exhaustive {
-		pl.maxOrder = DefaultMaxOrder
+	if pl.maxTerms == 0 && s.Exhaustive {
+		pl.maxTerms = DefaultMaxTerms
 	}
 
 	// The series whose differencing is chosen: y itself, or the residuals
@@ -400,19 +404,19 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 
 	// Likelihood used while searching.
 	complete := y.Missing() == 0
-	switch s.Approximation {
-	case ApproxAuto:
+	switch s.Likelihood {
+	case LikelihoodAuto:
 		if complete && (y.Len() > 150 || pl.period > 12) {
 			pl.method = CSS
 		}
-	case ApproxAlways:
+	case LikelihoodCSS:
 		if complete {
 			pl.method = CSS
 		}
 	}
 
 	pl.regs = s.Regressors
-	res := &SearchResult{Criterion: s.Criterion, Approximated: pl.method == CSS, Exhaustive: s.Exhaustive, SeasonalStrength: strength}
+	res := &SearchResult{Criterion: s.Criterion, RankedByCSS: pl.method == CSS, Exhaustive: s.Exhaustive, SeasonalStrength: strength}
 	var fits []*Fitted
 	var err error
 	if s.Exhaustive {
@@ -542,7 +546,7 @@ func (pl *searchPlan) allowed(k orderKey) bool {
 		k.p > pl.maxP || k.q > pl.maxQ || k.sp > pl.maxSP || k.sq > pl.maxSQ {
 		return false
 	}
-	if pl.maxOrder > 0 && k.p+k.q+k.sp+k.sq > pl.maxOrder {
+	if pl.maxTerms > 0 && k.p+k.q+k.sp+k.sq > pl.maxTerms {
 		return false
 	}
 	return !k.constant || pl.constOK
@@ -693,7 +697,7 @@ func (pl *searchPlan) exhaustive(ctx context.Context, y almanac.Series, workers 
 }
 
 // finish picks the best candidate (lowest score, ties to the earliest)
-// and, when the search was approximate, refits candidates by exact
+// and, when the candidates were ranked by CSS, refits candidates by exact
 // likelihood in order of score until one succeeds.
 func (pl *searchPlan) finish(ctx context.Context, y almanac.Series, res *SearchResult, fits []*Fitted) (*SearchResult, error) {
 	order := make([]int, 0, len(res.Candidates))
@@ -711,7 +715,7 @@ func (pl *searchPlan) finish(ctx context.Context, y almanac.Series, res *SearchR
 			order[j], order[j-1] = order[j-1], order[j]
 		}
 	}
-	if !res.Approximated {
+	if !res.RankedByCSS {
 		res.Chosen = order[0]
 		res.Fitted = fits[order[0]]
 		return res, nil

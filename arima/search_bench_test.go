@@ -21,7 +21,7 @@ func BenchmarkSearch(b *testing.B) {
 			s    arima.Search
 		}{
 			{"stepwise", arima.Search{}},
-			{"stepwise-css", arima.Search{Approximation: arima.ApproxAlways}},
+			{"stepwise-css", arima.Search{Likelihood: arima.LikelihoodCSS}},
 			{"exhaustive-2x2x1x1", arima.Search{Exhaustive: true, MaxP: 2, MaxQ: 2, MaxSP: 1, MaxSQ: 1}},
 		} {
 			y := monthly("log AirPassengers", full[:n])

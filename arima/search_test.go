@@ -65,8 +65,8 @@ func TestSearchAirline(t *testing.T) {
 	}
 	// The record of the search: the chosen candidate is scored, its
 	// score is the smallest, and it matches the returned model.
-	if r.Approximated || r.Exhaustive {
-		t.Errorf("Approximated %v Exhaustive %v for a 144-point monthly series, want exact stepwise", r.Approximated, r.Exhaustive)
+	if r.RankedByCSS || r.Exhaustive {
+		t.Errorf("RankedByCSS %v Exhaustive %v for a 144-point monthly series, want exact stepwise", r.RankedByCSS, r.Exhaustive)
 	}
 	ch := r.Candidates[r.Chosen]
 	if ch.Err != nil || ch.Spec.P != sp.P || ch.Spec.Q != sp.Q || ch.Spec.SP != sp.SP || ch.Spec.SQ != sp.SQ {
@@ -232,9 +232,9 @@ func TestSearchScaleInvariance(t *testing.T) {
 func TestSearchMissingValues(t *testing.T) {
 	v := append([]float64(nil), selNile...)
 	v[10], v[11], v[50] = math.NaN(), math.NaN(), math.NaN()
-	r := searchFit(t, arima.Search{Approximation: arima.ApproxAlways}, yearly("Nile with gaps", v))
-	if r.Approximated {
-		t.Error("Approximated with missing values; CSS cannot handle them")
+	r := searchFit(t, arima.Search{Likelihood: arima.LikelihoodCSS}, yearly("Nile with gaps", v))
+	if r.RankedByCSS {
+		t.Error("RankedByCSS with missing values; CSS cannot handle them")
 	}
 	fc, err := r.Forecast(5)
 	if err != nil {
@@ -247,9 +247,9 @@ func TestSearchMissingValues(t *testing.T) {
 	}
 }
 
-// TestSearchApproximate: a long series is searched by CSS and the chosen
+// TestSearchRankedByCSS: a long series is searched by CSS and the chosen
 // model refitted by exact likelihood.
-func TestSearchApproximate(t *testing.T) {
+func TestSearchRankedByCSS(t *testing.T) {
 	src := rand.New(rand.NewPCG(3, 5))
 	v := make([]float64, 240)
 	e1 := 0.0
@@ -262,7 +262,7 @@ func TestSearchApproximate(t *testing.T) {
 		e1 = e
 	}
 	r := searchFit(t, arima.Search{}, yearly("invented ARMA(1,1)", v))
-	if !r.Approximated {
+	if !r.RankedByCSS {
 		t.Error("a 240-point series was not searched by CSS")
 	}
 	if r.Method() == arima.CSS {
@@ -369,10 +369,10 @@ func TestSearchBadInput(t *testing.T) {
 		// six values are too few for its five coefficients.
 		{"nothing fits", context.Background(), arima.Search{D: arima.NoDifferencing, MaxModels: 1}, yearly("six", []float64{1, 4, 2, 8, 5, 7}),
 			[]error{almanac.ErrNotFitted, almanac.ErrTooShort}},
-		{"negative MaxOrder", context.Background(), arima.Search{MaxOrder: -1}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
+		{"negative MaxTerms", context.Background(), arima.Search{MaxTerms: -1}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
 		{"bad D", context.Background(), arima.Search{D: -2}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
 		{"bad criterion", context.Background(), arima.Search{Criterion: 7}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
-		{"bad approximation", context.Background(), arima.Search{Approximation: -1}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
+		{"bad likelihood", context.Background(), arima.Search{Likelihood: -1}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
 		{"SD on a yearly series", context.Background(), arima.Search{SD: 1}, yearly("lh", selLH), []error{almanac.ErrTooShort}},
 		{"canceled", canceled, arima.Search{}, yearly("lh", selLH), []error{context.Canceled}},
 		{"canceled exhaustive", canceled, arima.Search{Exhaustive: true}, yearly("lh", selLH), []error{context.Canceled}},
@@ -399,8 +399,9 @@ func TestSearchEnumStrings(t *testing.T) {
 		{"AICc", arima.AICc.String(), "AICc"},
 		{"BIC", arima.BIC.String(), "BIC"},
 		{"unknown criterion", arima.Criterion(9).String(), "Criterion(9)"},
-		{"approx auto", arima.ApproxAuto.String(), "auto"},
-		{"unknown approx", arima.Approximation(5).String(), "Approximation(5)"},
+		{"likelihood auto", arima.LikelihoodAuto.String(), "auto"},
+		{"likelihood CSS", arima.LikelihoodCSS.String(), "CSS"},
+		{"unknown likelihood", arima.SearchLikelihood(5).String(), "SearchLikelihood(5)"},
 		{"candidate with drift", arima.Candidate{Spec: arima.Spec{D: 1, Q: 1, Constant: arima.ConstantInclude}}.String(), "ARIMA(0,1,1) with drift"},
 		{"candidate with mean", arima.Candidate{Spec: arima.Spec{P: 1, Constant: arima.ConstantInclude}}.String(), "ARIMA(1,0,0) with mean"},
 		{"candidate without constant", arima.Candidate{Spec: arima.Spec{P: 1, Constant: arima.ConstantNone}}.String(), "ARIMA(1,0,0)"},
