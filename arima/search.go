@@ -237,7 +237,11 @@ type SearchResult struct {
 	SeasonalStrength float64
 }
 
-var _ almanac.Fitted = (*SearchResult)(nil)
+var (
+	_ almanac.Fitted       = (*SearchResult)(nil)
+	_ almanac.ParamCounter = (*SearchResult)(nil)
+	_ almanac.Simulator    = (*SearchResult)(nil)
+)
 
 // Ranked returns the indices into Candidates of the scored candidates,
 // best first (ties in candidate order), for reporting.
