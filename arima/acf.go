@@ -53,7 +53,8 @@ func DefaultMaxLag(n int) int {
 // Special cases:
 //   - fewer than 2 observed values: an error wrapping almanac.ErrTooShort
 //     (almanac.ErrEmpty for no values, almanac.ErrAllMissing when all are NaN);
-//   - ±Inf: almanac.ErrNonFinite;
+//   - ±Inf, or values so large that their sums of squares overflow:
+//     almanac.ErrNonFinite;
 //   - constant observed values: almanac.ErrConstant;
 //   - maxLag < 0: almanac.ErrInvalid.
 func ACF(y []float64, maxLag int) (Correlogram, error) {
@@ -62,6 +63,9 @@ func ACF(y []float64, maxLag int) (Correlogram, error) {
 		return Correlogram{}, err
 	}
 	c := Correlogram{Lags: make([]int, maxLag+1), Values: tsstat.ACF(y, maxLag), N: n, Bound: 1.96 / math.Sqrt(float64(n))}
+	if err := checkCorrelogram(c.Values); err != nil {
+		return Correlogram{}, err
+	}
 	for k := range c.Lags {
 		c.Lags[k] = k
 	}
@@ -78,10 +82,24 @@ func PACF(y []float64, maxLag int) (Correlogram, error) {
 		return Correlogram{}, err
 	}
 	c := Correlogram{Lags: make([]int, maxLag), Values: tsstat.PACF(y, maxLag), N: n, Bound: 1.96 / math.Sqrt(float64(n))}
+	if err := checkCorrelogram(c.Values); err != nil {
+		return Correlogram{}, err
+	}
 	for k := range c.Lags {
 		c.Lags[k] = k + 1
 	}
 	return c, nil
+}
+
+// checkCorrelogram reports values that overflowed (data so large that
+// the sums of squares are infinite).
+func checkCorrelogram(v []float64) error {
+	for _, x := range v {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return fmt.Errorf("arima: %w: correlogram values are not finite (values too large for their sums of squares, or a degenerate series)", almanac.ErrNonFinite)
+		}
+	}
+	return nil
 }
 
 func correlogramInput(y []float64, maxLag int) (n, lag int, err error) {

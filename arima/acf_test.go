@@ -113,6 +113,7 @@ func TestACFBadInput(t *testing.T) {
 		{"constant", []float64{2, 2, 2, 2}, 1, almanac.ErrConstant},
 		{"infinite", []float64{1, math.Inf(1), 3}, 1, almanac.ErrNonFinite},
 		{"negative lag", []float64{1, 2, 3}, -1, almanac.ErrInvalid},
+		{"overflowing values", []float64{1e300, -1e300, 1e300, -1e300}, 2, almanac.ErrNonFinite},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

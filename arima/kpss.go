@@ -176,7 +176,8 @@ func (r KPSSResult) Reject(alpha float64) (bool, error) {
 // Special cases:
 //   - a NaN in y gives an error wrapping almanac.ErrMissing (difference
 //     and drop missing values first, as Differences does);
-//   - ±Inf gives almanac.ErrNonFinite;
+//   - ±Inf, or values so large that the sums of squares overflow, give
+//     almanac.ErrNonFinite;
 //   - fewer than 3 values gives almanac.ErrTooShort;
 //   - constant residuals (zero long-run variance) give almanac.ErrConstant;
 //   - a fixed lag outside [0, n) or an unknown rule or null gives
@@ -230,6 +231,9 @@ func KPSS(y []float64, spec KPSSSpec) (KPSSResult, error) {
 	}
 	eta /= float64(n) * float64(n)
 	stat := eta / s2
+	if math.IsNaN(stat) || math.IsInf(stat, 0) || math.IsInf(s2, 0) {
+		return KPSSResult{}, fmt.Errorf("arima: %w: KPSS sums overflow; the values are too large (rescale the series)", almanac.ErrNonFinite)
+	}
 
 	r := KPSSResult{Null: spec.Null, N: n, Lags: lags, Statistic: stat, Critical: kpssTable[spec.Null]}
 	r.PValue, r.Clipped = kpssPValue(stat, r.Critical[:])

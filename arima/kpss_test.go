@@ -126,6 +126,7 @@ func TestKPSSBadInput(t *testing.T) {
 		{"negative fixed lag", []float64{1, 3, 2, 4}, arima.KPSSSpec{LagRule: arima.LagFixed, Lags: -1}, almanac.ErrInvalid},
 		{"unknown rule", []float64{1, 3, 2, 4}, arima.KPSSSpec{LagRule: 9}, almanac.ErrInvalid},
 		{"unknown null", []float64{1, 3, 2, 4}, arima.KPSSSpec{Null: 7}, almanac.ErrInvalid},
+		{"overflowing values", []float64{1e300, -1e300, 1e300, -1e300, 5}, arima.KPSSSpec{}, almanac.ErrNonFinite},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

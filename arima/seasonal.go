@@ -52,7 +52,8 @@ type SeasonalDifferencesSpec struct {
 //   - period < 2 or span < 0: an error wrapping almanac.ErrInvalid;
 //   - no more than two full periods of observed data: almanac.ErrTooShort;
 //   - no values, all missing, ±Inf: almanac.ErrEmpty,
-//     almanac.ErrAllMissing, almanac.ErrNonFinite;
+//     almanac.ErrAllMissing, almanac.ErrNonFinite (also for values so
+//     large that the decomposition or the variances overflow);
 //   - a constant series, or S + R constant: 0 (no seasonality), no error.
 func SeasonalStrength(y []float64, period, span int) (float64, error) {
 	if period < 2 {
@@ -86,11 +87,14 @@ func selStrength(x []float64, period, span int) (float64, error) {
 	for i := range s {
 		s[i] += r[i]
 	}
-	vsr := selVariance(s)
+	vsr, vr := selVariance(s), selVariance(r)
+	if math.IsNaN(vsr) || math.IsInf(vsr, 0) || math.IsNaN(vr) || math.IsInf(vr, 0) {
+		return 0, fmt.Errorf("arima: %w: seasonal strength: variances overflow; the values are too large (rescale the series)", almanac.ErrNonFinite)
+	}
 	if !(vsr > 0) {
 		return 0, nil
 	}
-	return max(0, 1-selVariance(r)/vsr), nil
+	return max(0, 1-vr/vsr), nil
 }
 
 // SeasonalDifferences chooses the order of seasonal differencing D for

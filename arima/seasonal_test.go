@@ -97,6 +97,7 @@ func TestSeasonalBadInput(t *testing.T) {
 		{"negative MaxD", selLH, 4, arima.SeasonalDifferencesSpec{MaxD: -1}, almanac.ErrInvalid},
 		{"threshold 1", selLH, 4, arima.SeasonalDifferencesSpec{Threshold: 1}, almanac.ErrInvalid},
 		{"negative span", selLH, 4, arima.SeasonalDifferencesSpec{Span: -3}, almanac.ErrInvalid},
+		{"overflowing values", []float64{1e300, -1e300, 1e300, -1e300, 1e300, -1e300, 1e300, -1e300, 5}, 2, arima.SeasonalDifferencesSpec{}, almanac.ErrNonFinite},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
