@@ -86,6 +86,12 @@
 // the objective with step 10⁻³ in the same units, AR coefficients
 // untransformed.
 //
+// The fit works on y divided by a power of two close to its largest
+// absolute value (an exact operation in floating point) and scales the
+// results back, so that data of any magnitude, 1e-200 or 1e250, fit and
+// forecast alike (forecasts of c·y are c times those of y; the test covers
+// c = 1e-200 and 3e250).
+//
 // Regressors whose columns are linearly dependent after the model's
 // differencing are rejected (ErrCollinear) with their names.
 //

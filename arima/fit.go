@@ -42,8 +42,23 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 	for _, r := range s.Regressors {
 		x = append(x, append([]float64(nil), r.Values...))
 	}
+	// Work on y/c with c a power of two near the largest |y| (exact in
+	// floating point), so that neither tiny nor huge data overflow the
+	// sums of squares; results are scaled back at the end. Regression
+	// coefficients (and their fixed values) scale with y.
 	yv := y.Slice()
-	pr := newProblem(lay, yv, x, s.Fixed, s.Prior)
+	c := dataScale(yv)
+	for i := range yv {
+		yv[i] /= c
+	}
+	fixed := make(map[string]float64, len(s.Fixed))
+	for name, v := range s.Fixed {
+		if i := lay.index(name); i >= lay.narma() {
+			v /= c
+		}
+		fixed[name] = v
+	}
+	pr := newProblem(lay, yv, x, fixed, s.Prior)
 	k := len(pr.free)
 	nd := lay.d + lay.s*lay.sd
 	if pr.nUsed < k+2 {
@@ -96,7 +111,7 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 				}
 			}
 		}
-		for name, v := range s.Fixed {
+		for name, v := range fixed {
 			for i, nm := range lay.names {
 				if nm == name {
 					start[i] = v
@@ -106,7 +121,7 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 	}
 
 	f := &Fitted{spec: s, lay: lay, key: y.Key, start: y.Start, freq: y.Freq, n: n, method: method, nUsed: pr.nUsed}
-	f.y = yv
+	f.y = y.Slice()
 	f.x = x
 	coef := start
 	var cov *mat.SymDense
@@ -232,7 +247,55 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 	if method == CSS {
 		f.ncond = pr.ncond
 	}
+	f.rescale(c, na)
 	return f, nil
+}
+
+// dataScale returns a power of two close to the largest |v| (1 when all
+// are zero or missing).
+func dataScale(v []float64) float64 {
+	m := 0.0
+	for _, x := range v {
+		if a := math.Abs(x); a > m {
+			m = a
+		}
+	}
+	if m == 0 || math.IsNaN(m) || math.IsInf(m, 0) {
+		return 1
+	}
+	_, e := math.Frexp(m)
+	return math.Ldexp(1, e)
+}
+
+// rescale turns a fit of y/c into the fit of y: regression coefficients
+// (and their standard errors), residuals and the filtered state scale
+// with c, σ² with c², and the log-likelihood gains −n log c (the density
+// of y is that of y/c divided by c per observation).
+func (f *Fitted) rescale(c float64, na int) {
+	f.covScale = make([]float64, len(f.free))
+	for a, i := range f.free {
+		f.covScale[a] = 1
+		if i >= na {
+			f.covScale[a] = c
+		}
+	}
+	f.sigma = math.Sqrt(f.sigma2) * c
+	if c == 1 {
+		return
+	}
+	for i := na; i < len(f.coef); i++ {
+		f.coef[i] *= c
+	}
+	for i := range f.resid {
+		f.resid[i] *= c
+	}
+	f.sigma2 *= c * c
+	f.loglik -= float64(f.nUsed) * math.Log(c)
+	if f.kal != nil {
+		for i := range f.kal.a {
+			f.kal.a[i] *= c
+		}
+	}
 }
 
 // invertBlocks replaces non-invertible MA and seasonal MA blocks of coef

@@ -33,6 +33,8 @@ type Fitted struct {
 	resid []float64
 
 	sigma2, loglik float64
+	sigma          float64   // √σ², kept separately so extreme scales do not under/overflow
+	covScale       []float64 // cov is for the coefficients divided by these (data scale for regression ones)
 	converged      bool
 }
 
@@ -62,7 +64,7 @@ func (f *Fitted) Coef() []Coefficient {
 	for fi, i := range f.free {
 		out[i].Fixed = false
 		if f.cov != nil {
-			out[i].StdErr = math.Sqrt(f.cov.At(fi, fi))
+			out[i].StdErr = math.Sqrt(f.cov.At(fi, fi)) * f.covScale[fi]
 		}
 	}
 	return out
@@ -76,7 +78,14 @@ func (f *Fitted) CoefCov() *mat.SymDense {
 	if f.cov == nil {
 		return nil
 	}
-	return mat.NewSymDense(f.cov.SymmetricDim(), append([]float64(nil), f.cov.RawSymmetric().Data...))
+	k := f.cov.SymmetricDim()
+	out := mat.NewSymDense(k, nil)
+	for i := 0; i < k; i++ {
+		for j := 0; j <= i; j++ {
+			out.SetSym(i, j, f.cov.At(i, j)*f.covScale[i]*f.covScale[j])
+		}
+	}
+	return out
 }
 
 // Sigma2 returns the estimated innovation variance σ²: the sum of squared
@@ -236,7 +245,7 @@ func (f *Fitted) ForecastWith(h int, future [][]float64, levels ...float64) (alm
 	sd := make([]float64, h)
 	k.forecast(mean, sd)
 	for i := range sd {
-		sd[i] = math.Sqrt(sd[i] * f.sigma2)
+		sd[i] = math.Sqrt(sd[i]) * f.sigma
 	}
 	na := f.lay.narma()
 	j := na

@@ -41,6 +41,16 @@ func newLayout(p, d, q, sp, sd, sq, s int, mean, drift bool, regNames []string) 
 }
 
 func (l *layout) narma() int { return l.p + l.q + l.sp + l.sq }
+
+// index returns the position of a coefficient name, or −1.
+func (l *layout) index(name string) int {
+	for i, n := range l.names {
+		if n == name {
+			return i
+		}
+	}
+	return -1
+}
 func (l *layout) ncoef() int { return len(l.names) }
 func (l *layout) nreg() int  { return len(l.names) - l.narma() }
 

@@ -75,7 +75,7 @@ func (f *Fitted) SimulateWith(h, n int, future [][]float64, src rand.Source) ([]
 			root.Set(i, j, vec.At(i, j)*s)
 		}
 	}
-	sigma := math.Sqrt(f.sigma2) // the covariance is in units of σ²
+	sigma := f.sigma // the covariance is in units of σ²
 	a0 := append([]float64(nil), k.a...)
 	rng := rand.New(src)
 	paths := make([][]float64, n)

@@ -3,6 +3,7 @@ package arima
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"sync"
@@ -341,7 +342,8 @@ func TestDiffuseFilterEqualsShortcut(t *testing.T) {
 }
 
 // TestScaleInvariance: forecasts of c·y are c times the forecasts of y
-// (DESIGN.md), for a seasonal differenced model and one with a mean.
+// (DESIGN.md), for a seasonal differenced model and one with a mean, for
+// ordinary and extreme c (the fit works on y divided by a power of two).
 func TestScaleInvariance(t *testing.T) {
 	for _, tc := range []struct {
 		name, fixture string
@@ -352,23 +354,26 @@ func TestScaleInvariance(t *testing.T) {
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, y := fixtureData(t, tc.fixture)
-			const c = 1000
-			yc := y.Clone()
-			for i := range yc.Values {
-				yc.Values[i] *= c
-			}
 			f1 := mustFit(t, tc.spec, y)
-			f2 := mustFit(t, tc.spec, yc)
 			a, err := f1.Forecast(12)
 			if err != nil {
 				t.Fatal(err)
 			}
-			b, err := f2.Forecast(12)
-			if err != nil {
-				t.Fatal(err)
+			for _, c := range []float64{1000, 1e-200, 3e250} {
+				yc := y.Clone()
+				for i := range yc.Values {
+					yc.Values[i] *= c
+				}
+				f2 := mustFit(t, tc.spec, yc)
+				b, err := f2.Forecast(12)
+				if err != nil {
+					t.Fatal(err)
+				}
+				numtest.Slice(t, fmt.Sprintf("mean, c = %g", c), b.Mean, scaled(a.Mean, c), 0, 1e-6)
+				numtest.Slice(t, fmt.Sprintf("se, c = %g", c), sdOf(b), scaled(sdOf(a), c), 0, 1e-5)
+				// log L(c·y) = log L(y) − n log c.
+				numtest.Scalar(t, fmt.Sprintf("loglik, c = %g", c), f2.LogLik(), f1.LogLik()-float64(f1.NumObs())*math.Log(c), 1e-6, 1e-9)
 			}
-			numtest.Slice(t, "mean", b.Mean, scaled(a.Mean, c), 0, 1e-6)
-			numtest.Slice(t, "se", sdOf(b), scaled(sdOf(a), c), 0, 1e-5)
 		})
 	}
 }
