@@ -113,7 +113,19 @@ const (
 //	arima.Search{MaxP: 3, MaxQ: 3, MaxSP: -1, MaxSQ: -1, SD: arima.NoDifferencing}
 //	arima.Search{Exhaustive: true, Workers: 4, Criterion: arima.BIC}
 //
-// A Search is a plain value, safe to share between goroutines.
+// A Search is a plain value, safe to share between goroutines. Fit runs
+// the candidates one after another (the exhaustive search on Workers
+// goroutines, results written by grid index), so the result is the same
+// whatever the number of goroutines.
+//
+// Performance (BenchmarkSearch, one core of a 2-core machine shared with
+// other jobs, so indicative): the default stepwise search on the
+// 144-point log air passengers series fits 14 models in 120–300 ms
+// depending on the load, most of it in two candidates whose seasonal
+// polynomials approach the unit circle (each 20–80 ms in Spec.Fit before
+// the root screen rejects them); with CSS ranking on the first 72 points
+// about 5 ms; non-seasonal series of 100–1600 points 6–90 ms. Nearly all
+// the time is spent in Spec.Fit.
 type Search struct {
 	// MaxP and MaxQ bound the non-seasonal AR and MA orders (0 means 5,
 	// negative means 0).
