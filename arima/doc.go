@@ -79,9 +79,12 @@
 // regression columns (mean and drift included) and none fixed, the
 // regression coefficients are optimised in the basis of the singular
 // vectors of the regression matrix, scaled by ten least-squares standard
-// errors. The minimiser is a quasi-Newton (BFGS) method with central
-// difference gradients (step 10⁻⁵ in those units); it stands in for
-// gonum/optimize, which cannot be built with the module's current go.sum.
+// errors. The minimiser is a quasi-Newton (BFGS) method in the form of
+// Nash (1990), with forward-difference gradients (step 10⁻⁷ in those
+// units) and a relative convergence tolerance of 10⁻¹⁰ on the objective,
+// at most 200 iterations (Fitted.Converged reports a stop at the limit);
+// it stands in for gonum/optimize, which cannot be built with the
+// module's current go.sum.
 // Standard errors come from inv(n·H), H the central-difference Hessian of
 // the objective with step 10⁻³ in the same units, AR coefficients
 // untransformed.
