@@ -187,6 +187,63 @@ func TestSearchExhaustiveDeterministic(t *testing.T) {
 	}
 }
 
+// TestSearchConcurrentFits: one Search value fitted from several
+// goroutines at once (as batch fitting does) gives the same models and
+// bit-identical forecasts as fitting one series after another (DESIGN.md:
+// a Model is safe for concurrent use and results do not depend on the
+// number of goroutines).
+func TestSearchConcurrentFits(t *testing.T) {
+	series := []almanac.Series{
+		yearly("lh", selLH),
+		yearly("Nile", selNile),
+		yearly("Series F", selSeriesF),
+		monthly("log AirPassengers", logOf(selAirPassengers)),
+	}
+	s := arima.Search{}
+	want := make([][]float64, len(series))
+	names := make([]string, len(series))
+	for i, y := range series {
+		r := searchFit(t, s, y)
+		fc, err := r.Forecast(6)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want[i], names[i] = fc.Mean, r.String()
+	}
+	got := make([][]float64, len(series))
+	gotNames := make([]string, len(series))
+	errs := make([]error, len(series))
+	done := make(chan struct{})
+	for i, y := range series {
+		go func() {
+			defer func() { done <- struct{}{} }()
+			f, err := s.Fit(context.Background(), y)
+			if err != nil {
+				errs[i] = err
+				return
+			}
+			fc, err := f.Forecast(6)
+			got[i], gotNames[i], errs[i] = fc.Mean, f.String(), err
+		}()
+	}
+	for range series {
+		<-done
+	}
+	for i := range series {
+		if errs[i] != nil {
+			t.Fatalf("%s: %v", series[i].Key, errs[i])
+		}
+		if gotNames[i] != names[i] {
+			t.Errorf("%s: concurrent fit chose %s, sequential %s", series[i].Key, gotNames[i], names[i])
+		}
+		for h := range want[i] {
+			if math.Float64bits(got[i][h]) != math.Float64bits(want[i][h]) {
+				t.Errorf("%s: forecast %d = %v concurrently, %v sequentially", series[i].Key, h, got[i][h], want[i][h])
+			}
+		}
+	}
+}
+
 // TestSearchScaleInvariance: forecasts of c·y are c times the forecasts of
 // y (DESIGN.md), with the same model chosen. The tolerance 1e-4 relative
 // allows for the optimiser stopping at slightly different points on the
