@@ -5,6 +5,7 @@ import (
 
 	"github.com/almanac-go/almanac/internal/numtest"
 	"github.com/almanac-go/almanac/internal/reftest"
+	"github.com/almanac-go/almanac/internal/tsstat"
 )
 
 // The "acf_pacf" fixtures (testdata/reference/acf_*.json, copied unchanged
@@ -14,9 +15,9 @@ func init() { handlers["acf_pacf"] = checkACFPACF }
 
 // checkACFPACF compares ACF and PACF with R 4.2.2 stats::acf(x, lag.max)
 // and stats::pacf(x, lag.max) at the fixture's tolerances (acf 1e-13
-// absolute, pacf 1e-11 absolute), lags included. The autocovariances
-// (expect.acov) are those of internal/tsstat, which ACF divides by the
-// lag-0 value; they are checked there, not here.
+// absolute, pacf 1e-11 absolute), lags included, and the autocovariances
+// that ACF divides by their lag-0 value (internal/tsstat.Autocov) with
+// acf(x, lag.max, type = "covariance") at 1e-12 relative.
 func checkACFPACF(t *testing.T, f *reftest.Fixture) {
 	x := f.Floats(t, "input")
 	maxLag := int(f.Float(t, "spec.lag_max"))
@@ -28,6 +29,12 @@ func checkACFPACF(t *testing.T, f *reftest.Fixture) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	acov := tsstat.Autocov(make([]float64, maxLag+1), x, maxLag)
+	abs, rel, ok := f.Tol("acov")
+	if !ok {
+		t.Fatal("no tolerance for acov")
+	}
+	numtest.Slice(t, "acov", acov, f.Floats(t, "expect.acov.values"), abs, rel)
 	for _, c := range []struct {
 		key string
 		got Correlogram
