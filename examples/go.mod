@@ -4,4 +4,6 @@ go 1.26.0
 
 require github.com/almanac-go/almanac v0.0.0
 
+require gonum.org/v1/gonum v0.17.0 // indirect
+
 replace github.com/almanac-go/almanac => ../
