@@ -88,8 +88,8 @@ func newProblem(lay *layout, y []float64, x [][]float64, fixed map[string]float6
 	pr.theta = make([]float64, qf)
 	pr.w = make([]float64, pr.n)
 	pr.work = make([]float64, max(lay.p, lay.sp))
-	pr.kal.resize(pf, qf, lay.delta())
 	pr.kal.exact = prior == DiffusePrior
+	pr.kal.resize(pf, qf, lay.delta())
 	pr.css.resize(pr.n, pf, qf)
 	return pr
 }

@@ -325,9 +325,8 @@ func invertBlocks(pr *problem, coef []float64) {
 
 // clone returns an independent copy of the filter (state and model).
 func (k *kalman) clone() *kalman {
-	c := &kalman{}
+	c := &kalman{exact: k.exact}
 	c.resize(k.p, len(k.theta), k.delta)
-	c.exact = k.exact
 	c.setARMA(k.phi, k.theta)
 	copy(c.a, k.a)
 	copy(c.pm, k.pm)

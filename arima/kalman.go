@@ -109,9 +109,11 @@ func (k *kalman) resize(p, q int, delta []float64) {
 	k.rv = grow(k.rv, r)
 	k.g = grow(k.g, r)
 	k.gam = grow(k.gam, max(r, nd)+1)
-	k.pinf = grow(k.pinf, rd*rd)
-	k.pinfNew = grow(k.pinfNew, rd*rd)
-	k.minf = grow(k.minf, rd)
+	if k.exact && nd > 0 { // set exact before resize
+		k.pinf = grow(k.pinf, rd*rd)
+		k.pinfNew = grow(k.pinfNew, rd*rd)
+		k.minf = grow(k.minf, rd)
+	}
 	k.cm = grow(k.cm, r*nd)
 	k.sm = grow(k.sm, nd*nd)
 	k.zv = grow(k.zv, nd)
