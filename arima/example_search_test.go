@@ -81,6 +81,54 @@ func ExampleSearch_exhaustive() {
 	// ARIMA(1,0,0)(0,1,1)[12]              BIC 722.2
 }
 
+// ExampleSearch_regressors chooses the ARIMA errors of a regression on a
+// promotion indicator (invented weekly-sales scenario: a shop runs a
+// promotion now and then, which lifts sales by about 40 units) and
+// forecasts with the promotions planned for the next four weeks.
+func ExampleSearch_regressors() {
+	src := rand.New(rand.NewPCG(2, 1))
+	n := 80
+	promo := make([]float64, n)
+	sales := make([]float64, n)
+	noise := 0.0
+	for t := range sales {
+		if t%10 == 3 || t%17 == 8 {
+			promo[t] = 1
+		}
+		noise = 0.5*noise + 8*src.NormFloat64()
+		sales[t] = math.Round(200 + 40*promo[t] + noise)
+	}
+	y := almanac.Series{Key: "shop sales", Start: time.Date(2024, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Weekly, Values: sales}
+	s := arima.Search{Regressors: []arima.Regressor{{Name: "promotion", Values: promo}}}
+	fit, err := s.Fit(context.Background(), y)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	res := fit.(*arima.SearchResult)
+	fmt.Println("chosen:", res)
+	for _, c := range res.Coef() {
+		if c.Name == "promotion" {
+			fmt.Printf("promotion effect %.1f (s.e. %.1f)\n", c.Value, c.StdErr)
+		}
+	}
+	fc, err := res.ForecastWith(4, [][]float64{{0, 1, 0, 0}}, 90)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for h, m := range fc.Mean {
+		fmt.Printf("week %d: %.0f\n", h+1, m)
+	}
+	// Output:
+	// chosen: ARIMA(1,0,0) with mean, with regressors (promotion)
+	// promotion effect 39.8 (s.e. 2.3)
+	// week 1: 203
+	// week 2: 241
+	// week 3: 201
+	// week 4: 201
+}
+
 // ExampleKPSS tests a series for level and for trend stationarity, then
 // chooses the orders of ordinary and seasonal differencing.
 func ExampleKPSS() {
