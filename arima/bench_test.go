@@ -23,12 +23,23 @@ func logAirPassengers(tb testing.TB) almanac.Series {
 	return almanac.Series{Key: "log air passengers", Start: time.Date(1949, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly, Values: f.Floats(tb, "input")}
 }
 
-var airline = Spec{D: 1, Q: 1, SD: 1, SQ: 1, Method: ML}
+var airline = Spec{D: 1, Q: 1, SD: 1, SQ: 1}
 
 // BenchmarkFitAirline fits the airline model to log air passengers (144
-// monthly values) by ML and by CSS then ML.
+// monthly values) by ML, by CSS then ML and by CSS, and by CSS then ML
+// with the standard errors (computed on first use, a Hessian).
 func BenchmarkFitAirline(b *testing.B) {
 	y := logAirPassengers(b)
+	b.Run("CSS-ML+SE", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			f, err := airline.Fit(context.Background(), y)
+			if err != nil {
+				b.Fatal(err)
+			}
+			f.(*Fitted).Coef()
+		}
+	})
 	for _, m := range []Method{ML, CSSThenML, CSS} {
 		s := airline
 		s.Method = m

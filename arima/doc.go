@@ -109,20 +109,23 @@
 // # Performance
 //
 // Measured with the package benchmarks (go test -bench . -cpu 1) on a
-// 2-core machine shared with other jobs (load average 7–10 while
-// measuring), so the figures are indicative; the lower ends are the
-// quieter runs:
+// 2-core machine shared with other jobs, so the figures are indicative
+// (the first figure is from a quiet moment, load average about 2.5; under
+// heavy load, 7–10, they were up to 2.5 times higher):
 //
 //   - airline model (0,1,1)(0,1,1)[12] on log air passengers, 144 monthly
-//     values: CSS then ML (the default) 1.2–1.6 ms per fit, ML from zero
-//     coefficients 1.9–4.7 ms, CSS alone 0.14–0.27 ms, about 68 kB and 180
-//     allocations per fit (R's arima takes about 19 ms for this fit, as
-//     reported in the issue; not measured here);
-//   - one exact likelihood evaluation of that model: 33–60 µs at n = 144,
-//     150 µs at n = 576, with 0 allocations (TestNoAllocPerLikelihood
-//     asserts it, with and without missing values);
-//   - ARIMA(1,1,1) with drift, CSS then ML: 0.5 ms at n = 144, 32 ms at
-//     n = 14 400.
+//     values: CSS then ML (the default) 1.25 ms per fit, 1.8 ms including
+//     the standard errors (their Hessian is computed on the first call of
+//     Coef or CoefCov); ML from zero coefficients 1.3 ms; CSS alone
+//     0.11 ms; about 70 kB and 165 allocations per fit. (R's arima takes
+//     about 19 ms for this fit, as reported in the issue; not measured
+//     here.)
+//   - one exact likelihood evaluation of that model: 35 µs at n = 144,
+//     140 µs at n = 576; ARIMA(2,0,1)(1,0,0)[12]: 46 µs and 177 µs; 0
+//     allocations (TestNoAllocPerLikelihood asserts it, with and without
+//     missing values);
+//   - ARIMA(1,1,1) with drift, CSS then ML: 0.4 ms at n = 144, 5.7 ms at
+//     n = 1440, 15 ms at n = 14 400.
 //
 // The likelihood is cheap because only the first d + sD observations go
 // through the full state (in closed form, see below); after them the

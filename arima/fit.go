@@ -124,7 +124,7 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 	f.y = y.Slice()
 	f.x = x
 	coef := start
-	var cov *mat.SymDense
+	var covFn func() *mat.SymDense // the Hessian is computed on first use
 	converged := true
 	if method == CSS || method == CSSThenML {
 		if k > 0 {
@@ -147,7 +147,8 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 				converged = conv
 				coef = append([]float64(nil), pr.coefFrom(xs, false)...)
 				if method == CSS {
-					cov = pr.covariance(obj, xs)
+					xs := xs
+					covFn = func() *mat.SymDense { return pr.covariance(obj, xs) }
 				}
 			}
 		}
@@ -203,14 +204,14 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 			invertBlocks(pr, coef)
 			xr, _ := pr.paramsFrom(coef, false)
 			raw := func(v []float64) float64 { return pr.mlObjective(v, false) }
-			cov = pr.covariance(raw, xr)
+			covFn = func() *mat.SymDense { return pr.covariance(raw, xr) }
 		}
 	}
 
 	// Final quantities at the estimate.
 	f.coef = coef
 	f.free = pr.free
-	f.cov = cov
+	f.covFn = covFn
 	f.converged = converged
 	f.resid = make([]float64, n)
 	res, ok := pr.likelihood(coef, f.resid)

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync"
 	"time"
 
 	"github.com/almanac-go/almanac"
@@ -28,7 +29,12 @@ type Fitted struct {
 	x     [][]float64 // regression columns used in the fit
 	coef  []float64
 	free  []int
-	cov   *mat.SymDense
+	// cov is the covariance of the free coefficients, computed on first
+	// use from covFn (a numerical Hessian costs as much as the fit of a
+	// small model, and model search does not need it).
+	covOnce sync.Once
+	covFn   func() *mat.SymDense
+	cov     *mat.SymDense
 	kal   *kalman // filtered state after the last observation
 	resid []float64
 
@@ -49,7 +55,8 @@ type Coefficient struct {
 	Value float64 // estimate (or the fixed value)
 	// StdErr is the standard error from the numerical Hessian of the
 	// objective (NaN for fixed coefficients or when the Hessian is not
-	// positive definite).
+	// positive definite). The Hessian is computed on the first call of
+	// Coef or CoefCov.
 	StdErr float64
 	Fixed  bool // true when the value was given in Spec.Fixed
 }
@@ -61,10 +68,11 @@ func (f *Fitted) Coef() []Coefficient {
 	for i, name := range f.lay.names {
 		out[i] = Coefficient{Name: name, Value: f.coef[i], StdErr: math.NaN(), Fixed: true}
 	}
+	cov := f.covariance()
 	for fi, i := range f.free {
 		out[i].Fixed = false
-		if f.cov != nil {
-			out[i].StdErr = math.Sqrt(f.cov.At(fi, fi)) * f.covScale[fi]
+		if cov != nil {
+			out[i].StdErr = math.Sqrt(cov.At(fi, fi)) * f.covScale[fi]
 		}
 	}
 	return out
@@ -75,17 +83,30 @@ func (f *Fitted) Coef() []Coefficient {
 // is not available (no estimated coefficient, or a Hessian that is not
 // positive definite).
 func (f *Fitted) CoefCov() *mat.SymDense {
-	if f.cov == nil {
+	cov := f.covariance()
+	if cov == nil {
 		return nil
 	}
-	k := f.cov.SymmetricDim()
+	k := cov.SymmetricDim()
 	out := mat.NewSymDense(k, nil)
 	for i := 0; i < k; i++ {
 		for j := 0; j <= i; j++ {
-			out.SetSym(i, j, f.cov.At(i, j)*f.covScale[i]*f.covScale[j])
+			out.SetSym(i, j, cov.At(i, j)*f.covScale[i]*f.covScale[j])
 		}
 	}
 	return out
+}
+
+// covariance returns the (scaled) coefficient covariance, computing it on
+// the first call.
+func (f *Fitted) covariance() *mat.SymDense {
+	f.covOnce.Do(func() {
+		if f.covFn != nil {
+			f.cov = f.covFn()
+			f.covFn = nil
+		}
+	})
+	return f.cov
 }
 
 // Sigma2 returns the estimated innovation variance σ²: the sum of squared

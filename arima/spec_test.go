@@ -399,6 +399,22 @@ func TestDeterminism(t *testing.T) {
 		})
 	}
 	wg.Wait()
+	// Concurrent reads of one Fitted (the standard errors are computed on
+	// first use) agree bit for bit.
+	shared := mustFit(t, airline, y)
+	ses := make([][]Coefficient, workers)
+	var wg2 sync.WaitGroup
+	for i := range ses {
+		wg2.Go(func() { ses[i] = shared.Coef() })
+	}
+	wg2.Wait()
+	for i := range ses {
+		for j, c := range ses[i] {
+			if c != ses[0][j] || c.StdErr != ref.Coef()[j].StdErr {
+				t.Errorf("reader %d: coefficient %d differs: %+v vs %+v", i, j, c, ses[0][j])
+			}
+		}
+	}
 	for i, f := range fits {
 		if f == nil {
 			t.Fatalf("worker %d failed", i)
