@@ -25,18 +25,18 @@ type Fitted struct {
 	nUsed  int
 	ncond  int
 
-	y     []float64
-	x     [][]float64 // regression columns used in the fit
-	coef  []float64
-	free  []int
+	y    []float64
+	x    [][]float64 // regression columns used in the fit
+	coef []float64
+	free []int
 	// cov is the covariance of the free coefficients, computed on first
 	// use from covFn (a numerical Hessian costs as much as the fit of a
 	// small model, and model search does not need it).
 	covOnce sync.Once
 	covFn   func() *mat.SymDense
 	cov     *mat.SymDense
-	kal   *kalman // filtered state after the last observation
-	resid []float64
+	kal     *kalman // filtered state after the last observation
+	resid   []float64
 
 	sigma2, loglik float64
 	sigma          float64   // √σ², kept separately so extreme scales do not under/overflow
