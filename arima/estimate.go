@@ -231,7 +231,6 @@ func (pr *problem) cssAt(c []float64) (float64, int) {
 // minimize runs the quasi-Newton minimiser on f from x0.
 func minimize(ctx context.Context, f func([]float64) float64, x0 []float64) (x []float64, fmin float64, converged bool, err error) {
 	q := newQuasiNewton(len(x0))
-	q.forward, q.h = true, 1e-7
 	x, fmin, converged, err = q.minimize(ctx, f, x0)
 	if ctxErr := ctx.Err(); ctxErr != nil {
 		return nil, 0, false, fmt.Errorf("arima: %w", ctxErr)

@@ -32,7 +32,7 @@ type quasiNewton struct {
 
 func newQuasiNewton(n int) *quasiNewton {
 	return &quasiNewton{
-		relTol: 1e-10, maxIter: 200, h: 1e-5, n: n,
+		relTol: 1e-10, maxIter: 200, h: 1e-7, forward: true, n: n,
 		b: make([]float64, n), x: make([]float64, n), g: make([]float64, n),
 		c: make([]float64, n), t: make([]float64, n), xp: make([]float64, n), best: make([]float64, n),
 		hinv: make([]float64, n*n),
