@@ -263,6 +263,11 @@ func checkARIMAFixture(t *testing.T, f *reftest.Fixture) {
 	}
 	a, r = tol(t, f, "aic")
 	numtest.Scalar(t, "aic", fit.AIC(), f.Float(t, "expect.aic"), a, r)
+	if f.Has("expect.bic") {
+		// BIC − AIC = (log n − 2)(k + 1) does not depend on the optimum,
+		// so R's BIC(fit) definition is checked exactly through it.
+		numtest.Scalar(t, "bic − aic", fit.BIC()-fit.AIC(), f.Float(t, "expect.bic")-f.Float(t, "expect.aic"), 1e-9, 1e-12)
+	}
 	a, r = tol(t, f, "residuals")
 	numtest.Slice(t, "residuals", fit.Residuals(), f.Floats(t, "expect.residuals"), a, r)
 	fc := forecastOf(t, fit, h, future)
