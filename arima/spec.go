@@ -16,9 +16,13 @@ type Method int
 
 const (
 	// CSSThenML (the zero value): conditional sum of squares first, its
-	// optimum the starting point of exact maximum likelihood. With
-	// missing values CSS is skipped and ML starts from zero ARMA
-	// coefficients.
+	// optimum (with non-invertible MA parts inverted) the starting point
+	// of exact maximum likelihood. ML starts from zero ARMA coefficients
+	// instead when values are missing (CSS is then skipped), when the
+	// series is too short for CSS, when CSS fails, or when the CSS
+	// estimate is not a usable start (AR part not stationary, likelihood
+	// not finite); Fitted.Method still reports CSSThenML unless CSS was
+	// skipped.
 	CSSThenML Method = iota
 	// ML: exact maximum likelihood from zero ARMA coefficients and
 	// least-squares regression coefficients.
