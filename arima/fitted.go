@@ -148,7 +148,7 @@ func (f *Fitted) BIC() float64 {
 }
 
 // Method returns the method actually used (CSSThenML becomes ML when the
-// series has missing values).
+// series has missing values or is too short for CSS).
 func (f *Fitted) Method() Method { return f.method }
 
 // Converged reports whether the optimiser met its convergence test (a
