@@ -110,3 +110,33 @@ func ExampleSpec_regressors() {
 	// step 2: 234.538
 	// step 3: 200.445
 }
+
+// Sample paths for a simulation-based plan: how often do the next three
+// months' garden orders exceed 2 150 units in total?
+func ExampleFitted_Simulate() {
+	y := gardenOrders()
+	fit, err := arima.Spec{P: 1, Q: 1, SD: 1}.Fit(context.Background(), y)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	paths, err := fit.(*arima.Fitted).Simulate(3, 10000, rand.NewPCG(1, 2))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	over := 0
+	for _, p := range paths {
+		if p[0]+p[1]+p[2] > 2150 {
+			over++
+		}
+	}
+	fmt.Println(fit)
+	fc, _ := fit.Forecast(3)
+	fmt.Printf("mean total %.0f\n", fc.Mean[0]+fc.Mean[1]+fc.Mean[2])
+	fmt.Printf("P(total > 2150) ≈ %.2f\n", float64(over)/float64(len(paths)))
+	// Output:
+	// ARIMA(1,0,1)(0,1,0)[12]
+	// mean total 2092
+	// P(total > 2150) ≈ 0.25
+}
