@@ -217,7 +217,10 @@ func (f *Fitted) String() string {
 
 // Forecast returns forecasts for h steps after the end of the series with
 // exact mean-squared errors from the state-space form (differencing and
-// drift included), as Normal intervals at the given levels.
+// drift included), as Normal intervals at the given levels. As usual (and
+// as in R's predict for arima fits) the mean-squared errors treat the
+// estimated coefficients — mean, drift and regression coefficients
+// included — as known.
 //
 // Special cases: a model fitted with regressors gives an error wrapping
 // ErrNeedRegressors (use ForecastWith); h < 1 wraps almanac.ErrHorizon; a
