@@ -228,9 +228,26 @@ func (pr *problem) cssAt(c []float64) (float64, int) {
 	return pr.css.cssResiduals(pr.w, pr.phi, pr.theta, l.d, l.sd, l.s, pr.ncond)
 }
 
+// optSettings are the stopping rules of one minimisation.
+type optSettings struct {
+	relTol  float64 // stop when a step improves f by ≤ relTol·(|f|+relTol)
+	maxIter int     // gradient evaluations allowed
+}
+
+var (
+	// fullOpt is used by Spec.Fit and for the model a Search returns.
+	fullOpt = optSettings{relTol: 1e-10, maxIter: 200}
+	// searchOpt ranks the candidates of a Search: the defaults of R's
+	// optim (reltol = √ε ≈ 1.5e-8, maxit = 100 for BFGS), which R's arima
+	// uses. The loglik it reaches is within about 1e-5 of the full fit's
+	// on the search tests; the chosen model is refitted with fullOpt.
+	searchOpt = optSettings{relTol: 1.4901161193847656e-08, maxIter: 100}
+)
+
 // minimize runs the quasi-Newton minimiser on f from x0.
-func minimize(ctx context.Context, f func([]float64) float64, x0 []float64) (x []float64, fmin float64, converged bool, err error) {
+func minimize(ctx context.Context, f func([]float64) float64, x0 []float64, o optSettings) (x []float64, fmin float64, converged bool, err error) {
 	q := newQuasiNewton(len(x0))
+	q.relTol, q.maxIter = o.relTol, o.maxIter
 	x, fmin, converged, err = q.minimize(ctx, f, x0)
 	if ctxErr := ctx.Err(); ctxErr != nil {
 		return nil, 0, false, fmt.Errorf("arima: %w", ctxErr)

@@ -10,6 +10,11 @@ import (
 )
 
 func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
+	return s.fitWith(ctx, y, fullOpt)
+}
+
+// fitWith is fit with the given stopping rules of the minimiser.
+func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fitted, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, fmt.Errorf("arima: %w", err)
 	}
@@ -134,7 +139,7 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 			var conv bool
 			err := fmt.Errorf("conditional sum of squares not finite at the starting values")
 			if obj(x0) < badObjective {
-				xs, _, conv, err = minimize(ctx, obj, x0)
+				xs, _, conv, err = minimize(ctx, obj, x0, o)
 			}
 			switch {
 			case err != nil && ctx.Err() != nil:
@@ -192,7 +197,7 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 			if obj(x0) >= badObjective {
 				return nil, fmt.Errorf("arima: %w: %s: likelihood not finite at the starting values", almanac.ErrNotFitted, lay.orders())
 			}
-			xs, _, conv, err := minimize(ctx, obj, x0)
+			xs, _, conv, err := minimize(ctx, obj, x0, o)
 			if err != nil {
 				if ctx.Err() != nil {
 					return nil, err

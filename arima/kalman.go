@@ -46,7 +46,9 @@ type kalman struct {
 	ax, axnew []float64
 	px, pxnew []float64
 	phir, rv  []float64 // phi and R = (1, theta) padded to r
+	phiIdx    []int     // indices of the non-zero phir
 	g         []float64 // scratch: P[0][j+1]
+	mc        []float64 // scratch: the gain column P Z, with a zero at r
 
 	// Sparse rows of the transition T: row i has entries tIdx[e], tVal[e]
 	// for e in [tOff[i], tOff[i+1]). rIdx lists the non-zero elements of R.
@@ -106,8 +108,12 @@ func (k *kalman) resize(p, q int, delta []float64) {
 	if cap(k.rIdx) < r {
 		k.rIdx = make([]int, 0, r)
 	}
+	if cap(k.phiIdx) < r {
+		k.phiIdx = make([]int, 0, r)
+	}
 	k.rv = grow(k.rv, r)
 	k.g = grow(k.g, r)
+	k.mc = grow(k.mc, r+1)
 	k.gam = grow(k.gam, max(r, nd)+1)
 	if k.exact && nd > 0 { // set exact before resize
 		k.pinf = grow(k.pinf, rd*rd)
@@ -140,6 +146,12 @@ func (k *kalman) setARMA(phi, theta []float64) {
 	copy(k.theta, theta)
 	clear(k.phir)
 	copy(k.phir, phi)
+	k.phiIdx = k.phiIdx[:0]
+	for i, v := range k.phir {
+		if v != 0 {
+			k.phiIdx = append(k.phiIdx, i)
+		}
+	}
 	k.rv[0] = 1
 	copy(k.rv[1:], k.theta)
 	k.rIdx = k.rIdx[:0]
@@ -504,14 +516,16 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 		}
 	}
 	delta := k.delta
+	fused := false // pxnew and axnew already hold the prediction for l
 	for l := start; l < n; l++ {
 		wl := w[l]
 		for _, i := range k.deltaIdx {
 			wl -= delta[i] * w[l-1-i]
 		}
-		if l > 0 {
+		if l > 0 && !fused {
 			k.predictARMA()
 		}
+		fused = false
 		P, Pnew := k.px, k.pxnew
 		if math.IsNaN(wl) { // only without differencing
 			copy(k.ax, k.axnew)
@@ -534,6 +548,13 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 		f := v / gain
 		for i := 0; i < r; i++ {
 			k.ax[i] = k.axnew[i] + Pnew[i]*f
+		}
+		if l+1 < n && !separateUpdate {
+			// Update and prediction in one pass over pxnew (the
+			// filtered covariance itself is needed only at the end).
+			k.updatePredictARMA(gain)
+			fused = true
+			continue
 		}
 		// Only the lower triangle (i ≥ j) of px and pxnew is kept.
 		m := Pnew[:r]
@@ -670,6 +691,80 @@ func (k *kalman) diffuseStart(w []float64) bool {
 // predictARMA is predict for the ARMA block alone (states ax, covariance
 // px with stride r+1):
 // Pnew[i][j] = P[i+1][j+1] + φ_i(φ_j P[0][0] + P[0][j+1]) + φ_j P[0][i+1] + R_i R_j.
+// updatePredictARMA replaces the predicted covariance in pxnew by the
+// next one, through the update with gain column pxnew[:r] and innovation
+// variance gain, and writes the next predicted state into axnew from the
+// updated state ax. It computes the same expressions, in the same order,
+// as the update in filter followed by predictARMA, in one pass and in
+// place: column j of the result needs column j+1 of the old matrix and
+// its first column, which is saved first.
+func (k *kalman) updatePredictARMA(gain float64) {
+	r := k.r
+	st := r + 1
+	phi := k.phir
+	a, anew := k.ax, k.axnew
+	for i := 0; i < r-1; i++ {
+		anew[i] = a[i+1] + phi[i]*a[0]
+	}
+	anew[r-1] = phi[r-1] * a[0]
+	Pn, rv, g, mc := k.pxnew, k.rv, k.g, k.mc
+	copy(mc[:r], Pn[:r])
+	mc[r] = 0
+	// Updated P[0][0] and P[j+1][0] (zero border for j = r−1).
+	m0 := mc[0] / gain
+	p0 := Pn[0] - mc[0]*m0
+	for j := 0; j < r; j++ {
+		if m0 == 0 {
+			g[j] = Pn[j+1]
+		} else {
+			g[j] = Pn[j+1] - mc[j+1]*m0
+		}
+	}
+	for j := 0; j < r; j++ {
+		src := Pn[st*(j+1)+j+1 : st*(j+1)+1+r] // predicted column j+1, rows j+1..r
+		dst := Pn[st*j+j : st*j+r]
+		ms := mc[j+1 : r+1]
+		mj := mc[j+1] / gain
+		rr, ph, gg := rv[j:r], phi[j:r], g[j:r]
+		rj, pj := rv[j], phi[j]
+		cj := pj*p0 + g[j]
+		switch {
+		case pj != 0:
+			for i, v := range src {
+				if mj != 0 {
+					v -= ms[i] * mj
+				}
+				dst[i] = v + ph[i]*cj + pj*gg[i] + rr[i]*rj
+			}
+			continue
+		case mj == 0 && rj == 0:
+			copy(dst, src)
+		case mj == 0:
+			for i, v := range src {
+				dst[i] = v + rr[i]*rj
+			}
+		case rj == 0:
+			for i, v := range src {
+				dst[i] = v - ms[i]*mj
+			}
+		default:
+			for i, v := range src {
+				dst[i] = (v - ms[i]*mj) + rr[i]*rj
+			}
+		}
+		for _, i := range k.phiIdx {
+			if i >= j {
+				i -= j
+				v := src[i]
+				if mj != 0 {
+					v -= ms[i] * mj
+				}
+				dst[i] = v + ph[i]*cj + pj*gg[i] + rr[i]*rj
+			}
+		}
+	}
+}
+
 func (k *kalman) predictARMA() {
 	r, p := k.r, k.p
 	st := r + 1
@@ -702,14 +797,34 @@ func (k *kalman) predictARMA() {
 		}
 		return
 	}
+	// Seasonal AR polynomials are sparse: in a column j with φ_j = 0 the
+	// terms φ_i c_j are added only where φ_i ≠ 0 (the other elements get
+	// the same value as in the dense expression, whose zero terms add
+	// nothing).
 	for j := 0; j < r; j++ {
 		src := P[st*(j+1)+j+1 : st*(j+1)+1+r]
 		dst := Pnew[st*j+j : st*j+r]
 		rr, ph, gg := rv[j:r], phi[j:r], g[j:r]
 		rj, pj := rv[j], phi[j]
 		cj := pj*p0 + g[j]
-		for i, v := range src {
-			dst[i] = v + ph[i]*cj + pj*gg[i] + rr[i]*rj
+		if pj != 0 {
+			for i, v := range src {
+				dst[i] = v + ph[i]*cj + pj*gg[i] + rr[i]*rj
+			}
+			continue
+		}
+		if rj == 0 {
+			copy(dst, src)
+		} else {
+			for i, v := range src {
+				dst[i] = v + rr[i]*rj
+			}
+		}
+		for _, i := range k.phiIdx {
+			if i >= j {
+				i -= j
+				dst[i] = src[i] + ph[i]*cj + pj*gg[i] + rr[i]*rj
+			}
 		}
 	}
 }
@@ -927,3 +1042,7 @@ func (k *kalman) z(i int) float64 {
 	}
 	return 0
 }
+
+// separateUpdate makes filter run the update and predictARMA separately
+// instead of updatePredictARMA (for the test that they agree bit for bit).
+var separateUpdate bool

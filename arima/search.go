@@ -278,6 +278,9 @@ type searchPlan struct {
 	crit                     Criterion
 	maxModels                int
 	regs                     []Regressor
+	// full marks the candidates (by index) already fitted with the full
+	// stopping rules (fullOpt); the others used searchOpt.
+	full map[int]bool
 }
 
 func limit(v, def int) int {
@@ -518,7 +521,7 @@ func (pl *searchPlan) spec(p, q, sp, sq int, constant bool) Spec {
 // evaluate fits one candidate and scores it.
 func (pl *searchPlan) evaluate(ctx context.Context, y almanac.Series, sp Spec) (Candidate, *Fitted) {
 	c := Candidate{Spec: sp, Score: math.Inf(1), LogLik: math.NaN()}
-	f, err := fitSpec(ctx, sp, y)
+	f, err := fitSpec(ctx, sp, y, searchOpt)
 	if err != nil {
 		c.Err = err
 		return c, nil
@@ -537,17 +540,34 @@ func (pl *searchPlan) evaluate(ctx context.Context, y almanac.Series, sp Spec) (
 	return c, f
 }
 
-// fitSpec fits one candidate through the public Spec.Fit.
-func fitSpec(ctx context.Context, sp Spec, y almanac.Series) (*Fitted, error) {
-	m, err := sp.Fit(ctx, y)
+// confirm refits candidate c, scored with the looser stopping rules of
+// searchOpt, with those of Spec.Fit (fullOpt) and the same method, and
+// records the refit's log-likelihood and score in c. When the refit fails
+// or its roots come within 1.001 of the unit circle (a fit whose optimum
+// lies on the boundary may stop short of it under the looser rules), c is
+// marked rejected and confirm returns nil.
+func (pl *searchPlan) confirm(ctx context.Context, y almanac.Series, c *Candidate) *Fitted {
+	f, err := fitSpec(ctx, c.Spec, y, fullOpt)
+	if err == nil {
+		err = nearUnitRoot(f)
+	}
+	score := math.Inf(1)
+	if err == nil {
+		if score = pl.crit.of(f); math.IsNaN(score) || math.IsInf(score, 0) {
+			err = fmt.Errorf("arima: %w: %s: %v is %v", almanac.ErrNotFitted, c.Spec, pl.crit, score)
+		}
+	}
 	if err != nil {
-		return nil, err
+		c.Err, c.Score = err, math.Inf(1)
+		return nil
 	}
-	f, ok := m.(*Fitted)
-	if !ok {
-		return nil, fmt.Errorf("arima: search: %w: Spec.Fit returned %T", almanac.ErrNotFitted, m)
-	}
-	return f, nil
+	c.LogLik, c.Score = f.LogLik(), score
+	return f
+}
+
+// fitSpec fits one candidate with the minimiser's stopping rules o.
+func fitSpec(ctx context.Context, sp Spec, y almanac.Series, o optSettings) (*Fitted, error) {
+	return sp.fitWith(ctx, y, o)
 }
 
 // orderKey identifies a candidate within one search (d, D and the period
@@ -594,6 +614,18 @@ func (pl *searchPlan) stepwise(ctx context.Context, y almanac.Series, res *Searc
 		c, f := pl.evaluate(ctx, y, pl.spec(k.p, k.q, k.sp, k.sq, k.constant))
 		if errors.Is(c.Err, context.Canceled) || errors.Is(c.Err, context.DeadlineExceeded) {
 			return false, fmt.Errorf("arima: search: %w", c.Err)
+		}
+		if f != nil && (best < 0 || c.Score < res.Candidates[best].Score) {
+			// A new best is refitted with the full stopping rules before
+			// the search moves to it.
+			f = pl.confirm(ctx, y, &c)
+			if pl.full == nil {
+				pl.full = map[int]bool{}
+			}
+			pl.full[len(res.Candidates)] = true
+			if errors.Is(c.Err, context.Canceled) || errors.Is(c.Err, context.DeadlineExceeded) {
+				return false, fmt.Errorf("arima: search: %w", c.Err)
+			}
 		}
 		seen[k] = len(res.Candidates)
 		res.Candidates = append(res.Candidates, c)
@@ -732,15 +764,31 @@ func (pl *searchPlan) finish(ctx context.Context, y almanac.Series, res *SearchR
 		}
 	}
 	if !res.RankedByCSS {
-		res.Chosen = order[0]
-		res.Fitted = fits[order[0]]
-		return res, nil
+		// The best candidate that survives a refit with the full stopping
+		// rules (stepwise has refitted each new best already).
+		for _, i := range order {
+			f := fits[i]
+			if !pl.full[i] {
+				f = pl.confirm(ctx, y, &res.Candidates[i])
+			}
+			if ctx.Err() != nil {
+				return nil, fmt.Errorf("arima: search: %w", ctx.Err())
+			}
+			if f != nil {
+				res.Chosen = i
+				res.Fitted = f
+				return res, nil
+			}
+		}
+		return nil, noCandidate(res.Candidates)
 	}
+	// Ranked by CSS: refit by exact likelihood (CSS then ML) in order of
+	// score until one succeeds.
 	var errs []string
 	for _, i := range order {
 		sp := res.Candidates[i].Spec
 		sp.Method = CSSThenML
-		f, err := fitSpec(ctx, sp, y)
+		f, err := fitSpec(ctx, sp, y, fullOpt)
 		if err == nil {
 			err = nearUnitRoot(f)
 		}
@@ -776,16 +824,19 @@ const unitRootMargin = 1.001
 // in B: |z| = |w|^(1/s)).
 func nearUnitRoot(f *Fitted) error {
 	var ar, ma, sar, sma []float64
-	for _, c := range f.Coef() {
+	// The estimates only: Coef would also compute the standard errors
+	// (a Hessian), which the screen does not need.
+	for i, name := range f.lay.names {
+		v := f.coef[i]
 		switch {
-		case coefOf(c.Name, "sar"):
-			sar = append(sar, -c.Value)
-		case coefOf(c.Name, "sma"):
-			sma = append(sma, c.Value)
-		case coefOf(c.Name, "ar"):
-			ar = append(ar, -c.Value)
-		case coefOf(c.Name, "ma"):
-			ma = append(ma, c.Value)
+		case coefOf(name, "sar"):
+			sar = append(sar, -v)
+		case coefOf(name, "sma"):
+			sma = append(sma, v)
+		case coefOf(name, "ar"):
+			ar = append(ar, -v)
+		case coefOf(name, "ma"):
+			ma = append(ma, v)
 		}
 	}
 	s := max(f.Period(), 1)
