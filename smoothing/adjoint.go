@@ -46,7 +46,8 @@ func (p *problem) objectiveGrad(x, grad []float64) float64 {
 	m := f.m
 	multErr := f.err == MultiplicativeError
 	// Forward pass.
-	sse, sumlog := 0.0, 0.0
+	sse := 0.0
+	var logs logSum
 	j := 0
 	for t, yt := range p.y {
 		w.l[t], w.b[t] = l, b
@@ -80,7 +81,7 @@ func (p *problem) objectiveGrad(x, grad []float64) float64 {
 				return penalty
 			}
 			e = a / yhat
-			sumlog += math.Log(yhat)
+			logs.push(yhat)
 		}
 		sse += e * e
 		q := a
@@ -115,7 +116,7 @@ func (p *problem) objectiveGrad(x, grad []float64) float64 {
 	}
 	n := float64(len(p.y))
 	sse = math.Max(sse, 1e-300)
-	v := n*math.Log(sse) + 2*sumlog
+	v := n*math.Log(sse) + 2*logs.value()
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return penalty
 	}

@@ -67,6 +67,7 @@ func (f form) filter(y []float64, p Params, l, b float64, s []float64, start int
 	alpha, beta, gamma, phi := p.Alpha, p.Beta, p.Gamma, p.Phi
 	j := start
 	m := f.m
+	var logs logSum
 	for t, yt := range y {
 		var L float64
 		switch f.trend {
@@ -98,7 +99,7 @@ func (f form) filter(y []float64, p Params, l, b float64, s []float64, start int
 				return math.Inf(1), 0, l, b, false
 			}
 			e = a / yhat
-			sumlog += math.Log(yhat)
+			logs.push(yhat)
 		}
 		sse += e * e
 		q := a
@@ -150,7 +151,7 @@ func (f form) filter(y []float64, p Params, l, b float64, s []float64, start int
 	if f.trend.multiplicative() && !(b > 0) {
 		return math.Inf(1), 0, l, b, false
 	}
-	return sse, sumlog, l, b, true
+	return sse, logs.value(), l, b, true
 }
 
 // logLik is the concentrated Gaussian log-likelihood of the innovations
@@ -159,4 +160,42 @@ func (f form) filter(y []float64, p Params, l, b float64, s []float64, start int
 func logLik(n int, sse, sumlog float64) float64 {
 	fn := float64(n)
 	return -fn/2*(math.Log(2*math.Pi*sse/fn)+1) - sumlog
+}
+
+// logSum accumulates Σ log v_t for positive v_t as a running product
+// kept in range with math.Frexp, so a series of n values costs one
+// logarithm instead of n (the logarithm dominated the likelihood's
+// cost). Values far from 1 go straight into the additive part, so the
+// product can neither overflow nor underflow. The zero value is empty.
+type logSum struct {
+	prod float64 // 0 means 1 (empty)
+	exp  int     // binary exponent taken out of prod
+	add  float64 // logarithms added directly
+}
+
+const logSumRange = 0x1p400
+
+func (s *logSum) push(v float64) {
+	if v > logSumRange || v < 1/logSumRange {
+		s.add += math.Log(v)
+		return
+	}
+	if s.prod == 0 {
+		s.prod = v
+		return
+	}
+	s.prod *= v
+	if s.prod > logSumRange || s.prod < 1/logSumRange {
+		fr, e := math.Frexp(s.prod)
+		s.prod = fr
+		s.exp += e
+	}
+}
+
+// value returns the accumulated sum of logarithms.
+func (s *logSum) value() float64 {
+	if s.prod == 0 {
+		return s.add
+	}
+	return s.add + math.Log(s.prod) + float64(s.exp)*math.Ln2
 }

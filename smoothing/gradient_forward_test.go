@@ -7,11 +7,12 @@ import "math"
 
 // Analytic gradient of the objective, by forward-mode differentiation of
 // the recursion: every quantity carries its derivative with respect to
-// the optimiser's vector x (smoothing parameters through their logistic
+// the optimiser's vector x (smoothing parameters through their periodic
 // transforms, initial level and trend, the free initial seasonal states).
 // It costs about as much as a dozen objective evaluations for a monthly
-// seasonal model and lets a quasi-Newton method replace most of the
-// simplex search. It does not allocate once the workspace is sized.
+// seasonal model; TestGradient uses it as an independent check of the
+// adjoint gradient the estimator uses. It does not allocate once the
+// workspace is sized.
 
 // gradWork is the workspace of one problem's gradient.
 type gradWork struct {
@@ -122,7 +123,8 @@ func (p *problem) objectiveGradForward(x, grad []float64) float64 {
 	}
 	alpha, beta, gamma, phi := par.Alpha, par.Beta, par.Gamma, par.Phi
 	s := p.ws
-	sse, sumlog := 0.0, 0.0
+	sse := 0.0
+	var logs logSum
 	j := 0
 	for _, yt := range p.y {
 		// Forecast of the level/trend part.
@@ -187,7 +189,7 @@ func (p *problem) objectiveGradForward(x, grad []float64) float64 {
 				return penalty
 			}
 			e = a / yhat
-			sumlog += math.Log(yhat)
+			logs.push(yhat)
 			for k := range w.ge {
 				w.ge[k] = (w.ga[k] - e*w.gy[k]) / yhat
 				w.gslog[k] += w.gy[k] / yhat
@@ -265,7 +267,7 @@ func (p *problem) objectiveGradForward(x, grad []float64) float64 {
 	}
 	n := float64(len(p.y))
 	sse = math.Max(sse, 1e-300)
-	v := n*math.Log(sse) + 2*sumlog
+	v := n*math.Log(sse) + 2*logs.value()
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		zero(grad)
 		return penalty
