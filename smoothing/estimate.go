@@ -1,7 +1,6 @@
 package smoothing
 
 import (
-	"context"
 	"math"
 
 	"github.com/almanac-go/almanac/internal/seasonal"
@@ -331,84 +330,4 @@ func startValues(f form, y []float64) (l0, b0 float64, s []float64) {
 		l0, b0 = icept, slope
 	}
 	return l0, b0, s
-}
-
-// optimise minimises p.objective from x0: a BFGS search with the
-// analytic gradient (gradient.go), repeated after pulling smoothing
-// parameters off their bounds (see below); if it does not converge, a
-// Nelder–Mead simplex search restarted from the best point with a fresh,
-// smaller simplex until a restart no longer improves the objective. It
-// returns the best point and value and whether the last search converged.
-func (p *problem) optimise(ctx context.Context, x0 []float64) ([]float64, float64, bool, error) {
-	d := len(x0)
-	x := append([]float64(nil), x0...)
-	fx := p.objective(x)
-	if d == 0 {
-		return x, fx, true, nil
-	}
-	converged := false
-	{
-		qn := newQuasiNewton(d)
-		f, conv, err := qn.minimize(ctx, p.objectiveGrad, x, 1e-10, 200*d)
-		if err != nil {
-			return nil, 0, false, err
-		}
-		fx, converged = f, conv
-		// One restart from the end point with a fresh inverse Hessian
-		// catches a search that stopped on a poor curvature estimate.
-		f2, conv2, err := qn.minimize(ctx, p.objectiveGrad, x, 1e-10, 200*d)
-		if err != nil {
-			return nil, 0, false, err
-		}
-		if f2 <= fx {
-			fx, converged = f2, conv2
-		}
-	}
-	if converged {
-		return x, fx, converged, nil
-	}
-	// Fallback when the quasi-Newton search stalls (e.g. along the edge of
-	// the model's domain): the restarted simplex search from its end point.
-	steps := p.steps(x)
-	sx := newSimplex(d)
-	for restart := 0; restart < 6; restart++ {
-		f, conv, err := sx.nelderMead(ctx, p.objective, x, fx, steps, 1e-8, 2000*d)
-		if err != nil {
-			return nil, 0, false, err
-		}
-		converged = conv
-		improved := fx - f
-		fx = f
-		if !(improved > 1e-7) {
-			break
-		}
-		for i := range steps {
-			steps[i] *= 0.5
-		}
-	}
-	return x, fx, converged, nil
-}
-
-// steps returns the initial simplex edge per coordinate.
-func (p *problem) steps(x []float64) []float64 {
-	st := make([]float64, len(x))
-	_, i := p.params(x)
-	for k := 0; k < i; k++ {
-		st[k] = 1
-	}
-	if p.estL {
-		st[i] = 0.05*math.Abs(x[i]) + 0.01
-		i++
-	}
-	if p.estT {
-		st[i] = 0.1*math.Abs(x[i]) + 0.01
-		if p.f.trend.multiplicative() {
-			st[i] = 0.01
-		}
-		i++
-	}
-	for ; i < len(x); i++ {
-		st[i] = 0.05
-	}
-	return st
 }

@@ -231,22 +231,11 @@ func (h HoltWinters) estimate(ctx context.Context, x []float64, m int, out *Holt
 	}
 	u := []float64{unsquash(0.3), unsquash(0.1), unsquash(0.1)}
 	fu := sse(u)
-	sx := newSimplex(3)
-	steps := []float64{0.5, 0.5, 0.5}
-	for restart := 0; restart < 6; restart++ {
-		f, _, err := sx.nelderMead(ctx, sse, u, fu, steps, 1e-10, 3000)
-		if err != nil {
-			return fmt.Errorf("smoothing: %v: %w", h, err)
-		}
-		improved := fu - f
-		fu = f
-		if !(improved > 1e-10*math.Abs(f)) {
-			break
-		}
-		for i := range steps {
-			steps[i] *= 0.5
-		}
+	f, _, err := simplexRestarts(ctx, sse, u, fu, []float64{0.5, 0.5, 0.5}, 1e-10, 3000, 0, 1e-10)
+	if err != nil {
+		return fmt.Errorf("smoothing: %v: %w", h, err)
 	}
+	fu = f
 	if fu >= penalty {
 		return fmt.Errorf("smoothing: %v: %w: no constants give a finite sum of squares", h, almanac.ErrNotFitted)
 	}
