@@ -17,4 +17,9 @@ var (
 	// (fixed coefficients, or a CSS estimate asked for a forecast), so no
 	// stationary initial state covariance exists.
 	ErrNonStationary = errors.New("non-stationary autoregressive part")
+	// ErrNearUnitRoot marks a candidate rejected by a Search because a
+	// root of its fitted AR or MA polynomial lies within 1.001 of the unit
+	// circle (Hyndman & Khandakar 2008 exclude such nearly non-stationary
+	// or non-invertible models).
+	ErrNearUnitRoot = errors.New("root near the unit circle")
 )

@@ -218,12 +218,6 @@ func (c Candidate) String() string {
 	return str
 }
 
-// ErrNearUnitRoot marks a candidate rejected by a Search because a root
-// of its fitted AR or MA polynomial lies within 1.001 of the unit circle
-// (Hyndman & Khandakar 2008 exclude such nearly non-stationary or
-// non-invertible models).
-var ErrNearUnitRoot = errors.New("root near the unit circle")
-
 // SearchResult is the model chosen by a Search: the chosen model's
 // *Fitted (refitted by exact likelihood), whose methods it has, with the
 // record of the search. It is read-only and safe for concurrent use.
