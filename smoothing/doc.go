@@ -87,6 +87,14 @@
 // search of our own (minimize1D in theta_ses.go; nested for TSB's two
 // constants), because gonum has no bounded 1-D minimiser.
 //
+// Both searches are local. Measured once before the former hand-written
+// BFGS/simplex pair was removed, on 14,953 ETS fits to M3 series (all
+// yearly and quarterly, every fourth monthly; 6–10 models each): the two
+// reached the same maximum (1e-6 relative) in 14,827 fits, gonum's a
+// higher one in 73 (by up to 15.3 in log-likelihood) and a lower one in
+// 53 (by up to 14.2). Select's M3 sMAPE moved from 9.61 to 9.57
+// (quarterly) and stayed 17.58 (yearly).
+//
 // # Performance
 //
 // Measured with go test -bench -cpu 1 on a 2-core AMD EPYC box shared
