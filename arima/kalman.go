@@ -722,14 +722,16 @@ func (k *kalman) updatePredictARMA(gain float64) {
 	}
 	for j := 0; j < r; j++ {
 		src := Pn[st*(j+1)+j+1 : st*(j+1)+1+r] // predicted column j+1, rows j+1..r
-		dst := Pn[st*j+j : st*j+r]
-		ms := mc[j+1 : r+1]
+		nr := len(src)
+		// Equal lengths, so that the loops below need no bounds checks.
+		dst := Pn[st*j+j : st*j+r][:nr]
+		ms := mc[j+1 : r+1][:nr]
 		mj := mc[j+1] / gain
-		rr, ph, gg := rv[j:r], phi[j:r], g[j:r]
 		rj, pj := rv[j], phi[j]
 		cj := pj*p0 + g[j]
 		switch {
 		case pj != 0:
+			rr, ph, gg := rv[j:r][:nr], phi[j:r][:nr], g[j:r][:nr]
 			for i, v := range src {
 				if mj != 0 {
 					v -= ms[i] * mj
@@ -740,27 +742,47 @@ func (k *kalman) updatePredictARMA(gain float64) {
 		case mj == 0 && rj == 0:
 			copy(dst, src)
 		case mj == 0:
+			rr := rv[j:r][:nr]
 			for i, v := range src {
 				dst[i] = v + rr[i]*rj
 			}
 		case rj == 0:
-			for i, v := range src {
-				dst[i] = v - ms[i]*mj
+			// The rank-one update, unrolled by four (the hot loop).
+			i := 0
+			for ; i+4 <= nr; i += 4 {
+				s, m, d := src[i:i+4:i+4], ms[i:i+4:i+4], dst[i:i+4:i+4]
+				d[0] = s[0] - m[0]*mj
+				d[1] = s[1] - m[1]*mj
+				d[2] = s[2] - m[2]*mj
+				d[3] = s[3] - m[3]*mj
+			}
+			for ; i < nr; i++ {
+				dst[i] = src[i] - ms[i]*mj
 			}
 		default:
-			for i, v := range src {
-				dst[i] = (v - ms[i]*mj) + rr[i]*rj
+			rr := rv[j:r][:nr]
+			i := 0
+			for ; i+4 <= nr; i += 4 {
+				s, m, d, q := src[i:i+4:i+4], ms[i:i+4:i+4], dst[i:i+4:i+4], rr[i:i+4:i+4]
+				d[0] = (s[0] - m[0]*mj) + q[0]*rj
+				d[1] = (s[1] - m[1]*mj) + q[1]*rj
+				d[2] = (s[2] - m[2]*mj) + q[2]*rj
+				d[3] = (s[3] - m[3]*mj) + q[3]*rj
+			}
+			for ; i < nr; i++ {
+				dst[i] = (src[i] - ms[i]*mj) + rr[i]*rj
 			}
 		}
 		for _, i := range k.phiIdx {
-			if i >= j {
-				i -= j
-				v := src[i]
-				if mj != 0 {
-					v -= ms[i] * mj
-				}
-				dst[i] = v + ph[i]*cj + pj*gg[i] + rr[i]*rj
+			if i < j {
+				continue
 			}
+			i -= j
+			v := src[i]
+			if mj != 0 {
+				v -= ms[i] * mj
+			}
+			dst[i] = v + phi[i+j]*cj + pj*g[i+j] + rv[i+j]*rj
 		}
 	}
 }
