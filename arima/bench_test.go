@@ -122,3 +122,37 @@ func BenchmarkLikelihood(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkOptimizer compares the package's quasi-Newton minimiser with
+// gonum's optimize.BFGS (useGonum) on the airline fit of log air
+// passengers (CSS then ML, and ML from zero) and on the default stepwise
+// Search of that series.
+func BenchmarkOptimizer(b *testing.B) {
+	y := logAirPassengers(b)
+	mlSpec := airline
+	mlSpec.Method = ML
+	for _, opt := range []struct {
+		name  string
+		gonum bool
+	}{{"quasiNewton", false}, {"gonum-BFGS", true}} {
+		for _, m := range []struct {
+			name string
+			fit  func() error
+		}{
+			{"airline-CSS-ML", func() error { _, err := airline.Fit(context.Background(), y); return err }},
+			{"airline-ML", func() error { _, err := mlSpec.Fit(context.Background(), y); return err }},
+			{"search", func() error { _, err := (Search{}).Fit(context.Background(), y); return err }},
+		} {
+			b.Run(opt.name+"/"+m.name, func(b *testing.B) {
+				defer func(old bool) { useGonum = old }(useGonum)
+				useGonum = opt.gonum
+				b.ReportAllocs()
+				for b.Loop() {
+					if err := m.fit(); err != nil {
+						b.Fatal(err)
+					}
+				}
+			})
+		}
+	}
+}

@@ -246,9 +246,13 @@ var (
 
 // minimize runs the quasi-Newton minimiser on f from x0.
 func minimize(ctx context.Context, f func([]float64) float64, x0 []float64, o optSettings) (x []float64, fmin float64, converged bool, err error) {
-	q := newQuasiNewton(len(x0))
-	q.relTol, q.maxIter = o.relTol, o.maxIter
-	x, fmin, converged, err = q.minimize(ctx, f, x0)
+	if useGonum {
+		x, fmin, converged, err = gonumMinimize(ctx, f, x0, o)
+	} else {
+		q := newQuasiNewton(len(x0))
+		q.relTol, q.maxIter = o.relTol, o.maxIter
+		x, fmin, converged, err = q.minimize(ctx, f, x0)
+	}
 	if ctxErr := ctx.Err(); ctxErr != nil {
 		return nil, 0, false, fmt.Errorf("arima: %w", ctxErr)
 	}

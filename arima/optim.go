@@ -6,15 +6,16 @@ import (
 	"math"
 )
 
-// Why not gonum/optimize: gonum.org/v1/gonum/optimize imports
-// gonum/stat/distmv, which needs golang.org/x/tools, and the module's
-// go.sum does not carry it, so that package cannot be built here without a
-// go.mod change. Until it is added, this file holds a compact
-// variable-metric (BFGS) minimiser in the form given by Nash (1990,
-// "Compact Numerical Methods for Computers", Algorithm 21): inverse-Hessian
-// BFGS update, backtracking line search with an Armijo test, restart from
-// the identity when the update fails or stalls. It is deterministic,
-// single-goroutine and allocates only when it starts.
+// The package minimises with gonum's optimize.BFGS (optim_gonum.go). This
+// file keeps the minimiser it used before gonum/optimize could be built
+// (the module's go.sum lacked an indirect requirement): a compact
+// variable-metric (BFGS) method in the form given by Nash (1990, "Compact
+// Numerical Methods for Computers", Algorithm 21), the one behind R's
+// optim(method = "BFGS"): inverse-Hessian BFGS update, backtracking line
+// search with an Armijo test, restart from the identity when the update
+// fails or stalls. It is deterministic, single-goroutine and allocates
+// only when it starts. It stays as a cross-check, selected by useGonum =
+// false: the reference fixtures are run with both.
 
 // quasiNewton holds the settings and workspace of one minimisation.
 type quasiNewton struct {

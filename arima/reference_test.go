@@ -286,3 +286,13 @@ func checkARIMAFixture(t *testing.T, f *reftest.Fixture) {
 	a, r = tol(t, f, "forecast.se")
 	numtest.Slice(t, "forecast.se", sdOf(fc), f.Floats(t, "expect.forecast.se"), a, min(r, 1e-4))
 }
+
+// TestReferenceQuasiNewton runs every fixture again with the package's
+// own quasi-Newton minimiser (optim.go) in place of gonum's optimize.BFGS
+// (useGonum false), against the same R values and tolerances: both must
+// reach R's optimum.
+func TestReferenceQuasiNewton(t *testing.T) {
+	defer func(old bool) { useGonum = old }(useGonum)
+	useGonum = false
+	reftest.Run(t, "testdata/reference", handlers)
+}
