@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+
+	"github.com/almanac-go/almanac/internal/brent"
 )
 
 // Default search interval for an automatic Box-Cox λ. Guerrero (1993)
@@ -247,7 +249,7 @@ func LambdaML(y []float64, lower, upper float64) (float64, error) {
 			n++
 		}
 	}
-	lam, _ := brentMin(func(l float64) float64 { return -llfFromLogs(logs, false, n, sumLog, l) }, lo, hi, lambdaTol, 500)
+	lam, _ := brent.Minimize(func(l float64) float64 { return -llfFromLogs(logs, false, n, sumLog, l) }, lo, hi, lambdaTol, 500)
 	return lam, nil
 }
 
@@ -304,7 +306,7 @@ func LambdaGuerrero(y []float64, period int, lower, upper float64) (float64, err
 	if err != nil {
 		return 0, err
 	}
-	lam, _ := brentMin(g.cv, lo, hi, lambdaTol, 500)
+	lam, _ := brent.Minimize(g.cv, lo, hi, lambdaTol, 500)
 	return lam, nil
 }
 

@@ -162,29 +162,6 @@ func TestBoxCoxAllocs(t *testing.T) {
 	}
 }
 
-// TestBrentMin checks the minimiser on functions with known minima
-// (calculus): (x − 0.3)², x⁴ − 3x (minimum at (3/4)^(1/3)), and a
-// minimum on the boundary.
-func TestBrentMin(t *testing.T) {
-	tests := []struct {
-		name  string
-		f     func(float64) float64
-		a, b  float64
-		wantX float64
-	}{
-		{"parabola", func(x float64) float64 { return (x - 0.3) * (x - 0.3) }, -2, 2, 0.3},
-		{"quartic", func(x float64) float64 { return x*x*x*x - 3*x }, -1, 3, math.Cbrt(0.75)},
-		{"boundary", func(x float64) float64 { return x }, -1, 2, -1},
-	}
-	for _, tt := range tests {
-		t.Run(tt.name, func(t *testing.T) {
-			x, _ := almanac.BrentMin(tt.f, tt.a, tt.b, 1e-10, 500)
-			// Documented accuracy: 2(1.5e-8·|x| + tol/3).
-			numtest.Scalar(t, "xmin", x, tt.wantX, 1e-10, 3e-8)
-		})
-	}
-}
-
 // constInner is a test model whose forecast is a fixed sample of paths
 // on the transformed scale (to check bias adjustment with a Sample).
 type constInner struct{ paths [][]float64 }

@@ -10,9 +10,6 @@ func GuerreroObjective(y []float64, period int) (func(float64) float64, error) {
 	return g.cv, nil
 }
 
-// BrentMin exposes the univariate minimiser for tests.
-var BrentMin = brentMin
-
 // MLObjective exposes the log-likelihood evaluated from precomputed logs,
 // the objective of LambdaML, for allocation tests.
 func MLObjective(logs []float64, n int, sumLog float64) func(float64) float64 {

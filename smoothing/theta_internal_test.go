@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/almanac-go/almanac/internal/brent"
 	"github.com/almanac-go/almanac/internal/numtest"
 )
 
@@ -76,7 +77,7 @@ func TestSESProfileIsMinimum(t *testing.T) {
 	for _, alpha := range []float64{1e-4, 0.05, 0.3, 0.7, 0.9999} {
 		l0, sse := sesProfile(nistDouble, alpha)
 		numtest.Scalar(t, "sse at l0", sesSSE(nistDouble, alpha, l0), sse, 1e-9, 1e-12)
-		direct, dsse := brentMin(func(l float64) float64 { return sesSSE(nistDouble, alpha, l) }, -100, 100, 1e-12)
+		direct, dsse := brent.Minimize(func(l float64) float64 { return sesSSE(nistDouble, alpha, l) }, -100, 100, 1e-12, 200)
 		if dsse < sse*(1-1e-10)-1e-12 {
 			t.Errorf("alpha %v: direct minimum %v at l0 = %v below the profile %v at %v", alpha, dsse, direct, sse, l0)
 		}

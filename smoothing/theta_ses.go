@@ -1,11 +1,15 @@
 package smoothing
 
-import "math"
+import (
+	"math"
+
+	"github.com/almanac-go/almanac/internal/brent"
+)
 
 // This file holds the small numerical kernels shared by the Theta method
 // and the intermittent-demand methods: simple exponential smoothing (SES)
 // with the initial level profiled out, ordinary least squares on time, and
-// a bounded one-dimensional minimiser. None of them allocates.
+// the search over α built on internal/brent. None of them allocates.
 
 // Bounds on the SES smoothing parameter when it is estimated: the usual
 // bounds of the innovations state-space literature (Hyndman, Koehler, Ord
@@ -133,88 +137,9 @@ func minimize1D(f func(float64) float64, lo, hi float64, gridN int) (xbest, fbes
 	if ibest+1 >= gridN {
 		b = hi
 	}
-	x, fx := brentMin(f, a, b, 1e-10)
+	x, fx := brent.Minimize(f, a, b, 1e-10, 200)
 	if fx < fbest {
 		xbest, fbest = x, fx
 	}
 	return xbest, fbest
-}
-
-// brentMin is Brent's (1973) derivative-free minimiser on (a, b): golden
-// section search accelerated by successive parabolic interpolation,
-// stopping when the bracket is below 2·(√ε|x| + tol/3).
-func brentMin(f func(float64) float64, a, b, tol float64) (float64, float64) {
-	const cgold = 0.3819660112501051 // (3 − √5)/2
-	eps := math.Sqrt(2.220446049250313e-16)
-	x := a + cgold*(b-a)
-	w, v := x, x
-	fx := f(x)
-	fw, fv := fx, fx
-	d, e := 0.0, 0.0
-	for iter := 0; iter < 200; iter++ {
-		xm := 0.5 * (a + b)
-		tol1 := eps*math.Abs(x) + tol/3
-		tol2 := 2 * tol1
-		if math.Abs(x-xm) <= tol2-0.5*(b-a) {
-			break
-		}
-		golden := true
-		if math.Abs(e) > tol1 {
-			// Try a parabola through x, w, v.
-			r := (x - w) * (fx - fv)
-			q := (x - v) * (fx - fw)
-			p := (x-v)*q - (x-w)*r
-			q = 2 * (q - r)
-			if q > 0 {
-				p = -p
-			}
-			q = math.Abs(q)
-			etemp := e
-			e = d
-			if !(math.Abs(p) >= math.Abs(0.5*q*etemp) || p <= q*(a-x) || p >= q*(b-x)) {
-				d = p / q
-				u := x + d
-				if u-a < tol2 || b-u < tol2 {
-					d = math.Copysign(tol1, xm-x)
-				}
-				golden = false
-			}
-		}
-		if golden {
-			if x >= xm {
-				e = a - x
-			} else {
-				e = b - x
-			}
-			d = cgold * e
-		}
-		u := x + d
-		if math.Abs(d) < tol1 {
-			u = x + math.Copysign(tol1, d)
-		}
-		fu := f(u)
-		if fu <= fx {
-			if u >= x {
-				a = x
-			} else {
-				b = x
-			}
-			v, fv = w, fw
-			w, fw = x, fx
-			x, fx = u, fu
-		} else {
-			if u < x {
-				a = u
-			} else {
-				b = u
-			}
-			if fu <= fw || w == x {
-				v, fv = w, fw
-				w, fw = u, fu
-			} else if fu <= fv || v == x || v == w {
-				v, fv = u, fu
-			}
-		}
-	}
-	return x, fx
 }

@@ -1,16 +1,19 @@
-package almanac
+// Package brent holds Brent's bounded univariate minimiser, shared by the
+// Box-Cox λ search and the one-parameter smoothing methods (gonum's
+// optimize package has no bounded one-dimensional minimiser).
+package brent
 
 import "math"
 
-// brentMin minimises f on [a, b] by Brent's method (golden-section search
+// Minimize minimises f on [a, b] by Brent's method (golden-section search
 // with parabolic interpolation): R. P. Brent, Algorithms for Minimization
 // without Derivatives, Prentice-Hall 1973, chapter 5, procedure "localmin"
 // (the algorithm behind R's optimize and netlib's fmin). tol is the
 // absolute tolerance on x; the result is within about
 // 2(1.5e-8·|x| + tol/3) of a local minimum (Brent's relative term is
 // √ε). It evaluates f at most maxIter+1 times and never allocates.
-// gonum/optimize has no univariate bounded minimiser, hence this one.
-func brentMin(f func(float64) float64, a, b, tol float64, maxIter int) (xmin, fmin float64) {
+// A NaN value of f counts as +Inf.
+func Minimize(f func(float64) float64, a, b, tol float64, maxIter int) (xmin, fmin float64) {
 	const (
 		cgold = 0.3819660112501051 // (3 − √5)/2
 		eps   = 1.4901161193847656e-08
