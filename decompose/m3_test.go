@@ -2,67 +2,16 @@ package decompose_test
 
 import (
 	"context"
-	"encoding/csv"
 	"math"
-	"os"
-	"path/filepath"
-	"strconv"
 	"testing"
 	"time"
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/calendar"
 	"github.com/almanac-go/almanac/decompose"
+	"github.com/almanac-go/almanac/internal/m3data"
 	"github.com/almanac-go/almanac/internal/seasonal"
 )
-
-// m3Dir is the shared copy of the M3 competition data (Makridakis & Hibon
-// 2000, IJF 16(4):451–476; distributed by the International Institute of
-// Forecasters), described in /work/shared/data/m3/README.md.
-const m3Dir = "../../shared/data/m3"
-
-type m3Series struct {
-	id          string
-	train, test []float64
-}
-
-// loadM3 reads one category file: long format
-// series,category,index,value,part, rows in index order per series.
-func loadM3(t testing.TB, file string) []m3Series {
-	t.Helper()
-	fh, err := os.Open(filepath.Join(m3Dir, file))
-	if err != nil {
-		t.Skipf("M3 data not available (%v); the shared data folder is needed for this check", err)
-	}
-	defer fh.Close()
-	rows, err := csv.NewReader(fh).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	var out []m3Series
-	index := map[string]int{}
-	for _, r := range rows[1:] {
-		v, err := strconv.ParseFloat(r[3], 64)
-		if err != nil {
-			t.Fatalf("%s: %v", file, err)
-		}
-		k, ok := index[r[0]]
-		if !ok {
-			k = len(out)
-			index[r[0]] = k
-			out = append(out, m3Series{id: r[0]})
-		}
-		switch r[4] {
-		case "train":
-			out[k].train = append(out[k].train, v)
-		case "test":
-			out[k].test = append(out[k].test, v)
-		default:
-			t.Fatalf("%s: unknown part %q", file, r[4])
-		}
-	}
-	return out
-}
 
 // TestNaive2M3 rebuilds the M3 competition's Naive2 benchmark from this
 // package's parts — Forecaster with a multiplicative Classical
@@ -96,24 +45,24 @@ func TestNaive2M3(t *testing.T) {
 		{"quarterly", "m3_quarterly.csv", calendar.Quarterly, 9.95},
 	} {
 		t.Run(c.name, func(t *testing.T) {
-			data := loadM3(t, c.file)
+			data := m3data.Load(t, c.file)
 			start := time.Date(2000, 1, 1, 0, 0, 0, 0, time.UTC)
 			sum, count := 0.0, 0
 			for _, s := range data {
-				y := almanac.Series{Key: s.id, Start: start, Freq: c.freq, Values: s.train}
+				y := almanac.Series{Key: s.ID, Start: start, Freq: c.freq, Values: s.Train}
 				var m almanac.Model = almanac.Naive{}
-				if seasonal.IsSeasonal(s.train, y.Period(), 1.645) {
+				if seasonal.IsSeasonal(s.Train, y.Period(), 1.645) {
 					m = decompose.Forecaster{Model: almanac.Naive{}, Method: decompose.Classical{Multiplicative: true}}
 				}
 				fit, err := m.Fit(context.Background(), y)
 				if err != nil {
-					t.Fatalf("%s: %v", s.id, err)
+					t.Fatalf("%s: %v", s.ID, err)
 				}
-				fc, err := fit.Forecast(len(s.test))
+				fc, err := fit.Forecast(len(s.Test))
 				if err != nil {
-					t.Fatalf("%s: %v", s.id, err)
+					t.Fatalf("%s: %v", s.ID, err)
 				}
-				for h, v := range s.test {
+				for h, v := range s.Test {
 					sum += 200 * math.Abs(v-fc.Mean[h]) / (math.Abs(v) + math.Abs(fc.Mean[h]))
 					count++
 				}

@@ -1,51 +1,23 @@
 package smoothing
 
 import (
-	"encoding/csv"
 	"math"
-	"os"
-	"strconv"
 	"testing"
 	"time"
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/internal/m3data"
 )
 
-// m3File reads one category of the shared M3 competition data
-// (Makridakis & Hibon 2000, IJF 16(4):451–476; distributed by the
-// International Institute of Forecasters; described in
-// /work/shared/data/m3/README.md): train and test parts per series, in
-// file order.
+// m3File reads one category of the M3 competition data (Makridakis &
+// Hibon 2000, IJF 16(4):451–476; see internal/m3data): train and test
+// parts per series, in file order.
 func m3File(t *testing.T, name string) (train, test [][]float64) {
 	t.Helper()
-	fh, err := os.Open("../../shared/data/m3/" + name)
-	if err != nil {
-		t.Skipf("M3 data not available (%v)", err)
-	}
-	defer fh.Close()
-	rows, err := csv.NewReader(fh).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	index := map[string]int{}
-	for _, r := range rows[1:] {
-		v, err := strconv.ParseFloat(r[3], 64)
-		if err != nil {
-			t.Fatal(err)
-		}
-		k, ok := index[r[0]]
-		if !ok {
-			k = len(train)
-			index[r[0]] = k
-			train = append(train, nil)
-			test = append(test, nil)
-		}
-		if r[4] == "train" {
-			train[k] = append(train[k], v)
-		} else {
-			test[k] = append(test[k], v)
-		}
+	for _, s := range m3data.Load(t, name) {
+		train = append(train, s.Train)
+		test = append(test, s.Test)
 	}
 	return train, test
 }

@@ -2,68 +2,15 @@ package smoothing_test
 
 import (
 	"context"
-	"encoding/csv"
 	"math"
-	"os"
-	"path/filepath"
-	"strconv"
 	"testing"
 	"time"
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/internal/m3data"
 	"github.com/almanac-go/almanac/smoothing"
 )
-
-// m3Dir is the shared copy of the M3 competition data (Makridakis & Hibon
-// 2000, IJF 16(4):451–476; distributed by the International Institute of
-// Forecasters), described in /work/shared/data/m3/README.md.
-const m3Dir = "../../shared/data/m3"
-
-// m3Series is one M3 series split as in the competition.
-type m3Series struct {
-	id          string
-	train, test []float64
-}
-
-// loadM3 reads one category file (m3_yearly.csv, ...): long format
-// series,category,index,value,part with rows in index order per series.
-func loadM3(t testing.TB, file string) []m3Series {
-	t.Helper()
-	fh, err := os.Open(filepath.Join(m3Dir, file))
-	if err != nil {
-		t.Skipf("M3 data not available (%v); the shared data folder is needed for this check", err)
-	}
-	defer fh.Close()
-	rows, err := csv.NewReader(fh).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	var out []m3Series
-	index := map[string]int{}
-	for _, r := range rows[1:] {
-		id, part := r[0], r[4]
-		v, err := strconv.ParseFloat(r[3], 64)
-		if err != nil {
-			t.Fatalf("%s: %v", file, err)
-		}
-		k, ok := index[id]
-		if !ok {
-			k = len(out)
-			index[id] = k
-			out = append(out, m3Series{id: id})
-		}
-		switch part {
-		case "train":
-			out[k].train = append(out[k].train, v)
-		case "test":
-			out[k].test = append(out[k].test, v)
-		default:
-			t.Fatalf("%s: unknown part %q", file, part)
-		}
-	}
-	return out
-}
 
 // smape is the M3 symmetric MAPE of one point, in percent: 200|y − f| /
 // (|y| + |f|) (Makridakis & Hibon 2000; definition as in
@@ -107,21 +54,21 @@ func TestThetaM3(t *testing.T) {
 	const tol = 0.3
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			data := loadM3(t, c.file)
+			data := m3data.Load(t, c.file)
 			model := smoothing.Theta{Period: c.period}
 			sum, count := 0.0, 0
 			start := time.Date(2000, 1, 1, 0, 0, 0, 0, time.UTC)
 			for _, s := range data {
-				y := almanac.Series{Key: s.id, Start: start, Freq: c.freq, Values: s.train}
+				y := almanac.Series{Key: s.ID, Start: start, Freq: c.freq, Values: s.Train}
 				fit, err := model.Fit(context.Background(), y)
 				if err != nil {
-					t.Fatalf("%s: %v", s.id, err)
+					t.Fatalf("%s: %v", s.ID, err)
 				}
-				fc, err := fit.Forecast(len(s.test))
+				fc, err := fit.Forecast(len(s.Test))
 				if err != nil {
-					t.Fatalf("%s: %v", s.id, err)
+					t.Fatalf("%s: %v", s.ID, err)
 				}
-				for h, v := range s.test {
+				for h, v := range s.Test {
 					sum += smape(v, fc.Mean[h])
 					count++
 				}
