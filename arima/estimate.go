@@ -237,11 +237,16 @@ type optSettings struct {
 var (
 	// fullOpt is used by Spec.Fit and for the model a Search returns.
 	fullOpt = optSettings{relTol: 1e-10, maxIter: 200}
-	// searchOpt ranks the candidates of a Search: the defaults of R's
-	// optim (reltol = √ε ≈ 1.5e-8, maxit = 100 for BFGS), which R's arima
-	// uses. The loglik it reaches is within about 1e-5 of the full fit's
-	// on the search tests; the chosen model is refitted with fullOpt.
-	searchOpt = optSettings{relTol: 1.4901161193847656e-08, maxIter: 100}
+	// searchOpt ranks the candidates of a Search: the ML iterations stop
+	// once one improves the objective by less than 1e-6 of its value. The
+	// ML run follows the path of the full one (same start, same method)
+	// and stops earlier, so its criterion value is never below the full
+	// one's; on the test datasets it is at most 1.3 above it (on ridges of
+	// over-parameterised models). Every candidate that comes within
+	// confirmMargin (2) of the best is refitted with fullOpt before it is
+	// compared (see Search; TestSearchStoppingRules checks that the choice
+	// is the one made with fullOpt throughout).
+	searchOpt = optSettings{relTol: 1e-6, maxIter: 100}
 )
 
 // minimize runs the quasi-Newton minimiser on f from x0.

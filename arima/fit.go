@@ -138,8 +138,16 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 			var xs []float64
 			var conv bool
 			err := fmt.Errorf("conditional sum of squares not finite at the starting values")
+			// The CSS start of CSS-then-ML always gets the full stopping
+			// rules (it is cheap), so that an ML run with looser rules
+			// (searchOpt) follows the same path as the full one, only
+			// stopping earlier.
+			cssOpt := fullOpt
+			if method == CSS {
+				cssOpt = o
+			}
 			if obj(x0) < badObjective {
-				xs, _, conv, err = minimize(ctx, obj, x0, o)
+				xs, _, conv, err = minimize(ctx, obj, x0, cssOpt)
 			}
 			switch {
 			case err != nil && ctx.Err() != nil:

@@ -1,10 +1,13 @@
 package arima
 
 import (
+	"context"
+	"fmt"
 	"math"
 	"testing"
 
 	"github.com/almanac-go/almanac/internal/numtest"
+	"github.com/almanac-go/almanac/internal/reftest"
 )
 
 // TestMinRootModulus checks the root screen of Search on polynomials
@@ -46,5 +49,67 @@ func TestCoefOf(t *testing.T) {
 				t.Errorf("coefOf(%q, %q) = %v", tc.coef, tc.prefix, got)
 			}
 		})
+	}
+}
+
+// TestSearchStoppingRules checks the looser stopping rules a Search
+// ranks its candidates with (searchOpt, confirmMargin) on four R datasets
+// (the inputs of the reference fixtures), stepwise and exhaustive: the
+// search chooses the same model, with the same fit, as when every
+// candidate is fitted with the full rules of Spec.Fit; and for every
+// candidate the criterion of the looser fit is never below that of the
+// full fit (the looser run stops earlier on the same path) and less than
+// confirmMargin above it. Both sides are our own fits: this is an
+// internal consistency check, not a reference.
+func TestSearchStoppingRules(t *testing.T) {
+	for _, file := range []string{"airpassengers_log_airline.json", "usaccdeaths_airline.json", "lh_ar1.json", "nile_arima111.json"} {
+		for _, s := range []Search{{}, {Exhaustive: true, MaxP: 2, MaxQ: 2, MaxSP: 1, MaxSQ: 1, Workers: 1}} {
+			t.Run(fmt.Sprintf("%s/exhaustive=%v", file, s.Exhaustive), func(t *testing.T) {
+				f, err := reftest.Load("testdata/reference/" + file)
+				if err != nil {
+					t.Fatal(err)
+				}
+				y := fixtureSeries(t, f)
+				r, err := s.search(context.Background(), y)
+				if err != nil {
+					t.Fatal(err)
+				}
+				saved := searchOpt
+				searchOpt = fullOpt
+				rf, err := s.search(context.Background(), y)
+				searchOpt = saved
+				if err != nil {
+					t.Fatal(err)
+				}
+				if r.String() != rf.String() || math.Float64bits(r.AICc()) != math.Float64bits(rf.AICc()) {
+					t.Errorf("chose %s (AICc %.8f); with the full rules %s (AICc %.8f)", r, r.AICc(), rf, rf.AICc())
+				}
+				if s.Exhaustive {
+					return
+				}
+				checked := 0
+				for _, c := range r.Candidates {
+					loose, err1 := c.Spec.fitWith(context.Background(), y, searchOpt)
+					full, err2 := c.Spec.fitWith(context.Background(), y, fullOpt)
+					if err1 != nil || err2 != nil {
+						if (err1 == nil) != (err2 == nil) {
+							t.Errorf("%s: error %v with searchOpt, %v with fullOpt", c.Spec, err1, err2)
+						}
+						continue
+					}
+					a, b := loose.AICc(), full.AICc()
+					if math.IsInf(a, 0) && math.IsInf(b, 0) {
+						continue
+					}
+					checked++
+					if b > a+1e-9*math.Abs(a) || a-b >= confirmMargin {
+						t.Errorf("%s: AICc %.8f with searchOpt, %.8f with fullOpt", c.Spec, a, b)
+					}
+				}
+				if checked == 0 {
+					t.Fatal("no candidate compared")
+				}
+			})
+		}
 	}
 }
