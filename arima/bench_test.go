@@ -125,12 +125,19 @@ func BenchmarkLikelihood(b *testing.B) {
 
 // BenchmarkOptimizer compares the package's quasi-Newton minimiser with
 // gonum's optimize.BFGS (useGonum) on the airline fit of log air
-// passengers (CSS then ML, and ML from zero) and on the default stepwise
-// Search of that series.
+// passengers (CSS then ML, and ML from zero), on the default stepwise
+// Search of that series, and on the longest fit of BenchmarkFitSizes.
 func BenchmarkOptimizer(b *testing.B) {
 	y := logAirPassengers(b)
 	mlSpec := airline
 	mlSpec.Method = ML
+	// The long series of BenchmarkFitSizes.
+	long := y
+	long.Values = make([]float64, 14400)
+	for i := range long.Values {
+		long.Values[i] = y.Values[i%144] + 0.5*math.Floor(float64(i)/144)
+	}
+	drift := Spec{P: 1, D: 1, Q: 1, Constant: ConstantInclude}
 	for _, opt := range []struct {
 		name  string
 		gonum bool
@@ -142,6 +149,7 @@ func BenchmarkOptimizer(b *testing.B) {
 			{"airline-CSS-ML", func() error { _, err := airline.Fit(context.Background(), y); return err }},
 			{"airline-ML", func() error { _, err := mlSpec.Fit(context.Background(), y); return err }},
 			{"search", func() error { _, err := (Search{}).Fit(context.Background(), y); return err }},
+			{"ARIMA(1,1,1)-drift-n=14400", func() error { _, err := drift.Fit(context.Background(), long); return err }},
 		} {
 			b.Run(opt.name+"/"+m.name, func(b *testing.B) {
 				defer func(old bool) { useGonum = old }(useGonum)

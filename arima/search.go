@@ -128,8 +128,8 @@ const (
 //
 // Performance (BenchmarkSearch, one core of a 2-core machine shared with
 // other jobs, so indicative): the default stepwise search on the
-// 144-point log air passengers series fits 14 models in about 40–45 ms
-// (110–120 ms before the looser stopping rules and the one-pass Kalman
+// 144-point log air passengers series fits 14 models in 44–60 ms
+// (120–131 ms before the looser stopping rules and the one-pass Kalman
 // update, measured side by side); see the package documentation for the
 // other figures. Nearly all the time is spent in the Kalman filter.
 type Search struct {
