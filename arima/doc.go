@@ -86,14 +86,18 @@
 // iterations (Fitted.Converged reports a stop at the limit or a stalled
 // line search); Settings.Concurrent is 0 and there is no Runtime limit,
 // so results are deterministic, and ctx is checked at every evaluation
-// through Problem.Status. Until gonum/optimize could be built here the
-// package used its own BFGS in the form of Nash (1990), the method of R's
-// optim; it is kept as a cross-check (unexported switch), and the
-// reference test runs every fixture with both: both reach R's
-// log-likelihoods to the fixtures' tolerances, with the same number of
-// objective evaluations on the airline model (52 and 53 for CSS then ML)
-// and the
-// same speed (BenchmarkOptimizer: 1.0–1.2 ms per airline fit either way).
+// through Problem.Status. It works in z = (x − x0)/|∇f(x0)|, so that its
+// first step is −∇f(x0) (as in Nash's method) rather than a step of unit
+// length, which from the CSS start overshot the optimum: an ML fit of an
+// ARIMA(1,1,1) with drift on 14 400 values then took 24 evaluations
+// instead of 8, and twice the time. Until gonum/optimize could be built
+// here the package used its own BFGS in the form of Nash (1990), the
+// method of R's optim; it is kept as a cross-check (unexported switch),
+// and the reference test runs every fixture with both: both reach R's
+// log-likelihoods to the fixtures' tolerances. On the airline model
+// gonum's needs 34 evaluations for CSS then ML, the other 52
+// (BenchmarkOptimizer: 0.65–0.8 ms against 0.8–1.1 ms per fit; the same
+// on the Search and the long fit).
 // Standard errors come from inv(n·H), H the central-difference Hessian of
 // the objective with step 10⁻³ in the same units, AR coefficients
 // untransformed.
@@ -145,46 +149,41 @@
 // Measured with the package benchmarks (go test -bench . -cpu 1
 // -count 5) on a 2-core machine shared with other jobs, so the figures
 // are indicative: ranges are over the five runs, and the same benchmark
-// varied by up to 1.5× between moments of different load.
+// varied by up to 1.5× between moments of different load. "Was" figures
+// are the package before the changes described here, measured side by
+// side with the same benchmarks.
 //
 //   - Search, default stepwise, log air passengers (144 monthly values,
-//     14 candidates): 44–60 ms (before this version's changes, measured
-//     side by side: 120–131 ms); with CSS ranking 104–115 ms (was
-//     178–200); exhaustive grid p, q ≤ 2, P, Q ≤ 1: 83–106 ms on one core
-//     (was 123–149); first 72 values: 28–29 ms (was 85–109).
-//     Non-seasonal invented ARMA(1,1) series: n = 100 29–41 ms (was
-//     39–43), n = 400 7–11 ms (was 5.3–5.5, slower with gonum's
-//     optimiser, see below), n = 1600 41–57 ms (was 50–53).
-//     Where the time went: two candidates whose optimum lies on the
-//     unit circle (the optimiser crawls along a ridge towards it) took
-//     20–80 ms each; the search now fits candidates with looser stopping
-//     rules and refits the competitive ones (see Search), and the root
-//     screen no longer computes standard errors.
+//     14 candidates): 46–50 ms (was 120–131 ms; 44–64 ms at busier
+//     moments); with CSS ranking 109–133 ms (was 178–200); exhaustive
+//     grid p, q ≤ 2, P, Q ≤ 1 on one core: 75–104 ms (was 123–149); the
+//     first 72 values: 36–40 ms (was 85–109). Non-seasonal invented
+//     ARMA(1,1) series: n = 100 28–40 ms (was 39–43), n = 400 7–10 ms
+//     (was 5.3–5.5), n = 1600 42–45 ms (was 50–53).
+//     Where the time went: two candidates whose optimum lies on the unit
+//     circle (the optimiser crawls along a ridge towards it) took 20–80
+//     ms each; the search now fits candidates with looser stopping rules
+//     and refits the competitive ones (see Search), and the root screen
+//     no longer computes standard errors (a Hessian per candidate).
 //   - airline model (0,1,1)(0,1,1)[12] on log air passengers: CSS then
-//     ML (the default) 1.0–1.4 ms per fit, 1.4–1.5 ms including the
+//     ML (the default) 0.67–0.75 ms per fit, 0.93–0.99 ms including the
 //     standard errors (their Hessian is computed on the first call of
-//     Coef or CoefCov); ML from zero coefficients 1.05–1.15 ms; CSS alone
-//     0.12–0.2 ms; about 76 kB and 270 allocations per fit.
-//   - one exact likelihood evaluation of that model: 35–60 µs at
-//     n = 144, 175–215 µs at n = 576; ARIMA(2,0,1)(1,0,0)[12]: 70 µs
-//     and 160–280 µs; 0 allocations (TestNoAllocPerLikelihood asserts
+//     Coef or CoefCov); ML from zero coefficients 0.94–0.99 ms; CSS alone
+//     0.10–0.11 ms; about 76 kB and 270 allocations per fit.
+//   - one exact likelihood evaluation of that model: 30–34 µs at
+//     n = 144, 111–122 µs at n = 576; ARIMA(2,0,1)(1,0,0)[12]: 41–51 µs
+//     and 160–192 µs; 0 allocations (TestNoAllocPerLikelihood asserts
 //     it, with and without missing values). The Kalman update and the
 //     next prediction run in one pass (updatePredictARMA, bit-identical
-//     to the two-pass form, TestFusedUpdateBitIdentical), about 7% faster
-//     with the inner loop unrolled.
-//   - ARIMA(1,1,1) with drift, CSS then ML: 0.73 ms at n = 144,
-//     6.8–9.6 ms at n = 1440, 32–43 ms at n = 14 400. These are about
-//     twice the figures of the package's own BFGS (0.35, 5.6–6.2 and
-//     14–15 ms): started from the CSS estimate, close to the optimum,
-//     gonum's BFGS takes 24 likelihood evaluations where the own one
-//     takes 7 (its first step has unit length and every line-search trial
-//     needs a gradient, n + 1 evaluations with numerical derivatives).
-//     Its backtracking line search, which needs no gradient, stalls on
-//     the LakeHuron regression fixture; More–Thuente needs ten times more
-//     evaluations. BenchmarkOptimizer measures both optimisers
-//     (quasiNewton 16 ms, gonum 30–41 ms at n = 14 400; the same on the
-//     airline fit and the Search). Setting useGonum to false in
-//     optim_gonum.go restores the own optimiser.
+//     to the two-pass form, TestFusedUpdateBitIdentical), with the rank-one
+//     update unrolled (about 7% faster).
+//   - ARIMA(1,1,1) with drift, CSS then ML: 0.71–0.76 ms at n = 144,
+//     5.7–9 ms at n = 1440, 17–24 ms at n = 14 400. With the package's
+//     own BFGS (useGonum = false) the short fit takes 0.40–0.46 ms (was
+//     0.35–0.6): gonum's Minimize runs the method in a goroutine of its
+//     own and hands every evaluation over a channel, an overhead that
+//     shows when one evaluation costs a few microseconds; the longer
+//     fits, the airline fit and the Search take the same time either way.
 //
 // The likelihood is cheap because only the first d + sD observations go
 // through the full state (in closed form, see below); after them the
