@@ -209,7 +209,11 @@ type Candidate struct {
 	LogLik float64
 	// Err says why the candidate has no score: the fitting error, or a
 	// rejection (wrapping ErrNearUnitRoot) when an AR or MA root lies
-	// within 1.001 of the unit circle. nil for a scored candidate.
+	// within 1.001 of the unit circle. nil for a scored candidate. The
+	// root screen applies to the fit the Score comes from: a candidate
+	// that was not refitted with the full rules (far from the best) may
+	// pass it where the full fit, whose optimum lies on the unit circle,
+	// would come closer to the circle and fail it.
 	Err error
 }
 
