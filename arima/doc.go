@@ -138,8 +138,11 @@
 //
 // # Concurrency
 //
-// A Spec is a plain value, safe to share; Fit starts no goroutine and can
-// be called concurrently. A *Fitted is read-only after Fit and safe for
+// A Spec is a plain value, safe to share; Fit can be called concurrently.
+// Within one fit nothing runs in parallel: gonum's optimize.Minimize runs
+// its method on a helper goroutine of its own, but hands it one
+// evaluation at a time (Settings.Concurrent is 0), and the package starts
+// no goroutine itself. A *Fitted is read-only after Fit and safe for
 // concurrent use (each forecast works on its own copy of the filter
 // state). Results are deterministic: the same input gives bit-identical
 // output, whatever else runs.
