@@ -139,6 +139,13 @@ func run(ctx context.Context, w io.Writer) (*plan, error) {
 	if err := cmp.WriteText(w); err != nil {
 		return nil, err
 	}
+	// Bands that hold fewer outcomes than their level promise are a warning
+	// worth printing: widen them in the plan, or trust the points less.
+	for c, name := range cmp.Names {
+		if iv, ok := cmp.Mean[c].Interval(level); ok && iv.Coverage < level/100-0.05 {
+			fmt.Fprintf(w, "note: the %.0f%% bands of %s held only %.0f%% of the outcomes in the backtest\n", level, name, 100*iv.Coverage)
+		}
+	}
 	fmt.Fprintln(w)
 
 	models := map[string]almanac.Model{
@@ -250,7 +257,7 @@ func label(key string) string {
 func printPlan(w io.Writer, st reconcile.Structure, nodes []almanac.Series, fits []almanac.Fitted, chosen []string, mase []float64, rec []almanac.Forecast) {
 	year := rec[0].Start.Year()
 	fmt.Fprintf(w, "Plan for %d: units, reconciled so products add up to categories and the total\n", year)
-	fmt.Fprintf(w, "%-20s %-15s %-30s %5s %10s %10s  %s\n", "", "method won", "model", "MASE", "last year", "next year", fmt.Sprintf("%.0f%% band", level))
+	fmt.Fprintf(w, "%-20s %-15s %-36s %5s %10s %10s  %s\n", "", "method won", "model", "MASE", "last year", "next year", fmt.Sprintf("%.0f%% band", level))
 	for i, y := range nodes {
 		last := 0.0
 		for _, v := range y.Values[y.Len()-12:] {
@@ -259,8 +266,8 @@ func printPlan(w io.Writer, st reconcile.Structure, nodes []almanac.Series, fits
 		next := sum(rec[i].Mean)
 		lo, hi := yearBand(rec[i])
 		indent := strings.Repeat("  ", st.Level(i))
-		fmt.Fprintf(w, "%-20s %-15s %-30s %5.2f %10.0f %10.0f  %.0f to %.0f\n",
-			indent+shortName(label(y.Key)), chosen[i], clip(fits[i].String(), 30), mase[i], last, next, lo, hi)
+		fmt.Fprintf(w, "%-20s %-15s %-36s %5.2f %10.0f %10.0f  %.0f to %.0f\n",
+			indent+shortName(label(y.Key)), chosen[i], clip(fits[i].String(), 36), mase[i], last, next, lo, hi)
 	}
 	fmt.Fprintln(w)
 
