@@ -19,7 +19,12 @@
 // prediction intervals and, through the forecast distribution (Normal,
 // Sample or Mapped), any quantile. The forecast starts at y.Time(y.Len()).
 // Writing a model of one's own takes a Fit method and the four Fitted
-// methods; see Model and the custom-model example.
+// methods; see Model and the custom-model example. Optional capabilities
+// are separate interfaces found by type assertion: Simulator (sample
+// paths), ParamCounter (parameters estimated, for residual tests) and
+// ResponseResidualer (errors on the data's scale when Residuals are on
+// another, as for multiplicative-error or transformed models; the
+// ResponseResiduals function falls back to Residuals).
 //
 // # Benchmarks
 //
