@@ -125,14 +125,36 @@ func NewForecast(start time.Time, freq calendar.Frequency, mean []float64, dist 
 		return Forecast{}, fmt.Errorf("almanac: %w: cannot give intervals", ErrNoDistribution)
 	}
 	f := Forecast{Start: start, Freq: freq, Mean: mean, Dist: dist}
-	for _, l := range levels {
-		lo := make([]float64, len(mean))
-		hi := make([]float64, len(mean))
-		for h := range mean {
-			lo[h] = dist.Quantile(h, (1-l/100)/2)
-			hi[h] = dist.Quantile(h, (1+l/100)/2)
+	if len(levels) == 0 {
+		return f, nil
+	}
+	// Probabilities of every bound: lower and upper for each level.
+	ps := make([]float64, 2*len(levels))
+	for i, l := range levels {
+		ps[2*i], ps[2*i+1] = (1-l/100)/2, (1+l/100)/2
+	}
+	f.Intervals = make([]Interval, len(levels))
+	for i, l := range levels {
+		f.Intervals[i] = Interval{Level: l, Lower: make([]float64, len(mean)), Upper: make([]float64, len(mean))}
+	}
+	q := make([]float64, len(ps))
+	s, isSample := dist.(*Sample)
+	var col []float64
+	for h := range mean {
+		if isSample {
+			// One sort per step serves every bound.
+			col = s.sortedColumn(col[:0], h)
+			for j, p := range ps {
+				q[j] = quantileSorted(col, p)
+			}
+		} else {
+			for j, p := range ps {
+				q[j] = dist.Quantile(h, p)
+			}
 		}
-		f.Intervals = append(f.Intervals, Interval{Level: l, Lower: lo, Upper: hi})
+		for i := range levels {
+			f.Intervals[i].Lower[h], f.Intervals[i].Upper[h] = q[2*i], q[2*i+1]
+		}
 	}
 	return f, nil
 }
@@ -168,22 +190,26 @@ type Sample struct {
 
 // Quantile returns the p-quantile of the paths at step h, ignoring NaN.
 func (d *Sample) Quantile(h int, p float64) float64 {
-	xs := make([]float64, 0, len(d.Paths))
-	for _, path := range d.Paths {
-		if v := path[h]; !math.IsNaN(v) {
-			xs = append(xs, v)
-		}
-	}
-	return quantileType7(xs, p)
+	return quantileSorted(d.sortedColumn(make([]float64, 0, len(d.Paths)), h), p)
 }
 
-// quantileType7 sorts xs in place and returns its p-quantile by linear
+// sortedColumn appends the non-NaN values of step h to dst, sorted.
+func (d *Sample) sortedColumn(dst []float64, h int) []float64 {
+	for _, path := range d.Paths {
+		if v := path[h]; !math.IsNaN(v) {
+			dst = append(dst, v)
+		}
+	}
+	slices.Sort(dst)
+	return dst
+}
+
+// quantileSorted returns the p-quantile of sorted xs by linear
 // interpolation between order statistics (NaN when xs is empty).
-func quantileType7(xs []float64, p float64) float64 {
+func quantileSorted(xs []float64, p float64) float64 {
 	if len(xs) == 0 {
 		return math.NaN()
 	}
-	slices.Sort(xs)
 	pos := p * float64(len(xs)-1)
 	i := int(math.Floor(pos))
 	if i >= len(xs)-1 {

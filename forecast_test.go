@@ -83,3 +83,27 @@ func TestForecastErrors(t *testing.T) {
 		})
 	}
 }
+
+// TestNewForecastSampleBounds: the bounds NewForecast takes from sample
+// paths (one sort per step) equal the distribution's own Quantile at each
+// bound, NaN paths included; a hand case: paths 1..5 at step 0, the 80%
+// interval is the type-7 quantiles at 0.1 and 0.9, 1.4 and 4.6.
+func TestNewForecastSampleBounds(t *testing.T) {
+	paths := [][]float64{{3, 10}, {1, math.NaN()}, {5, 7}, {2, 9}, {4, 8}}
+	d := &almanac.Sample{Paths: paths}
+	f, err := almanac.NewForecast(utc(2026, 1, 1), calendar.Monthly, []float64{3, 8.5}, d, 80, 50)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, iv := range f.Intervals {
+		for h := range 2 {
+			lo, hi := d.Quantile(h, (1-iv.Level/100)/2), d.Quantile(h, (1+iv.Level/100)/2)
+			if iv.Lower[h] != lo || iv.Upper[h] != hi {
+				t.Errorf("level %v step %d: [%v, %v], Quantile gives [%v, %v]", iv.Level, h, iv.Lower[h], iv.Upper[h], lo, hi)
+			}
+		}
+	}
+	if got := f.Intervals[0]; math.Abs(got.Lower[0]-1.4) > 1e-12 || math.Abs(got.Upper[0]-4.6) > 1e-12 {
+		t.Errorf("80%% interval at step 0 = [%v, %v], want [1.4, 4.6]", got.Lower[0], got.Upper[0])
+	}
+}
