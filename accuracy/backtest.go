@@ -2,7 +2,6 @@ package accuracy
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"math"
 	"runtime"
@@ -213,14 +212,13 @@ func (b Backtest) candidates(models []Candidate, period int) ([]Candidate, int, 
 	return all, base, nil
 }
 
-// resolve checks the specification against y and lays out the origins.
-func (b Backtest) resolve(y almanac.Series, models []Candidate) (*plan, error) {
-	if err := y.Validate(); err != nil {
-		return nil, fmt.Errorf("accuracy: backtest: %w", err)
-	}
+// check validates the parts of the specification that do not depend on
+// the series: levels, signs of the options, the window kind, and a
+// sliding window longer than an explicit First.
+func (b Backtest) check() error {
 	for _, l := range b.Levels {
 		if err := almanac.CheckLevels(l); err != nil {
-			return nil, fmt.Errorf("accuracy: backtest: %w", err)
+			return fmt.Errorf("accuracy: backtest: %w", err)
 		}
 	}
 	bad := func(what string, v int) error {
@@ -228,21 +226,37 @@ func (b Backtest) resolve(y almanac.Series, models []Candidate) (*plan, error) {
 	}
 	switch {
 	case b.Horizon < 0:
-		return nil, bad("horizon", b.Horizon)
+		return bad("horizon", b.Horizon)
 	case b.First < 0:
-		return nil, bad("first origin", b.First)
+		return bad("first origin", b.First)
 	case b.Origins < 0:
-		return nil, bad("origin count", b.Origins)
+		return bad("origin count", b.Origins)
 	case b.Step < 0:
-		return nil, bad("step", b.Step)
+		return bad("step", b.Step)
 	case b.Length < 0:
-		return nil, bad("window length", b.Length)
+		return bad("window length", b.Length)
 	case b.Period < 0:
-		return nil, bad("period", b.Period)
+		return bad("period", b.Period)
 	case b.Workers < 0:
-		return nil, bad("worker count", b.Workers)
+		return bad("worker count", b.Workers)
 	case b.Window != Expanding && b.Window != Sliding:
-		return nil, fmt.Errorf("accuracy: backtest: %w: window %v", almanac.ErrInvalid, b.Window)
+		return fmt.Errorf("accuracy: backtest: %w: window %v", almanac.ErrInvalid, b.Window)
+	case b.Window == Sliding && b.First > 0 && b.Length > b.First:
+		return b.slidingTooLong(b.First)
+	}
+	return nil
+}
+
+func (b Backtest) slidingTooLong(first int) error {
+	return fmt.Errorf("accuracy: backtest: %w: sliding window of %d observations is longer than the %d before the first origin", almanac.ErrInvalid, b.Length, first)
+}
+
+// layout checks y and lays out its origins (the specification must have
+// passed check). Its errors are about the series: invalid values, or too
+// few observations for the origins.
+func (b Backtest) layout(y almanac.Series) (*plan, error) {
+	if err := y.Validate(); err != nil {
+		return nil, fmt.Errorf("accuracy: backtest: %w", err)
 	}
 	p := &plan{y: y, period: b.Period, levels: slices.Clone(b.Levels)}
 	if p.period == 0 {
@@ -277,7 +291,7 @@ func (b Backtest) resolve(y almanac.Series, models []Candidate) (*plan, error) {
 		length = first
 	}
 	if b.Window == Sliding && length > first {
-		return nil, fmt.Errorf("accuracy: backtest: %w: sliding window of %d observations is longer than the %d before the first origin", almanac.ErrInvalid, length, first)
+		return nil, b.slidingTooLong(first)
 	}
 	for k := range count {
 		o := first + k*step
@@ -290,10 +304,6 @@ func (b Backtest) resolve(y almanac.Series, models []Candidate) (*plan, error) {
 			sc, sq = math.NaN(), math.NaN()
 		}
 		p.origins = append(p.origins, Origin{Index: o, TrainStart: start, Time: y.Time(o), Scale: sc, ScaleSq: sq})
-	}
-	var err error
-	if p.candidates, p.baseline, err = b.candidates(models, p.period); err != nil {
-		return nil, err
 	}
 	return p, nil
 }
@@ -308,13 +318,20 @@ type outcome struct {
 	err      error
 }
 
-// execute runs every job of the plans on the worker pool and returns the
-// outcomes in job order, or the error of the first failed job in that
-// order (so the error, like the results, does not depend on scheduling).
-func (b Backtest) execute(ctx context.Context, plans []*plan) ([][][]outcome, error) {
+// execute runs every job of the plans (nil plans are skipped) on the
+// worker pool and returns the outcomes in job order together with, per
+// plan, the error of its first failed job in job order (candidate, then
+// origin), or nil. Once a job of a plan has failed, the plan's later jobs
+// are skipped; earlier ones still run, so the error recorded, like the
+// results, does not depend on scheduling. The last result is the
+// cancellation of ctx, wrapped, when it happened.
+func (b Backtest) execute(ctx context.Context, plans []*plan) ([][][]outcome, []error, error) {
 	var jobs []job
 	out := make([][][]outcome, len(plans))
 	for s, p := range plans {
+		if p == nil {
+			continue
+		}
 		out[s] = make([][]outcome, len(p.candidates))
 		for c := range p.candidates {
 			out[s][c] = make([]outcome, len(p.origins))
@@ -323,14 +340,18 @@ func (b Backtest) execute(ctx context.Context, plans []*plan) ([][][]outcome, er
 			}
 		}
 	}
+	// firstFail[s] is the lowest job index of plan s that failed so far
+	// (len(jobs) while none has).
+	firstFail := make([]atomic.Int64, len(plans))
+	for s := range firstFail {
+		firstFail[s].Store(int64(len(jobs)))
+	}
 	workers := b.Workers
 	if workers == 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
 	workers = min(workers, len(jobs))
 	var next atomic.Int64
-	var firstFail atomic.Int64
-	firstFail.Store(int64(len(jobs)))
 	var wg sync.WaitGroup
 	for range workers {
 		wg.Add(1)
@@ -341,17 +362,18 @@ func (b Backtest) execute(ctx context.Context, plans []*plan) ([][][]outcome, er
 				if i >= len(jobs) || ctx.Err() != nil {
 					return
 				}
-				if int64(i) > firstFail.Load() {
-					continue // a lower-numbered job already failed
-				}
 				j := jobs[i]
+				ff := &firstFail[j.series]
+				if int64(i) > ff.Load() {
+					continue // a lower-numbered job of this series already failed
+				}
 				p := plans[j.series]
 				r := &out[j.series][j.cand][j.origin]
 				*r = runOne(ctx, p, p.candidates[j.cand], p.origins[j.origin])
 				if r.err != nil {
 					for {
-						cur := firstFail.Load()
-						if int64(i) >= cur || firstFail.CompareAndSwap(cur, int64(i)) {
+						cur := ff.Load()
+						if int64(i) >= cur || ff.CompareAndSwap(cur, int64(i)) {
 							break
 						}
 					}
@@ -361,23 +383,31 @@ func (b Backtest) execute(ctx context.Context, plans []*plan) ([][][]outcome, er
 	}
 	wg.Wait()
 	if err := ctx.Err(); err != nil {
-		return nil, fmt.Errorf("accuracy: backtest: %w", err)
+		return nil, nil, fmt.Errorf("accuracy: backtest: %w", err)
 	}
-	if f := int(firstFail.Load()); f < len(jobs) {
-		j := jobs[f]
-		return nil, out[j.series][j.cand][j.origin].err
+	errs := make([]error, len(plans))
+	for s := range plans {
+		if f := int(firstFail[s].Load()); f < len(jobs) {
+			j := jobs[f]
+			errs[s] = out[j.series][j.cand][j.origin].err
+		}
 	}
-	return out, nil
+	return out, errs, nil
 }
 
-func runOne(ctx context.Context, p *plan, c Candidate, o Origin) outcome {
+// runOne fits candidate c to the training window of origin o and
+// forecasts from it. A panic inside the model is recovered and reported
+// as an error wrapping ErrBacktest and almanac.ErrNotFitted.
+func runOne(ctx context.Context, p *plan, c Candidate, o Origin) (res outcome) {
 	fail := func(what string, err error) outcome {
-		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
-			return outcome{err: err}
-		}
 		return outcome{err: fmt.Errorf("accuracy: %w: series %q, model %q, origin %d (%s): %s: %w",
 			ErrBacktest, p.y.Key, c.Name, o.Index, o.Time.Format(time.DateOnly), what, err)}
 	}
+	defer func() {
+		if v := recover(); v != nil {
+			res = fail("panic", fmt.Errorf("%w: %v", almanac.ErrNotFitted, v))
+		}
+	}()
 	train := p.y.Window(o.TrainStart, o.Index)
 	fit, err := c.Model.Fit(ctx, train)
 	if err != nil {
@@ -489,98 +519,187 @@ func boundsAt(f almanac.Forecast, level float64, s int) (lo, hi float64) {
 	return math.NaN(), math.NaN()
 }
 
+// resolve checks the specification and y and lays out the backtest.
+func (b Backtest) resolve(y almanac.Series, models []Candidate) (*plan, error) {
+	if err := b.check(); err != nil {
+		return nil, err
+	}
+	p, err := b.layout(y)
+	if err != nil {
+		return nil, err
+	}
+	if p.candidates, p.baseline, err = b.candidates(models, p.period); err != nil {
+		return nil, err
+	}
+	return p, nil
+}
+
 // Run backtests the models on y, together with the benchmarks, and
 // returns every candidate's forecasts and scores at the same origins.
 //
 // Special cases: an invalid series or specification gives an error
 // wrapping the root sentinel (ErrTooShort when the series cannot hold the
 // origins, ErrInvalid for a bad option, ErrLevel for a bad level); a
-// model that fails to fit or forecast at some origin gives an error
-// wrapping ErrBacktest and the model's own error (the failure of the
-// first candidate, then the earliest origin); a cancelled ctx gives
-// ctx.Err() wrapped.
+// model that fails to fit or forecast at some origin, or panics, gives an
+// error wrapping ErrBacktest and the model's own error (the failure of
+// the first candidate, then the earliest origin); a cancelled ctx gives
+// ctx.Err() wrapped. Unlike RunBatch, which sets a failing series aside
+// and scores the others, Run has nothing else to score, so any failure is
+// its error.
 func (b Backtest) Run(ctx context.Context, y almanac.Series, models ...Candidate) (*Comparison, error) {
 	p, err := b.resolve(y, models)
 	if err != nil {
 		return nil, err
 	}
-	outs, err := b.execute(ctx, []*plan{p})
+	outs, errs, err := b.execute(ctx, []*plan{p})
 	if err != nil {
 		return nil, err
+	}
+	if errs[0] != nil {
+		return nil, errs[0]
 	}
 	return b.assemble(p, outs[0]), nil
 }
 
+// SeriesFailure is a series left out of a batch backtest.
+type SeriesFailure struct {
+	Index int    // position of the series in the input
+	Key   string // its key
+	// Err is what Run returns for this series alone: an error about the
+	// series (for instance almanac.ErrTooShort when it cannot hold the
+	// origins, almanac.ErrNonFinite) or one wrapping ErrBacktest and the
+	// model's own error when a candidate failed to fit or forecast at
+	// some origin.
+	Err error
+}
+
 // BatchComparison is the result of a backtest of many series.
+//
+// A series on which the backtest fails — its data cannot hold the
+// origins, or any candidate fails to fit or forecast at any origin — is
+// left out: its Series entry is nil and it is listed in Failed. The
+// summaries (Mean, Relative, AvgRelMAE, and OWA) cover only the series
+// scored for every candidate, so the candidates are compared on the same
+// series.
 type BatchComparison struct {
-	Series []*Comparison // one per series, in input order
+	// Series holds one comparison per input series, in input order; nil
+	// for a series that was left out (see Failed).
+	Series []*Comparison
+	// Failed lists the series left out, in input order (empty when every
+	// series was scored).
+	Failed []SeriesFailure
 	// Names lists the candidates in the order of each Comparison's Runs.
 	Names    []string
 	Baseline string
-	// Mean[c] averages candidate c's Overall scores over the series,
-	// measure by measure (NaN when the measure is NaN for any series; N
-	// is the total number of cells).
+	// Mean[c] averages candidate c's Overall scores over the scored
+	// series, measure by measure (NaN when the measure is NaN for any of
+	// them; N is the total number of cells).
 	Mean []Scores
 	// Relative[c] is Mean[c] divided by the baseline's Mean, measure by
 	// measure: the ratio of averages across series, as the M4 competition
 	// relates sMAPE and MASE to its benchmark.
 	Relative []Ratios
-	// AvgRelMAE[c] is the geometric mean over the series of candidate c's
-	// MAE relative to the baseline's, each series weighted by its number
-	// of scored cells: (Π_i r_i^{n_i})^{1/Σ n_i} (Davydenko & Fildes 2013,
-	// recalled from memory). NaN when a ratio is undefined (a baseline MAE
-	// of 0, a model MAE of 0, or no cells).
+	// AvgRelMAE[c] is the geometric mean over the scored series of
+	// candidate c's MAE relative to the baseline's, each series weighted
+	// by its number of scored cells: (Π_i r_i^{n_i})^{1/Σ n_i} (Davydenko
+	// & Fildes 2013, recalled from memory). NaN when a ratio is undefined
+	// (a baseline MAE of 0, a model MAE of 0, or no cells).
 	AvgRelMAE []float64
 }
+
+// Scored returns the number of series scored (not left out).
+func (b *BatchComparison) Scored() int { return len(b.Series) - len(b.Failed) }
 
 // RunBatch backtests the models on every series, fitting all (series,
 // candidate, origin) triples on one worker pool. The same specification
 // applies to each series (origins are laid out per series, so series may
-// differ in length). Special cases as for Run; the error names the series.
+// differ in length).
+//
+// A failure never stops the other series: a series whose data cannot
+// hold the backtest, or on which any candidate fails (or panics) at any
+// origin, is recorded in Failed with the error Run would give for it
+// alone, and the summaries average over the series that were scored for
+// every candidate. Which series fail, and why, does not depend on
+// Workers.
+//
+// Special cases: no series gives an error wrapping almanac.ErrEmpty; an
+// invalid specification (bad option or level, no candidate, duplicate or
+// unknown names, candidate sets that differ between series because the
+// default benchmarks follow the period) an error wrapping the root
+// sentinel, as for Run; a cancelled ctx ctx.Err() wrapped; and when no
+// series at all can be scored, an error wrapping ErrBacktest and the
+// first series' failure. There is never a result alongside an error.
 func (b Backtest) RunBatch(ctx context.Context, ys []almanac.Series, models ...Candidate) (*BatchComparison, error) {
 	if len(ys) == 0 {
 		return nil, fmt.Errorf("accuracy: backtest: %w: no series", almanac.ErrEmpty)
 	}
+	if err := b.check(); err != nil {
+		return nil, err
+	}
 	plans := make([]*plan, len(ys))
+	errs := make([]error, len(ys))
+	ref := -1 // first series laid out: the reference candidate set
 	for i, y := range ys {
-		p, err := b.resolve(y, models)
+		p, err := b.layout(y)
 		if err != nil {
+			errs[i] = err
+			continue
+		}
+		if p.candidates, p.baseline, err = b.candidates(models, p.period); err != nil {
 			return nil, fmt.Errorf("accuracy: backtest: series %d: %w", i, err)
 		}
-		if i > 0 && len(p.candidates) != len(plans[0].candidates) {
-			return nil, fmt.Errorf("accuracy: backtest: %w: series %d has %d candidates and series 0 has %d (the default benchmarks depend on the period; set Period or Benchmarks)", almanac.ErrInvalid, i, len(p.candidates), len(plans[0].candidates))
-		}
-		if i > 0 {
+		if ref < 0 {
+			ref = i
+		} else {
+			r := plans[ref]
+			if len(p.candidates) != len(r.candidates) {
+				return nil, fmt.Errorf("accuracy: backtest: %w: series %d has %d candidates and series %d has %d (the default benchmarks depend on the period; set Period or Benchmarks)", almanac.ErrInvalid, i, len(p.candidates), ref, len(r.candidates))
+			}
 			for c := range p.candidates {
-				if p.candidates[c].Name != plans[0].candidates[c].Name {
-					return nil, fmt.Errorf("accuracy: backtest: %w: candidates differ between series 0 and %d (set Period or Benchmarks)", almanac.ErrInvalid, i)
+				if p.candidates[c].Name != r.candidates[c].Name {
+					return nil, fmt.Errorf("accuracy: backtest: %w: candidates differ between series %d and %d (set Period or Benchmarks)", almanac.ErrInvalid, ref, i)
 				}
 			}
 		}
 		plans[i] = p
 	}
-	outs, err := b.execute(ctx, plans)
+	outs, runErrs, err := b.execute(ctx, plans)
 	if err != nil {
 		return nil, err
 	}
-	bc := &BatchComparison{Baseline: plans[0].candidates[plans[0].baseline].Name}
-	for _, c := range plans[0].candidates {
+	bc := &BatchComparison{Series: make([]*Comparison, len(ys))}
+	var scored []*Comparison
+	for i, p := range plans {
+		if errs[i] == nil {
+			errs[i] = runErrs[i]
+		}
+		if errs[i] != nil {
+			bc.Failed = append(bc.Failed, SeriesFailure{Index: i, Key: ys[i].Key, Err: errs[i]})
+			continue
+		}
+		bc.Series[i] = b.assemble(p, outs[i])
+		scored = append(scored, bc.Series[i])
+	}
+	if len(scored) == 0 {
+		f := bc.Failed[0]
+		return nil, fmt.Errorf("accuracy: %w: none of the %d series could be scored; series %d (%q): %w", ErrBacktest, len(ys), f.Index, f.Key, f.Err)
+	}
+	r := plans[ref]
+	bc.Baseline = r.candidates[r.baseline].Name
+	for _, c := range r.candidates {
 		bc.Names = append(bc.Names, c.Name)
 	}
-	for i, p := range plans {
-		bc.Series = append(bc.Series, b.assemble(p, outs[i]))
-	}
-	per := make([]Scores, len(ys))
+	per := make([]Scores, len(scored))
 	for c := range bc.Names {
-		for i, cmp := range bc.Series {
+		for i, cmp := range scored {
 			per[i] = cmp.Runs[c].Overall
 		}
 		bc.Mean = append(bc.Mean, meanScores(per))
 	}
-	base := bc.Mean[plans[0].baseline]
+	base := bc.Mean[r.baseline]
 	for c := range bc.Names {
 		bc.Relative = append(bc.Relative, bc.Mean[c].RelativeTo(base))
-		bc.AvgRelMAE = append(bc.AvgRelMAE, avgRelMAE(bc.Series, c, plans[0].baseline))
+		bc.AvgRelMAE = append(bc.AvgRelMAE, avgRelMAE(scored, c, r.baseline))
 	}
 	return bc, nil
 }

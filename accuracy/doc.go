@@ -22,6 +22,17 @@
 // table for the terminal and WriteCSV a long CSV; these printed layouts
 // are our own and are not a stable API (read the fields instead).
 //
+// A failure in a batch never aborts the other series: a series whose data
+// cannot hold the origins, or on which any candidate fails to fit or
+// forecast (or panics) at any origin, is left out — a nil entry in
+// BatchComparison.Series and a SeriesFailure in Failed, carrying the
+// error Run gives for that series alone — and the averages cover only the
+// series scored for every candidate, so the candidates are compared on
+// the same series; the renderings say how many were left out and why.
+// RunBatch returns an error only for a bad specification, a cancelled
+// context, or when no series can be scored. Run, with one series, returns
+// any failure as its error.
+//
 // # Missing values
 //
 // NaN marks a missing value everywhere. A measure leaves out every index
@@ -58,8 +69,10 @@
 // Every function is safe for concurrent use. A Backtest value is a
 // specification, safe to share; Run fits the (model, origin) pairs on a
 // pool of Workers goroutines and writes each result by index, so the
-// output is bit-identical for any number of workers. Nothing else in the
-// package starts goroutines.
+// output is bit-identical for any number of workers, including which
+// series of a batch fail and with which error (the first failing
+// candidate, then origin, of each series). Nothing else in the package
+// starts goroutines.
 //
 // # Performance
 //

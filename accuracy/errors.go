@@ -14,6 +14,8 @@ var (
 	// scale, a relative measure whose benchmark is perfect.
 	ErrUndefined = errors.New("measure undefined for this data")
 	// ErrBacktest: a model could not be fitted or forecast at some origin
-	// of a backtest. The wrapped chain also holds the model's own error.
+	// of a backtest (Run's error; in a batch, the series' SeriesFailure),
+	// or no series of a batch could be scored. The wrapped chain also
+	// holds the model's own error (for a batch, the first series').
 	ErrBacktest = errors.New("backtest failed")
 )

@@ -2,6 +2,7 @@ package accuracy_test
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"os"
@@ -151,7 +152,9 @@ func ExampleComparison_WriteText() {
 }
 
 // A batch backtest over a small product range, with the M4 competition's
-// Naive2 benchmark added and OWA against it (invented figures).
+// Naive2 benchmark added and OWA against it (invented figures). A pass
+// launched ten months ago cannot hold eight origins: it is left out and
+// the averages cover the other two.
 func ExampleBacktest_RunBatch() {
 	bus := citySeries()
 	ferry := citySeries()
@@ -160,6 +163,8 @@ func ExampleBacktest_RunBatch() {
 	for i := range ferry.Values {
 		ferry.Values[i] = 0.4*ferry.Values[i] + 3*float64(i%5)
 	}
+	tram := bus.Tail(10)
+	tram.Key = "tram passes"
 	bt := accuracy.Backtest{
 		Horizon: 6,
 		Origins: 8,
@@ -169,17 +174,23 @@ func ExampleBacktest_RunBatch() {
 			{Name: accuracy.Naive2Name, Model: accuracy.Naive2{}},
 		},
 	}
-	b, err := bt.RunBatch(context.Background(), []almanac.Series{bus, ferry},
+	b, err := bt.RunBatch(context.Background(), []almanac.Series{bus, ferry, tram},
 		accuracy.Candidate{Name: "drift", Model: almanac.Drift{}})
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
+	for _, f := range b.Failed {
+		fmt.Printf("left out: %s (too short: %t)\n", f.Key, errors.Is(f.Err, almanac.ErrTooShort))
+	}
+	fmt.Printf("averaged over %d of %d series\n", b.Scored(), len(b.Series))
 	for i, name := range b.Names {
 		owa, _ := b.OWA(name, accuracy.Naive2Name)
 		fmt.Printf("%-15s sMAPE %.3f  MASE %.3f  OWA %.3f\n", name, b.Mean[i].SMAPE, b.Mean[i].MASE, owa)
 	}
 	// Output:
+	// left out: tram passes (too short: true)
+	// averaged over 2 of 3 series
 	// drift           sMAPE 4.365  MASE 1.145  OWA 1.869
 	// naive           sMAPE 4.311  MASE 1.126  OWA 1.842
 	// seasonal naive  sMAPE 4.155  MASE 1.032  OWA 1.730

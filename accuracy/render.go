@@ -188,20 +188,50 @@ func (c *Comparison) WriteText(w io.Writer) error {
 	return t.w.Flush()
 }
 
+// maxListed caps the left-out series listed by BatchComparison.WriteText.
+const maxListed = 10
+
+// seriesLabel names series i in the renderings: its key, or its position
+// when it has none.
+func seriesLabel(i int, key string) string {
+	if key == "" {
+		return fmt.Sprintf("(series %d)", i)
+	}
+	return key
+}
+
 // WriteText writes the batch comparison as a plain-text table: the
-// measures averaged over the series, models across, then the ratios of
-// the averages to the baseline's. The layout is not a stable API.
+// measures averaged over the scored series, models across, then the
+// ratios of the averages to the baseline's. When series were left out it
+// says how many and lists them (the first ten) with the reason. The
+// layout is not a stable API.
 func (b *BatchComparison) WriteText(w io.Writer) error {
 	t := newTable(w, b.Names, b.Baseline)
 	var levels []float64
 	origins := 0
-	if len(b.Series) > 0 {
-		levels = b.Series[0].Levels
-		for _, c := range b.Series {
-			origins += len(c.Origins)
+	for _, c := range b.Series {
+		if c == nil {
+			continue
 		}
+		if levels == nil {
+			levels = c.Levels
+		}
+		origins += len(c.Origins)
 	}
-	fmt.Fprintf(t.w, "backtest of %d series (%d origins in all), each measure averaged over the series\n\n", len(b.Series), origins)
+	if len(b.Failed) == 0 {
+		fmt.Fprintf(t.w, "backtest of %d series (%d origins in all), each measure averaged over the series\n\n", len(b.Series), origins)
+	} else {
+		fmt.Fprintf(t.w, "backtest of %d series, %d scored (%d origins in all), each measure averaged over the scored series\n", len(b.Series), b.Scored(), origins)
+		fmt.Fprintf(t.w, "%d of %d series left out, the backtest failed on them:\n", len(b.Failed), len(b.Series))
+		for k, f := range b.Failed {
+			if k == maxListed {
+				fmt.Fprintf(t.w, "  ... and %d more\n", len(b.Failed)-maxListed)
+				break
+			}
+			fmt.Fprintf(t.w, "  %s: %v\n", seriesLabel(f.Index, f.Key), f.Err)
+		}
+		fmt.Fprintln(t.w)
+	}
 	t.scores(levels, b.Mean, b.Relative)
 	t.row("  abs error, geometric", b.AvgRelMAE)
 	vals := make([]float64, len(b.Names))
@@ -295,19 +325,34 @@ func (c *Comparison) WriteCSV(w io.Writer) error {
 // series in BatchComparison.WriteCSV.
 const BatchMeanKey = "(mean over series)"
 
-// WriteCSV writes every series' rows as Comparison.WriteCSV does, then
-// the averages over the series with BatchMeanKey in the series column.
+// WriteCSV writes every scored series' rows as Comparison.WriteCSV does;
+// then one row per series left out, with an empty model and step, the
+// measure "left_out" and the error message as the value; then the
+// averages over the scored series with BatchMeanKey in the series column,
+// including the measure "series", the number of series averaged.
 func (b *BatchComparison) WriteCSV(w io.Writer) error {
 	cw := csv.NewWriter(w)
 	if err := cw.Write(csvHeader); err != nil {
 		return err
 	}
 	for _, c := range b.Series {
+		if c == nil {
+			continue
+		}
 		if err := c.writeCSVRows(cw); err != nil {
 			return err
 		}
 	}
+	for _, f := range b.Failed {
+		if err := cw.Write([]string{seriesLabel(f.Index, f.Key), "", "", "left_out", f.Err.Error()}); err != nil {
+			return err
+		}
+	}
+	scored := strconv.Itoa(b.Scored())
 	for i, name := range b.Names {
+		if err := cw.Write([]string{BatchMeanKey, name, "all", "series", scored}); err != nil {
+			return err
+		}
 		if err := csvScores(cw, BatchMeanKey, name, "all", b.Mean[i]); err != nil {
 			return err
 		}

@@ -1,0 +1,322 @@
+package accuracy_test
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"fmt"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/accuracy"
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+)
+
+// keyTrouble is a test-only model that behaves like the drift method
+// except on the series keyed key, where it fails to fit (or, with panics
+// set, panics) once the training window holds at least from
+// observations.
+type keyTrouble struct {
+	key    string
+	from   int
+	panics bool
+}
+
+func (m keyTrouble) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	if y.Key == m.key && y.Len() >= m.from {
+		if m.panics {
+			panic(fmt.Sprintf("test model: cannot handle %d observations", y.Len()))
+		}
+		return nil, fmt.Errorf("test model: %w: refusing series %q", almanac.ErrNotFitted, y.Key)
+	}
+	return almanac.Drift{}.Fit(ctx, y)
+}
+
+// batchInputs returns three series for the batch tests: AirPassengers
+// (Box, Jenkins & Reinsel, Series G; R datasets), its last 120 months and
+// its last 108 months, keyed "full", "from 1951" and "from 1952".
+func batchInputs(t *testing.T) []almanac.Series {
+	a := airPassengers(t)
+	a.Key = "full"
+	b := a.Window(24, 144)
+	b.Key = "from 1951"
+	c := a.Window(36, 144)
+	c.Key = "from 1952"
+	return []almanac.Series{a, b, c}
+}
+
+// summaries are the BatchComparison fields that average over series.
+type summaries struct {
+	Names     []string
+	Baseline  string
+	Mean      []accuracy.Scores
+	Relative  []accuracy.Ratios
+	AvgRelMAE []float64
+}
+
+func summaryOf(b *accuracy.BatchComparison) summaries {
+	return summaries{b.Names, b.Baseline, b.Mean, b.Relative, b.AvgRelMAE}
+}
+
+// failureStrings renders Failed with the errors as text, for comparing
+// two runs.
+func failureStrings(fs []accuracy.SeriesFailure) []string {
+	var out []string
+	for _, f := range fs {
+		out = append(out, fmt.Sprintf("%d|%s|%v", f.Index, f.Key, f.Err))
+	}
+	return out
+}
+
+// TestBatchLeavesOutFailingSeries: one series on which the backtest fails
+// is set aside with the error Run gives for it alone; the others keep
+// exactly their single-series results, and the summaries equal a batch of
+// the scored series alone — with 1 and 4 workers alike.
+func TestBatchLeavesOutFailingSeries(t *testing.T) {
+	base := accuracy.Backtest{Horizon: 6, Origins: 4, Step: 3, Levels: []float64{80}}
+	drift := accuracy.Candidate{Name: "drift", Model: almanac.Drift{}}
+	// A series shifted down by 200 keeps AirPassengers' seasonal pattern
+	// (autocorrelations do not change with a shift) but has negative
+	// values, which Naive2's multiplicative adjustment cannot take.
+	shifted := func(ys []almanac.Series) []almanac.Series {
+		y := ys[1].Clone()
+		for i := range y.Values {
+			y.Values[i] -= 200
+		}
+		ys[1] = y
+		return ys
+	}
+	withNaive2 := base
+	withNaive2.Benchmarks = []accuracy.Candidate{
+		{Name: accuracy.NaiveName, Model: almanac.Naive{}},
+		{Name: accuracy.Naive2Name, Model: accuracy.Naive2{}},
+	}
+	tests := []struct {
+		name     string
+		bt       accuracy.Backtest
+		prepare  func([]almanac.Series) []almanac.Series
+		models   []accuracy.Candidate
+		bad      int
+		sentinel error // beside ErrBacktest, when the failure is a model's
+	}{
+		{"model fails on one key", base, nil,
+			[]accuracy.Candidate{drift, {Name: "picky", Model: keyTrouble{key: "from 1951", from: 110}}}, 1, almanac.ErrNotFitted},
+		{"model panics on one key", base, nil,
+			[]accuracy.Candidate{drift, {Name: "fragile", Model: keyTrouble{key: "from 1952", from: 100, panics: true}}}, 2, almanac.ErrNotFitted},
+		{"benchmark cannot take negative values", withNaive2, shifted, []accuracy.Candidate{drift}, 1, almanac.ErrNonPositive},
+		{"series too short for the origins", base, func(ys []almanac.Series) []almanac.Series {
+			ys[0] = ys[0].Head(12)
+			return ys
+		}, []accuracy.Candidate{drift}, 0, almanac.ErrTooShort},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			ys := batchInputs(t)
+			if tt.prepare != nil {
+				ys = tt.prepare(ys)
+			}
+			var ref *accuracy.BatchComparison
+			for _, w := range []int{1, 4} {
+				bt := tt.bt
+				bt.Workers = w
+				got, err := bt.RunBatch(context.Background(), ys, tt.models...)
+				if err != nil {
+					t.Fatalf("workers %d: %v", w, err)
+				}
+				if ref == nil {
+					ref = got
+					continue
+				}
+				if d := cmp.Diff(failureStrings(ref.Failed), failureStrings(got.Failed)); d != "" {
+					t.Errorf("failures differ, workers 1 vs %d (-1 +%d):\n%s", w, w, d)
+				}
+				if d := cmp.Diff(ref, got, equateNaN, cmpopts.IgnoreFields(accuracy.BatchComparison{}, "Failed")); d != "" {
+					t.Errorf("results differ, workers 1 vs %d (-1 +%d):\n%s", w, w, d)
+				}
+			}
+			if len(ref.Failed) != 1 || ref.Failed[0].Index != tt.bad || ref.Failed[0].Key != ys[tt.bad].Key {
+				t.Fatalf("failed %v, want series %d only", failureStrings(ref.Failed), tt.bad)
+			}
+			if ref.Series[tt.bad] != nil || len(ref.Series) != 3 || ref.Scored() != 2 {
+				t.Errorf("series %d kept, %d entries, %d scored", tt.bad, len(ref.Series), ref.Scored())
+			}
+			ferr := ref.Failed[0].Err
+			if !errors.Is(ferr, tt.sentinel) {
+				t.Errorf("failure %v does not wrap %v", ferr, tt.sentinel)
+			}
+			if tt.sentinel != almanac.ErrTooShort && !errors.Is(ferr, accuracy.ErrBacktest) {
+				t.Errorf("failure %v does not wrap ErrBacktest", ferr)
+			}
+			// The recorded error is the one Run gives for the series alone.
+			if c, err := tt.bt.Run(context.Background(), ys[tt.bad], tt.models...); err == nil || c != nil {
+				t.Errorf("Run alone: %v, %v; want an error", c != nil, err)
+			} else if err.Error() != ferr.Error() {
+				t.Errorf("recorded %q, Run alone gives %q", ferr, err)
+			}
+			// Summaries over the scored series only.
+			var good []almanac.Series
+			var goodIdx []int
+			for i, y := range ys {
+				if i != tt.bad {
+					good, goodIdx = append(good, y), append(goodIdx, i)
+				}
+			}
+			alone, err := tt.bt.RunBatch(context.Background(), good, tt.models...)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(alone.Failed) != 0 {
+				t.Fatalf("scored series fail alone: %v", failureStrings(alone.Failed))
+			}
+			if d := cmp.Diff(summaryOf(alone), summaryOf(ref), equateNaN); d != "" {
+				t.Errorf("summaries differ from a batch of the scored series (-alone +with failure):\n%s", d)
+			}
+			for k, i := range goodIdx {
+				if d := cmp.Diff(alone.Series[k], ref.Series[i], equateNaN); d != "" {
+					t.Errorf("series %d differs:\n%s", i, d)
+				}
+			}
+			if slicesIndex(ref.Names, accuracy.Naive2Name) >= 0 {
+				ov, err1 := ref.OWA("drift", accuracy.Naive2Name)
+				ow, err2 := alone.OWA("drift", accuracy.Naive2Name)
+				if err1 != nil || err2 != nil || ov != ow {
+					t.Errorf("OWA %v (%v), over the scored series alone %v (%v)", ov, err1, ow, err2)
+				}
+			}
+		})
+	}
+}
+
+// TestBatchAllFail: when no series can be scored RunBatch fails, wrapping
+// ErrBacktest and the first series' own error.
+func TestBatchAllFail(t *testing.T) {
+	ys := batchInputs(t)
+	tests := []struct {
+		name   string
+		ys     []almanac.Series
+		models []accuracy.Candidate
+		want   []error
+	}{
+		{"every series too short", []almanac.Series{ys[0].Head(10), ys[1].Head(8)}, nil,
+			[]error{accuracy.ErrBacktest, almanac.ErrTooShort}},
+		{"model fails everywhere", ys, []accuracy.Candidate{{Name: "picky", Model: windowRecorder{mu: &sync.Mutex{}, seen: map[time.Time]int{}, failAt: 1}}},
+			[]error{accuracy.ErrBacktest, almanac.ErrNotFitted}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			bt := accuracy.Backtest{Horizon: 6, Origins: 4, Workers: 2}
+			got, err := bt.RunBatch(context.Background(), tt.ys, tt.models...)
+			if got != nil {
+				t.Error("result alongside the error")
+			}
+			for _, s := range tt.want {
+				if !errors.Is(err, s) {
+					t.Errorf("error %v does not wrap %v", err, s)
+				}
+			}
+			if err != nil && !strings.Contains(err.Error(), fmt.Sprintf("%q", tt.ys[0].Key)) {
+				t.Errorf("error %q does not name the first series", err)
+			}
+		})
+	}
+}
+
+// TestBatchSpecErrors: a bad specification, an empty batch and a
+// cancelled context still stop the whole batch, whatever the series.
+func TestBatchSpecErrors(t *testing.T) {
+	ys := batchInputs(t)
+	ys = append(ys, ys[0].Head(5)) // one series that would be left out
+	cancelled, cancel := context.WithCancel(context.Background())
+	cancel()
+	ctx := context.Background()
+	tests := []struct {
+		name   string
+		bt     accuracy.Backtest
+		ctx    context.Context
+		ys     []almanac.Series
+		models []accuracy.Candidate
+		want   error
+	}{
+		{"no series", accuracy.Backtest{}, ctx, nil, nil, almanac.ErrEmpty},
+		{"negative step", accuracy.Backtest{Step: -1}, ctx, ys, nil, almanac.ErrInvalid},
+		{"bad level", accuracy.Backtest{Levels: []float64{0}}, ctx, ys, nil, almanac.ErrLevel},
+		{"unknown baseline", accuracy.Backtest{Horizon: 6, Baseline: "oracle"}, ctx, ys, nil, almanac.ErrInvalid},
+		{"duplicate name", accuracy.Backtest{Horizon: 6}, ctx, ys, []accuracy.Candidate{{Name: "naive", Model: almanac.Naive{}}}, almanac.ErrInvalid},
+		{"sliding longer than first", accuracy.Backtest{First: 20, Window: accuracy.Sliding, Length: 30}, ctx, ys, nil, almanac.ErrInvalid},
+		{"cancelled", accuracy.Backtest{Horizon: 6}, cancelled, ys, nil, context.Canceled},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			got, err := tt.bt.RunBatch(tt.ctx, tt.ys, tt.models...)
+			if !errors.Is(err, tt.want) {
+				t.Fatalf("error %v, want %v", err, tt.want)
+			}
+			if errors.Is(err, accuracy.ErrBacktest) {
+				t.Errorf("error %v wraps ErrBacktest; a specification error is not a series failure", err)
+			}
+			if got != nil {
+				t.Error("result alongside an error")
+			}
+		})
+	}
+}
+
+// TestBatchCancelledMidway: cancelling during a batch stops it with the
+// context's error and no partial result.
+func TestBatchCancelledMidway(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	calls := 0
+	m := cancelling{cancel: cancel, calls: &calls, mu: &sync.Mutex{}}
+	ys := batchInputs(t)
+	bt := accuracy.Backtest{Horizon: 1, Origins: 20, Workers: 2, NoBenchmarks: true}
+	got, err := bt.RunBatch(ctx, ys, accuracy.Candidate{Name: "c", Model: m})
+	if !errors.Is(err, context.Canceled) || got != nil {
+		t.Fatalf("error %v, result %v; want context.Canceled and no result", err, got != nil)
+	}
+	if calls >= 3*20 {
+		t.Errorf("%d fits after cancellation at the third, want the pool to stop early", calls)
+	}
+}
+
+// TestBatchRenderLeftOut: the text and CSV renderings say which series
+// were left out and how many series the averages cover.
+func TestBatchRenderLeftOut(t *testing.T) {
+	ys := batchInputs(t)
+	ys[2].Key = ""
+	bt := accuracy.Backtest{Horizon: 6, Origins: 3, Workers: 2}
+	b, err := bt.RunBatch(context.Background(), ys,
+		accuracy.Candidate{Name: "drift", Model: almanac.Drift{}},
+		accuracy.Candidate{Name: "picky", Model: keyTrouble{key: "from 1951", from: 1}},
+		accuracy.Candidate{Name: "picky2", Model: keyTrouble{key: "", from: 1}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := b.WriteText(&buf); err != nil {
+		t.Fatal(err)
+	}
+	text := buf.String()
+	for _, want := range []string{"backtest of 3 series, 1 scored", "2 of 3 series left out", "  from 1951: accuracy: backtest failed", "  (series 2): accuracy: backtest failed"} {
+		if !strings.Contains(text, want) {
+			t.Errorf("text lacks %q:\n%s", want, text)
+		}
+	}
+	buf.Reset()
+	if err := b.WriteCSV(&buf); err != nil {
+		t.Fatal(err)
+	}
+	csv := buf.String()
+	for _, want := range []string{"from 1951,,,left_out,", "(series 2),,,left_out,", accuracy.BatchMeanKey + ",drift,all,series,1\n", "full,drift,all,mase,"} {
+		if !strings.Contains(csv, want) {
+			t.Errorf("CSV lacks %q:\n%s", want, csv)
+		}
+	}
+	if strings.Contains(csv, "from 1951,drift,") {
+		t.Error("CSV holds scores of a left-out series")
+	}
+}
