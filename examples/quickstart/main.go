@@ -146,6 +146,12 @@ func run(ctx context.Context, w io.Writer) (*plan, error) {
 			fmt.Fprintf(w, "note: the %.0f%% bands of %s held only %.0f%% of the outcomes in the backtest\n", level, name, 100*iv.Coverage)
 		}
 	}
+	// A series the backtest failed on is left out of the averages above
+	// (the table lists it); plan it with the seasonal naive method, which
+	// needs only a year of history.
+	for _, f := range cmp.Failed {
+		fmt.Fprintf(w, "note: %s is planned with the seasonal naive method, as its backtest failed\n", label(f.Key))
+	}
 	fmt.Fprintln(w)
 
 	models := map[string]almanac.Model{
@@ -157,6 +163,10 @@ func run(ctx context.Context, w io.Writer) (*plan, error) {
 	chosen := make([]string, len(nodes))
 	mase := make([]float64, len(nodes))
 	for i, c := range cmp.Series {
+		if c == nil { // left out of the backtest: see cmp.Failed
+			chosen[i], mase[i] = "seasonal naive", math.NaN()
+			continue
+		}
 		best, bestMASE := "", math.Inf(1)
 		for _, r := range c.Runs {
 			if m := r.Overall.MASE; m < bestMASE {
