@@ -41,6 +41,38 @@ func BenchmarkBacktest(b *testing.B) {
 	}
 }
 
+// BenchmarkRunBatch: batch backtests of the drift method beside the
+// default benchmarks on windows of AirPassengers (120 to 144 months), 6
+// origins 12 steps ahead with an 80% interval, one series in ten failing
+// (a test model refusing its key), for 10 and 100 series and 1 and 2
+// workers.
+func BenchmarkRunBatch(b *testing.B) {
+	y := airPassengers(b)
+	for _, n := range []int{10, 100} {
+		ys := make([]almanac.Series, n)
+		for i := range ys {
+			ys[i] = y.Window(i%25, 144)
+			ys[i].Key = fmt.Sprintf("s%d", i)
+			if i%10 == 3 {
+				ys[i].Key = "refused"
+			}
+		}
+		for _, workers := range []int{1, 2} {
+			b.Run(fmt.Sprintf("series=%d/workers=%d", n, workers), func(b *testing.B) {
+				bt := accuracy.Backtest{Horizon: 12, Origins: 6, Levels: []float64{80}, Workers: workers}
+				m := accuracy.Candidate{Name: "drift", Model: keyTrouble{key: "refused", from: 1}}
+				b.ReportAllocs()
+				for b.Loop() {
+					r, err := bt.RunBatch(context.Background(), ys, m)
+					if err != nil || len(r.Failed) != n/10 {
+						b.Fatal(err)
+					}
+				}
+			})
+		}
+	}
+}
+
 func randomPairs(n int) (actual, forecast, sd []float64) {
 	r := rand.New(rand.NewPCG(1, 2))
 	actual = make([]float64, n)

@@ -85,7 +85,11 @@
 // ≈ 0.3 ms on one worker (≈ 0.2 ms on two); the same with
 // smoothing.Select (automatic ETS) takes ≈ 2.4 s on one worker and
 // ≈ 2.2 s on two (Select fitting its candidates on one goroutine); the
-// cost is the model fits, the scoring is negligible.
+// cost is the model fits, the scoring is negligible. RunBatch over 100
+// windows of the same series (drift beside the two default benchmarks,
+// 6 origins, 12 steps, an 80% band, one series in ten left out) takes
+// ≈ 10 ms, ≈ 0.1 ms a series, on one worker or two (fits this cheap
+// leave little to share).
 //
 // # References
 //
