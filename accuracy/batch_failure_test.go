@@ -101,17 +101,24 @@ func TestBatchLeavesOutFailingSeries(t *testing.T) {
 		prepare  func([]almanac.Series) []almanac.Series
 		models   []accuracy.Candidate
 		bad      int
-		sentinel error // beside ErrBacktest, when the failure is a model's
+		sentinel error // the failure's own sentinel
+		layout   bool  // the series cannot hold the origins (else a model fails, wrapping ErrBacktest too)
 	}{
 		{"model fails on one key", base, nil,
-			[]accuracy.Candidate{drift, {Name: "picky", Model: keyTrouble{key: "from 1951", from: 110}}}, 1, almanac.ErrNotFitted},
+			[]accuracy.Candidate{drift, {Name: "picky", Model: keyTrouble{key: "from 1951", from: 110}}}, 1, almanac.ErrNotFitted, false},
 		{"model panics on one key", base, nil,
-			[]accuracy.Candidate{drift, {Name: "fragile", Model: keyTrouble{key: "from 1952", from: 100, panics: true}}}, 2, almanac.ErrNotFitted},
-		{"benchmark cannot take negative values", withNaive2, shifted, []accuracy.Candidate{drift}, 1, almanac.ErrNonPositive},
+			[]accuracy.Candidate{drift, {Name: "fragile", Model: keyTrouble{key: "from 1952", from: 100, panics: true}}}, 2, almanac.ErrNotFitted, false},
+		{"benchmark cannot take negative values", withNaive2, shifted, []accuracy.Candidate{drift}, 1, almanac.ErrNonPositive, false},
 		{"series too short for the origins", base, func(ys []almanac.Series) []almanac.Series {
 			ys[0] = ys[0].Head(12)
 			return ys
-		}, []accuracy.Candidate{drift}, 0, almanac.ErrTooShort},
+		}, []accuracy.Candidate{drift}, 0, almanac.ErrTooShort, true},
+		// 17 observations hold the origins 2, 5, 8 and 11, but the drift
+		// method needs 3 observations to fit.
+		{"series too short for one candidate", base, func(ys []almanac.Series) []almanac.Series {
+			ys[2] = ys[2].Head(17)
+			return ys
+		}, []accuracy.Candidate{drift}, 2, almanac.ErrTooShort, false},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -148,8 +155,8 @@ func TestBatchLeavesOutFailingSeries(t *testing.T) {
 			if !errors.Is(ferr, tt.sentinel) {
 				t.Errorf("failure %v does not wrap %v", ferr, tt.sentinel)
 			}
-			if tt.sentinel != almanac.ErrTooShort && !errors.Is(ferr, accuracy.ErrBacktest) {
-				t.Errorf("failure %v does not wrap ErrBacktest", ferr)
+			if errors.Is(ferr, accuracy.ErrBacktest) == tt.layout {
+				t.Errorf("failure %v: wraps ErrBacktest %t, want %t", ferr, !tt.layout, tt.layout)
 			}
 			// The recorded error is the one Run gives for the series alone.
 			if c, err := tt.bt.Run(context.Background(), ys[tt.bad], tt.models...); err == nil || c != nil {
