@@ -13,13 +13,18 @@ import (
 //
 //	g := calendar.Grid{Start: first, Freq: calendar.Weekly, N: 156, H: 13}
 //
-// Period i covers the times from Freq.Add(Start, i) up to (not
-// including) Freq.Add(Start, i+1). For daily and longer frequencies the
-// periods are read as whole calendar dates in Start's location: a weekly
-// period starting on a Monday covers that Monday through Sunday (an ISO
-// week, also across a year end), a monthly period starting on the 1st the
-// calendar month. For sub-daily frequencies a period belongs to the
-// calendar date of its start time.
+// Period i is stamped with t_i = Freq.Add(Start, i). With the zero
+// Stamp (StampStart) it covers the times from t_i up to (not including)
+// t_{i+1}; with StampEnd it covers the times after t_{i−1} up to and
+// including t_i. For daily and longer frequencies the periods are read
+// as whole calendar dates in Start's location: a weekly period stamped
+// on a Monday covers that Monday through Sunday (an ISO week, also across
+// a year end), and so does one stamped on the Sunday with StampEnd; a
+// monthly period stamped on the 1st is the calendar month, and so is one
+// stamped on the last day with StampEnd, provided Start is a 31st (or a
+// 31st-clamped month end such as 30 April for Start = 31 March) since
+// Add keeps Start's day of month. For sub-daily frequencies a period
+// belongs to the calendar date of its stamp.
 //
 // A Grid is a plain value, safe for concurrent use.
 type Grid struct {
@@ -27,6 +32,32 @@ type Grid struct {
 	Freq  Frequency
 	N     int // observations, ≥ 0
 	H     int // forecast periods, ≥ 0
+	// Stamp says whether each time starts (zero value) or ends its
+	// period.
+	Stamp Stamp
+}
+
+// Stamp says where in its period an observation's time lies. Programs
+// should not rely on the numeric values.
+type Stamp int
+
+const (
+	// StampStart: each time is the first instant (or day) of its period.
+	StampStart Stamp = iota
+	// StampEnd: each time is the last instant (or day) of its period, as
+	// with weeks ending on Sunday or month-end dates.
+	StampEnd
+)
+
+// String returns "start", "end", or "Stamp(n)" for an unknown value.
+func (s Stamp) String() string {
+	switch s {
+	case StampStart:
+		return "start"
+	case StampEnd:
+		return "end"
+	}
+	return fmt.Sprintf("Stamp(%d)", int(s))
 }
 
 // Len returns N + H, the length of every regressor built on g.
@@ -36,10 +67,14 @@ func (g Grid) Len() int { return g.N + g.H }
 func (g Grid) Time(i int) time.Time { return g.Freq.Add(g.Start, i) }
 
 // Validate returns an error wrapping ErrFrequency for an invalid
-// frequency and one wrapping ErrGrid for N < 0 or H < 0.
+// frequency and one wrapping ErrGrid for N < 0, H < 0 or an unknown
+// Stamp.
 func (g Grid) Validate() error {
 	if err := g.Freq.Validate(); err != nil {
 		return err
+	}
+	if g.Stamp != StampStart && g.Stamp != StampEnd {
+		return fmt.Errorf("calendar: %w: %v", ErrGrid, g.Stamp)
 	}
 	if g.N < 0 || g.H < 0 {
 		return fmt.Errorf("calendar: %w: N %d, H %d (need ≥ 0)", ErrGrid, g.N, g.H)
@@ -67,10 +102,10 @@ func (g Grid) Index(t time.Time) (int, error) {
 	return i, nil
 }
 
-// Locate returns the period that contains t: for daily and longer
-// frequencies the period whose calendar dates include t's date, for
-// sub-daily ones the period whose interval includes the instant t. t need
-// not be aligned.
+// Locate returns the period that contains t (see Grid for what a period
+// covers): for daily and longer frequencies the period whose calendar
+// dates include t's date, for sub-daily ones the period whose interval
+// includes the instant t. t need not be aligned.
 //
 // Special cases: an invalid grid gives its Validate error; t before the
 // first period or after the last gives an error wrapping ErrOutside.
@@ -117,12 +152,22 @@ func (g Grid) layout() (layout, error) {
 			step *= 7
 		}
 		b0 := civilDays(g.Start)
+		if g.Stamp == StampEnd {
+			b0 += 1 - step
+		}
 		for i := range b {
 			b[i] = b0 + int64(i)*step
 		}
 	default:
+		off := 0
+		if g.Stamp == StampEnd {
+			off = -1
+		}
 		for i := range b {
-			b[i] = civilDays(g.Time(i))
+			b[i] = civilDays(g.Time(i + off))
+			if off != 0 {
+				b[i]++
+			}
 		}
 	}
 	return layout{bounds: b}, nil
@@ -147,6 +192,10 @@ func (l layout) locate(g Grid, t time.Time) (int, error) {
 	if l.sub {
 		d := t.Sub(g.Start)
 		step := g.Freq.duration()
+		if g.Stamp == StampEnd {
+			// (t_{i−1}, t_i] ↦ i.
+			d += step - 1
+		}
 		if d < 0 {
 			return 0, g.outside(t)
 		}
