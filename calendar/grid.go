@@ -110,6 +110,25 @@ func (g Grid) Index(t time.Time) (int, error) {
 // Special cases: an invalid grid gives its Validate error; t before the
 // first period or after the last gives an error wrapping ErrOutside.
 func (g Grid) Locate(t time.Time) (int, error) {
+	if err := g.Validate(); err != nil {
+		return 0, err
+	}
+	if u := g.Freq.Unit; u == Day || u == Week {
+		// Fixed-length periods in calendar days: no layout needed.
+		step := int64(g.Freq.mult())
+		if u == Week {
+			step *= 7
+		}
+		b0 := civilDays(g.Start)
+		if g.Stamp == StampEnd {
+			b0 += 1 - step
+		}
+		off := civilDays(t) - b0
+		if off < 0 || off/step >= int64(g.Len()) {
+			return 0, g.outside(t)
+		}
+		return int(off / step), nil
+	}
 	l, err := g.layout()
 	if err != nil {
 		return 0, err

@@ -87,8 +87,26 @@ func (g Grid) Weekdays() ([]Column, error) {
 	}
 	cols := make([]Column, 7)
 	for k := range cols {
-		wd := time.Weekday((k + 1) % 7)
-		cols[k] = Column{Name: wd.String(), Values: l.count(nil, func(d int64, _ byte) bool { return weekdayOf(d) == wd })}
+		cols[k] = Column{Name: time.Weekday((k + 1) % 7).String(), Values: make([]float64, g.Len())}
+	}
+	if l.sub {
+		for i, d := range l.bounds {
+			cols[(int(weekdayOf(d))+6)%7].Values[i] = 1 // Monday first
+		}
+		return cols, nil
+	}
+	for i := range len(l.bounds) - 1 {
+		lo, hi := l.bounds[i], l.bounds[i+1]
+		// Whole weeks add one of each day; the rest is counted.
+		if full := (hi - lo) / 7; full > 0 {
+			for k := range cols {
+				cols[k].Values[i] = float64(full)
+			}
+			lo += 7 * full
+		}
+		for d := lo; d < hi; d++ {
+			cols[(int(weekdayOf(d))+6)%7].Values[i]++
+		}
 	}
 	return cols, nil
 }
@@ -217,11 +235,7 @@ func (g Grid) Shift(from, through time.Time) ([]float64, error) {
 // interval locates from and through; through after the grid gives
 // k1 = past (the caller's choice of "beyond the last period").
 func (g Grid) interval(from, through time.Time, past int) (k0, k1 int, err error) {
-	l, err := g.layout()
-	if err != nil {
-		return 0, 0, err
-	}
-	if k0, err = l.locate(g, from); err != nil {
+	if k0, err = g.Locate(from); err != nil {
 		return 0, 0, err
 	}
 	before := through.Before(from)
@@ -231,7 +245,7 @@ func (g Grid) interval(from, through time.Time, past int) (k0, k1 int, err error
 	if before {
 		return 0, 0, fmt.Errorf("calendar: %w: %v before %v", ErrSpan, through, from)
 	}
-	if k1, err = l.locate(g, through); err != nil {
+	if k1, err = g.Locate(through); err != nil {
 		k1 = past // after the grid, as through is not before from
 	}
 	return k0, k1, nil

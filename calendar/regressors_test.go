@@ -432,3 +432,43 @@ func TestStampString(t *testing.T) {
 		}
 	}
 }
+
+// TestEmptyAndSubDaily: an empty grid gives empty columns; hourly
+// weekday indicators follow the date of each hour (2025-03-02 is a Sunday,
+// standard library).
+func TestEmptyAndSubDaily(t *testing.T) {
+	for _, f := range []calendar.Frequency{calendar.Hourly, calendar.Daily, calendar.Weekly, calendar.Monthly} {
+		g := calendar.Grid{Start: date(2025, time.March, 1), Freq: f}
+		hol, err := g.Holidays(calendar.Calendar{Holidays: []calendar.Holiday{fixed("a", time.March, 1)}})
+		if err != nil || len(hol) != 0 {
+			t.Errorf("%v Holidays = %v, %v", f, hol, err)
+		}
+		cols, err := g.HolidayColumns(calendar.Calendar{Holidays: []calendar.Holiday{fixed("a", time.March, 1)}})
+		if err != nil || len(cols) != 1 || len(cols[0].Values) != 0 {
+			t.Errorf("%v HolidayColumns = %v, %v", f, cols, err)
+		}
+		work, err := g.WorkingDays(calendar.Calendar{})
+		if err != nil || len(work) != 0 {
+			t.Errorf("%v WorkingDays = %v, %v", f, work, err)
+		}
+		days, err := g.Weekdays()
+		if err != nil || len(days) != 7 || len(days[0].Values) != 0 {
+			t.Errorf("%v Weekdays = %v, %v", f, days, err)
+		}
+	}
+	if date(2025, time.March, 2).Weekday() != time.Sunday {
+		t.Fatal("anchor: 2025-03-02 is not a Sunday")
+	}
+	g := calendar.Grid{Start: time.Date(2025, time.March, 2, 22, 0, 0, 0, time.UTC), Freq: calendar.Every(2, calendar.Hour), N: 3}
+	days, err := g.Weekdays()
+	if err != nil {
+		t.Fatal(err)
+	}
+	equalSlice(t, "Sunday", days[6].Values, []float64{1, 0, 0})
+	equalSlice(t, "Monday", days[0].Values, []float64{0, 1, 1})
+	work, err := g.WorkingDays(calendar.Calendar{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	equalSlice(t, "hourly working", work, []float64{0, 1, 1})
+}
