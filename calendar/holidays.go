@@ -57,6 +57,22 @@ func (c Calendar) Validate() error {
 	return nil
 }
 
+// checkYears returns an error wrapping ErrYear when the range starting on
+// day lo reaches before 1583 and the calendar has an Easter rule, which
+// would otherwise be silently missing there.
+func (c Calendar) checkYears(lo int64) error {
+	if fromCivil(lo).Year() >= 1583+1 {
+		return nil
+	}
+	for _, h := range c.Holidays {
+		switch h.Rule.(type) {
+		case EasterOffset, *EasterOffset:
+			return fmt.Errorf("calendar: %w: holiday %q follows Gregorian Easter, defined from 1583 on; the range starts %s", ErrYear, h.Name, fromCivil(lo).Format(time.DateOnly))
+		}
+	}
+	return nil
+}
+
 // weekendMask returns bit w set for each weekend day w.
 func (c Calendar) weekendMask() uint8 {
 	if c.Weekend == nil {
@@ -75,7 +91,9 @@ func (c Calendar) weekendMask() uint8 {
 // all listed.
 //
 // Special cases: an invalid calendar gives its Validate error; to before
-// from gives an error wrapping ErrSpan.
+// from gives an error wrapping ErrSpan; a range reaching before 1584 in a
+// calendar with an EasterOffset rule gives an error wrapping ErrYear (the
+// holiday of the year before is looked at too, for observance shifts).
 func (c Calendar) Occurrences(from, to time.Time) ([]Occurrence, error) {
 	if err := c.Validate(); err != nil {
 		return nil, err
@@ -83,6 +101,9 @@ func (c Calendar) Occurrences(from, to time.Time) ([]Occurrence, error) {
 	lo, hi := civilDays(from), civilDays(to)
 	if hi < lo {
 		return nil, fmt.Errorf("calendar: %w: %s..%s", ErrSpan, from.Format(time.DateOnly), to.Format(time.DateOnly))
+	}
+	if err := c.checkYears(lo); err != nil {
+		return nil, err
 	}
 	type occ struct {
 		Occurrence
@@ -107,7 +128,7 @@ func (c Calendar) Occurrences(from, to time.Time) ([]Occurrence, error) {
 }
 
 // IsHoliday reports whether the calendar date of t is a holiday of c
-// (false for an invalid calendar).
+// (false for an invalid calendar, and for Easter holidays before 1583).
 func (c Calendar) IsHoliday(t time.Time) bool {
 	if c.Validate() != nil {
 		return false

@@ -21,7 +21,9 @@ type Column struct {
 // count too; use WorkingDays for the days lost to work. For sub-daily
 // frequencies the value is 1 when the period's date is a holiday.
 //
-// Special cases: an invalid grid or calendar gives its Validate error.
+// Special cases: an invalid grid or calendar gives its Validate error; a
+// grid reaching before 1584 with an Easter rule in cal gives an error
+// wrapping ErrYear.
 func (g Grid) Holidays(cal Calendar) ([]float64, error) {
 	l, mark, err := g.holidayDays(cal)
 	if err != nil {
@@ -34,7 +36,9 @@ func (g Grid) Holidays(cal Calendar) ([]float64, error) {
 // first appearance, with the number of days of that holiday per period
 // (see Holidays). Holidays sharing a name share a column.
 //
-// Special cases: an invalid grid or calendar gives its Validate error.
+// Special cases: an invalid grid or calendar gives its Validate error; a
+// grid reaching before 1584 with an Easter rule in cal gives an error
+// wrapping ErrYear.
 func (g Grid) HolidayColumns(cal Calendar) ([]Column, error) {
 	l, err := g.layout()
 	if err != nil {
@@ -61,6 +65,9 @@ func (g Grid) HolidayColumns(cal Calendar) ([]Column, error) {
 			cols[j].Values = []float64{}
 		}
 		return cols, nil
+	}
+	if err := cal.checkYears(lo); err != nil {
+		return nil, err
 	}
 	marks := make([][]byte, len(cols))
 	for j := range marks {
@@ -116,7 +123,9 @@ func (g Grid) Weekdays() ([]Column, error) {
 // not counted twice). For sub-daily frequencies the value is 1 when the
 // period's date is a working day.
 //
-// Special cases: an invalid grid or calendar gives its Validate error.
+// Special cases: an invalid grid or calendar gives its Validate error; a
+// grid reaching before 1584 with an Easter rule in cal gives an error
+// wrapping ErrYear.
 func (g Grid) WorkingDays(cal Calendar) ([]float64, error) {
 	l, mark, err := g.holidayDays(cal)
 	if err != nil {
@@ -143,6 +152,9 @@ func (g Grid) holidayDays(cal Calendar) (layout, []byte, error) {
 	lo, hi := l.span()
 	if hi < lo {
 		return l, nil, nil
+	}
+	if err := cal.checkYears(lo); err != nil {
+		return l, nil, err
 	}
 	mark := make([]byte, hi-lo+1)
 	cal.each(lo, hi, func(_ int, d int64) { mark[d-lo] = 1 })

@@ -472,3 +472,70 @@ func TestEmptyAndSubDaily(t *testing.T) {
 	}
 	equalSlice(t, "hourly working", work, []float64{0, 1, 1})
 }
+
+func TestEasterBefore1584(t *testing.T) {
+	cal := calendar.Calendar{Holidays: []calendar.Holiday{{Name: "Lantern Friday", Rule: calendar.EasterOffset{Days: -2}}}}
+	g := calendar.Grid{Start: date(1580, time.January, 1), Freq: calendar.Monthly, N: 60}
+	if _, err := g.Holidays(cal); !errors.Is(err, calendar.ErrYear) {
+		t.Errorf("Holidays err = %v, want ErrYear", err)
+	}
+	if _, err := g.WorkingDays(cal); !errors.Is(err, calendar.ErrYear) {
+		t.Errorf("WorkingDays err = %v, want ErrYear", err)
+	}
+	if _, err := g.HolidayColumns(cal); !errors.Is(err, calendar.ErrYear) {
+		t.Errorf("HolidayColumns err = %v, want ErrYear", err)
+	}
+	if _, err := cal.Occurrences(date(1583, time.June, 1), date(1590, time.June, 1)); !errors.Is(err, calendar.ErrYear) {
+		t.Errorf("Occurrences err = %v, want ErrYear", err)
+	}
+	if _, err := cal.Occurrences(date(1584, time.January, 1), date(1590, time.June, 1)); err != nil {
+		t.Errorf("Occurrences from 1584: %v", err)
+	}
+}
+
+// TestLocateBruteForce: every day of several grids maps to the period
+// whose dates (stepped with Frequency.Add, day by day with time.AddDate)
+// contain it, and every period time maps back through Index.
+func TestLocateBruteForce(t *testing.T) {
+	tests := []struct {
+		name string
+		g    calendar.Grid
+	}{
+		{"monthly start", calendar.Grid{Start: date(2023, time.November, 1), Freq: calendar.Monthly, N: 20, H: 6}},
+		{"monthly end", calendar.Grid{Start: date(2023, time.November, 30), Freq: calendar.Monthly, N: 20, H: 6, Stamp: calendar.StampEnd}},
+		{"quarterly end", calendar.Grid{Start: date(2023, time.December, 31), Freq: calendar.Quarterly, N: 8, H: 4, Stamp: calendar.StampEnd}},
+		{"weekly Thursday", calendar.Grid{Start: date(2023, time.December, 28), Freq: calendar.Weekly, N: 60, H: 8}},
+		{"weekly Sunday end", calendar.Grid{Start: date(2023, time.December, 31), Freq: calendar.Weekly, N: 60, H: 8, Stamp: calendar.StampEnd}},
+		{"every 3 days", calendar.Grid{Start: date(2024, time.February, 27), Freq: calendar.Every(3, calendar.Day), N: 50, H: 5}},
+		{"yearly", calendar.Grid{Start: date(2020, time.January, 1), Freq: calendar.Yearly, N: 4, H: 1}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			g := tt.g
+			for i := range g.Len() {
+				if k, err := g.Index(g.Time(i)); err != nil || k != i {
+					t.Fatalf("Index(Time(%d)) = %d, %v", i, k, err)
+				}
+				first, end := g.Time(i), g.Time(i+1)
+				if g.Stamp == calendar.StampEnd {
+					first, end = g.Time(i-1).AddDate(0, 0, 1), g.Time(i).AddDate(0, 0, 1)
+				}
+				for d := first; d.Before(end); d = d.AddDate(0, 0, 1) {
+					if k, err := g.Locate(d.Add(13 * time.Hour)); err != nil || k != i {
+						t.Fatalf("Locate(%s) = %d, %v, want %d", d.Format(time.DateOnly), k, err, i)
+					}
+				}
+				if i == 0 {
+					if _, err := g.Locate(first.AddDate(0, 0, -1)); !errors.Is(err, calendar.ErrOutside) {
+						t.Errorf("day before the grid: %v", err)
+					}
+				}
+				if i == g.Len()-1 {
+					if _, err := g.Locate(end); !errors.Is(err, calendar.ErrOutside) {
+						t.Errorf("day after the grid: %v", err)
+					}
+				}
+			}
+		})
+	}
+}
