@@ -140,7 +140,8 @@
 // array, about 100 small allocations for the rules' dates),
 // HolidayColumns 0.27 ms (seven names), Weekdays 0.16 ms (seven
 // columns), Pulse 10 µs and Decay 15 µs (one allocation: the column).
-// Ten years of weekly data take 30–140 µs per regressor.
+// Ten years of weekly data (535 periods) take from 1.2 µs (Pulse) to
+// 0.12 ms (HolidayColumns); Holidays about 30 µs.
 //
 // # References
 //

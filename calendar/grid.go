@@ -192,7 +192,8 @@ func (g Grid) layout() (layout, error) {
 	return layout{bounds: b}, nil
 }
 
-// first and last return the first and last calendar day covered.
+// span returns the first and last calendar day covered (hi < lo when
+// the grid is empty).
 func (l layout) span() (lo, hi int64) {
 	if len(l.bounds) == 0 {
 		return 0, -1
