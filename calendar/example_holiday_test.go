@@ -180,3 +180,16 @@ func ExampleGrid_Decay() {
 	// 2026-04-13 0.130 4.000
 	// 2026-04-20 0.078 4.000
 }
+
+// A fixed-date holiday moved off the weekend: 12 July falls on a
+// Saturday in 2025 and on a Sunday in 2026.
+func ExampleFixedDate() {
+	for _, obs := range []calendar.Observance{calendar.OnTheDay, calendar.NearestWeekday, calendar.FollowingMonday} {
+		rule := calendar.FixedDate{Month: time.July, Day: 12, Observed: obs}
+		fmt.Printf("%-16s %s %s\n", obs, rule.Dates(2025)[0].Format("Mon 01-02"), rule.Dates(2026)[0].Format("Mon 01-02"))
+	}
+	// Output:
+	// on the day       Sat 07-12 Sun 07-12
+	// nearest weekday  Fri 07-11 Mon 07-13
+	// following Monday Mon 07-14 Mon 07-13
+}

@@ -20,6 +20,13 @@ type Rule interface {
 	Validate() error
 }
 
+var (
+	_ Rule = FixedDate{}
+	_ Rule = NthWeekday{}
+	_ Rule = EasterOffset{}
+	_ Rule = Span{}
+)
+
 // Observance says how a fixed-date holiday that falls on a weekend is
 // moved to a working day. The zero value keeps the date. Saturday and
 // Sunday are the weekend for this purpose, whatever a Calendar's
