@@ -268,15 +268,25 @@ func (b Backtest) layout(y almanac.Series) (*plan, error) {
 	}
 	step := max(b.Step, 1)
 	n := y.Len()
+	// The comparisons below are written so that no sum or product of
+	// caller options can overflow (a huge Horizon, Period, First, Step or
+	// Origins is a too-short series, not a wrapped-around index).
+	if p.h >= n {
+		return nil, fmt.Errorf("accuracy: backtest: series %q: %w: %d observations cannot hold a training window and %d steps ahead", y.Key, almanac.ErrTooShort, n, p.h)
+	}
 	first := b.First
 	if first == 0 {
 		if b.Origins > 0 {
-			first = n - p.h - (b.Origins-1)*step
+			room := n - p.h                  // the latest origin
+			if b.Origins-1 > (room-1)/step { // first = room − (Origins−1)·step would be below 1
+				return nil, fmt.Errorf("accuracy: backtest: series %q: %w: %d observations cannot hold %d origins every %d steps, each with a training window and %d steps ahead", y.Key, almanac.ErrTooShort, n, b.Origins, step, p.h)
+			}
+			first = room - (b.Origins-1)*step
 		} else {
 			first = n / 2
 		}
 	}
-	if first < 1 || first+p.h > n {
+	if first < 1 || first > n-p.h {
 		return nil, fmt.Errorf("accuracy: backtest: series %q: %w: %d observations cannot hold a first origin after %d observations and %d steps ahead", y.Key, almanac.ErrTooShort, n, first, p.h)
 	}
 	count := (n-p.h-first)/step + 1

@@ -341,6 +341,15 @@ func TestBacktestErrors(t *testing.T) {
 	}{
 		{"too many origins", accuracy.Backtest{Horizon: 12, Origins: 200}, ctx, y, nil, almanac.ErrTooShort},
 		{"first too late", accuracy.Backtest{Horizon: 12, First: 140}, ctx, y, nil, almanac.ErrTooShort},
+		// Options so large that a sum or product of them overflows int
+		// once panicked (makeslice) or laid out no origin at all.
+		{"huge horizon", accuracy.Backtest{Horizon: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort},
+		{"huge horizon, first given", accuracy.Backtest{Horizon: math.MaxInt - 10, First: 20}, ctx, y, nil, almanac.ErrTooShort},
+		{"huge period", accuracy.Backtest{Period: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort},
+		{"huge first", accuracy.Backtest{First: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort},
+		{"huge origin count", accuracy.Backtest{Origins: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort},
+		{"huge step", accuracy.Backtest{Origins: 3, Step: math.MaxInt/2 + 1}, ctx, y, nil, almanac.ErrTooShort},
+		{"one origin too many at step 5", accuracy.Backtest{Horizon: 12, Step: 5, Origins: 28}, ctx, y, nil, almanac.ErrTooShort},
 		{"negative step", accuracy.Backtest{Step: -1}, ctx, y, nil, almanac.ErrInvalid},
 		{"bad level", accuracy.Backtest{Levels: []float64{150}}, ctx, y, nil, almanac.ErrLevel},
 		{"unknown baseline", accuracy.Backtest{Baseline: "oracle"}, ctx, y, nil, almanac.ErrInvalid},
@@ -364,6 +373,20 @@ func TestBacktestErrors(t *testing.T) {
 				t.Error("result alongside an error")
 			}
 		})
+	}
+}
+
+// TestBacktestLatestOrigins: with Origins and no First the origins end
+// at the last one that leaves Horizon observations, and the most origins
+// that fit are laid out (144 months, 12 steps, every 5: the last origin
+// is 132 and 27 origins start at 132 − 26·5 = 2, worked by hand).
+func TestBacktestLatestOrigins(t *testing.T) {
+	c, err := accuracy.Backtest{Horizon: 12, Step: 5, Origins: 27, NoBenchmarks: true}.Run(context.Background(), airPassengers(t), accuracy.Candidate{Name: "naive", Model: almanac.Naive{}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(c.Origins) != 27 || c.Origins[0].Index != 2 || c.Origins[26].Index != 132 {
+		t.Fatalf("%d origins from %d to %d, want 27 from 2 to 132", len(c.Origins), c.Origins[0].Index, c.Origins[len(c.Origins)-1].Index)
 	}
 }
 
