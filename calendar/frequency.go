@@ -65,7 +65,10 @@ func (f Frequency) mult() int {
 func (f Frequency) Equal(g Frequency) bool { return f.Unit == g.Unit && f.mult() == g.mult() }
 
 // Validate returns an error wrapping ErrFrequency when the unit is unset or
-// unknown or the multiple is negative.
+// unknown, the multiple is negative, or one period is too long to
+// represent: longer than a time.Duration (about 292 years) for minutes,
+// hours, days and weeks, or a multiple above math.MaxInt/12 for months,
+// quarters and years.
 func (f Frequency) Validate() error {
 	if f.Unit <= UnitUnset || f.Unit > Year {
 		return fmt.Errorf("calendar: %w: unit %v", ErrFrequency, f.Unit)
@@ -73,7 +76,24 @@ func (f Frequency) Validate() error {
 	if f.N < 0 {
 		return fmt.Errorf("calendar: %w: negative multiple %d", ErrFrequency, f.N)
 	}
+	if f.N > maxMultiple[f.Unit] {
+		return fmt.Errorf("calendar: %w: multiple %d of %v is too long a period (at most %d)", ErrFrequency, f.N, f.Unit, maxMultiple[f.Unit])
+	}
 	return nil
+}
+
+// maxMultiple is the largest N per unit whose period fits: in a
+// time.Duration for the fixed-length units (a larger one would wrap, and
+// a wrapped step of zero would divide by zero in Between), and in an int
+// count of months for the calendar units.
+var maxMultiple = [...]int{
+	Minute:  int(math.MaxInt64 / int64(time.Minute)),
+	Hour:    int(math.MaxInt64 / int64(time.Hour)),
+	Day:     int(math.MaxInt64 / int64(24*time.Hour)),
+	Week:    int(math.MaxInt64 / int64(7*24*time.Hour)),
+	Month:   math.MaxInt / 12,
+	Quarter: math.MaxInt / 12,
+	Year:    math.MaxInt / 12,
 }
 
 // String returns "monthly", "weekly", ... for a multiple of one, and

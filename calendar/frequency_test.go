@@ -191,6 +191,12 @@ func TestValidateAndString(t *testing.T) {
 		{"unset", calendar.Frequency{}, "Frequency{unset, 0}", true},
 		{"unknown unit", calendar.Frequency{Unit: calendar.Unit(99), N: 1}, "Frequency{Unit(99), 1}", true},
 		{"negative multiple", calendar.Frequency{Unit: calendar.Day, N: -2}, "Frequency{day, -2}", true},
+		// A period longer than a time.Duration used to wrap to a zero
+		// step and panic (divide by zero) in Between and Grid.Locate.
+		{"minute multiple overflows", calendar.Every(1<<53, calendar.Minute), "Frequency{minute, 9007199254740992}", true},
+		{"hour multiple overflows", calendar.Every(1<<51, calendar.Hour), "Frequency{hour, 2251799813685248}", true},
+		{"longest minute multiple", calendar.Every(153722867, calendar.Minute), "every 153722867 minutes", false},
+		{"year multiple overflows", calendar.Every(1<<62, calendar.Year), "Frequency{year, 4611686018427387904}", true},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
