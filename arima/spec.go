@@ -214,6 +214,29 @@ func (s Spec) resolve(y almanac.Series) (*layout, error) {
 			return nil, fmt.Errorf("arima: %w: seasonal orders (%d,%d,%d) need a seasonal period ≥ 2, have %d (set Spec.Period or give the series a seasonal frequency)", almanac.ErrInvalid, s.SP, s.SD, s.SQ, period)
 		}
 	}
+	// Lags that reach back to or beyond the start of the series are
+	// rejected before anything is sized by them: such a coefficient never
+	// meets an observed pair, and an absurd order or period (say 1<<40)
+	// would otherwise size the state-space matrices (r × r) and exhaust
+	// memory. Each order is bounded first so that the products below
+	// cannot overflow.
+	n := y.Len()
+	for _, o := range []struct {
+		name string
+		v    int
+	}{{"P", s.P}, {"D", s.D}, {"Q", s.Q}, {"SP", s.SP}, {"SD", s.SD}, {"SQ", s.SQ}, {"period", period}} {
+		if o.v >= n {
+			return nil, fmt.Errorf("arima: %w: %s = %d, the series has %d values", almanac.ErrTooShort, o.name, o.v, n)
+		}
+	}
+	for _, l := range []struct {
+		what string
+		lag  int
+	}{{"AR", s.P + period*s.SP}, {"MA", s.Q + period*s.SQ}, {"differencing", s.D + period*s.SD}} {
+		if l.lag >= n {
+			return nil, fmt.Errorf("arima: %w: %s reaches back %d lags (%s polynomial), the series has %d values", almanac.ErrTooShort, orderString(s.P, s.D, s.Q, s.SP, s.SD, s.SQ, period), l.lag, l.what, n)
+		}
+	}
 	var mean, drift bool
 	nd := s.D + s.SD
 	switch s.Constant {
@@ -242,7 +265,6 @@ func (s Spec) resolve(y almanac.Series) (*layout, error) {
 	default:
 		return nil, fmt.Errorf("arima: %w: unknown Prior %v", almanac.ErrInvalid, s.Prior)
 	}
-	n := y.Len()
 	seen := map[string]bool{}
 	names := make([]string, len(s.Regressors))
 	for j, r := range s.Regressors {
@@ -299,7 +321,9 @@ func (l *layout) orders() string {
 //     almanac.ErrInvalid;
 //   - regressors of the wrong length wrap almanac.ErrLength, non-finite
 //     regressor values almanac.ErrNonFinite, collinear ones ErrCollinear;
-//   - too few observations for the orders wrap almanac.ErrTooShort;
+//   - too few observations for the orders wrap almanac.ErrTooShort, and
+//     so does an AR, MA or differencing polynomial (multiplied out,
+//     p + s·P, q + s·Q, d + s·D) that reaches back n lags or more;
 //   - Method CSS with missing values wraps almanac.ErrMissing;
 //   - a fit whose likelihood is nowhere finite wraps almanac.ErrNotFitted.
 func (s Spec) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {

@@ -63,6 +63,12 @@ func TestBadInput(t *testing.T) {
 		{"too short for the orders", Spec{P: 3, Q: 2}, lh.Head(6), almanac.ErrTooShort, []string{"ARIMA(3,0,2)"}},
 		{"too short after differencing", Spec{D: 1, SD: 1, SQ: 1, Period: 12}, lh.Head(14), almanac.ErrTooShort, nil},
 		{"negative order", Spec{P: -1}, lh, almanac.ErrInvalid, nil},
+		// Orders and periods far beyond the series once sized the
+		// state-space matrices before any length check (out of memory).
+		{"AR order beyond the series", Spec{P: 1 << 40}, lh, almanac.ErrTooShort, []string{"P = 1099511627776"}},
+		{"seasonal AR lag beyond the series", Spec{SP: 1, Period: 1 << 40}, lh, almanac.ErrTooShort, []string{"period"}},
+		{"seasonal MA lag beyond the series", Spec{Q: 1, SQ: 1, Period: 47}, lh, almanac.ErrTooShort, []string{"MA polynomial"}},
+		{"seasonal difference beyond the series", Spec{SD: 1, Period: 1 << 40}, lh, almanac.ErrTooShort, nil},
 		{"seasonal order without period", Spec{SP: 1}, huron, almanac.ErrInvalid, []string{"period"}},
 		{"unknown fixed name", Spec{P: 1, Fixed: map[string]float64{"ma1": 0.3}}, lh, almanac.ErrInvalid, []string{`"ma1"`}},
 		{"non-finite fixed value", Spec{P: 1, Fixed: map[string]float64{"ar1": math.NaN()}}, lh, almanac.ErrInvalid, nil},
