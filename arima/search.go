@@ -713,11 +713,20 @@ func keyOf(s Spec) orderKey {
 // exhaustive fits every allowed model of the grid, in parallel over
 // workers, writing each result at its grid index.
 func (pl *searchPlan) exhaustive(ctx context.Context, y almanac.Series, workers int, res *SearchResult) ([]*Fitted, error) {
+	// No order of the grid exceeds maxTerms (always set for the
+	// exhaustive search), so the loops stop there: a huge MaxP would
+	// otherwise be iterated through, one rejected order at a time.
+	bound := func(m int) int {
+		if pl.maxTerms > 0 {
+			return min(m, pl.maxTerms)
+		}
+		return m
+	}
 	var keys []orderKey
-	for p := 0; p <= pl.maxP; p++ {
-		for q := 0; q <= pl.maxQ; q++ {
-			for sp := 0; sp <= pl.maxSP; sp++ {
-				for sq := 0; sq <= pl.maxSQ; sq++ {
+	for p := 0; p <= bound(pl.maxP); p++ {
+		for q := 0; q <= bound(pl.maxQ); q++ {
+			for sp := 0; sp <= bound(pl.maxSP); sp++ {
+				for sq := 0; sq <= bound(pl.maxSQ); sq++ {
 					for _, c := range []bool{false, true} {
 						if k := (orderKey{p, q, sp, sq, c}); pl.allowed(k) {
 							keys = append(keys, k)

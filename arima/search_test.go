@@ -471,3 +471,19 @@ func TestSearchEnumStrings(t *testing.T) {
 		})
 	}
 }
+
+// TestSearchExhaustiveHugeLimits: order limits far above MaxTerms give
+// the same grid as limits equal to it (the grid loops stop at MaxTerms;
+// MaxP = 1<<40 was once iterated through order by order).
+func TestSearchExhaustiveHugeLimits(t *testing.T) {
+	y := yearly("lh", selLH)
+	huge := searchFit(t, arima.Search{Exhaustive: true, MaxP: 1 << 40, MaxQ: 1 << 40, MaxTerms: 2, Workers: 1}, y)
+	small := searchFit(t, arima.Search{Exhaustive: true, MaxP: 2, MaxQ: 2, MaxTerms: 2, Workers: 1}, y)
+	if len(huge.Candidates) != len(small.Candidates) || huge.String() != small.String() {
+		t.Errorf("limits 1<<40: %d candidates, chose %s; limits 2: %d candidates, chose %s", len(huge.Candidates), huge, len(small.Candidates), small)
+	}
+	// p + q ≤ 2, with and without the mean: 6 order pairs × 2.
+	if len(small.Candidates) != 12 {
+		t.Errorf("%d candidates, want 12", len(small.Candidates))
+	}
+}
