@@ -50,13 +50,17 @@ func (f Forecast) Time(h int) time.Time { return f.Freq.Add(f.Start, h) }
 //
 // Special cases: p outside (0, 1) or NaN gives an error wrapping
 // ErrLevel; a forecast without a distribution gives one wrapping
-// ErrNoDistribution.
+// ErrNoDistribution; a distribution shorter than Mean or incomplete gives
+// the errors of NewForecast (ErrLength, ErrInvalid).
 func (f Forecast) Quantile(p float64) ([]float64, error) {
 	if !(p > 0 && p < 1) {
 		return nil, fmt.Errorf("almanac: %w: probability %v outside (0, 1)", ErrLevel, p)
 	}
 	if f.Dist == nil {
 		return nil, fmt.Errorf("almanac: %w", ErrNoDistribution)
+	}
+	if err := checkDistribution(f.Dist, len(f.Mean)); err != nil {
+		return nil, err
 	}
 	out := make([]float64, len(f.Mean))
 	for h := range out {
@@ -117,12 +121,22 @@ func CheckHorizon(h int) error {
 // forecasts and distribution, and fills Intervals from the distribution's
 // quantiles at each level. dist may be nil only when no levels are asked.
 // The slices are used as given (not copied).
+//
+// Special cases: a level outside (0, 100) gives an error wrapping
+// ErrLevel; levels with a nil dist one wrapping ErrNoDistribution; a
+// Normal, Sample or Mapped dist that covers fewer steps than mean (a
+// shorter Mean or SD, a shorter path) one wrapping ErrLength, and a nil
+// *Normal or *Sample, or a Mapped without Base or Map, one wrapping
+// ErrInvalid.
 func NewForecast(start time.Time, freq calendar.Frequency, mean []float64, dist Distribution, levels ...float64) (Forecast, error) {
 	if err := CheckLevels(levels...); err != nil {
 		return Forecast{}, err
 	}
 	if dist == nil && len(levels) > 0 {
 		return Forecast{}, fmt.Errorf("almanac: %w: cannot give intervals", ErrNoDistribution)
+	}
+	if err := checkDistribution(dist, len(mean)); err != nil {
+		return Forecast{}, err
 	}
 	f := Forecast{Start: start, Freq: freq, Mean: mean, Dist: dist}
 	if len(levels) == 0 {
@@ -157,6 +171,36 @@ func NewForecast(start time.Time, freq calendar.Frequency, mean []float64, dist 
 		}
 	}
 	return f, nil
+}
+
+// checkDistribution returns an error when dist, one of this package's
+// distributions, cannot give quantiles for steps 0..h−1 (other
+// implementations are trusted).
+func checkDistribution(dist Distribution, h int) error {
+	switch d := dist.(type) {
+	case *Normal:
+		if d == nil {
+			return fmt.Errorf("almanac: %w: nil *Normal distribution", ErrInvalid)
+		}
+		if len(d.Mean) < h || len(d.SD) < h {
+			return fmt.Errorf("almanac: %w: normal distribution with %d means and %d standard deviations for %d steps", ErrLength, len(d.Mean), len(d.SD), h)
+		}
+	case *Sample:
+		if d == nil {
+			return fmt.Errorf("almanac: %w: nil *Sample distribution", ErrInvalid)
+		}
+		for i, p := range d.Paths {
+			if len(p) < h {
+				return fmt.Errorf("almanac: %w: sample path %d has %d steps, need %d", ErrLength, i, len(p), h)
+			}
+		}
+	case *Mapped:
+		if d == nil || d.Base == nil || d.Map == nil {
+			return fmt.Errorf("almanac: %w: mapped distribution without a base or a map", ErrInvalid)
+		}
+		return checkDistribution(d.Base, h)
+	}
+	return nil
 }
 
 // Distribution is a forecast distribution given step by step.

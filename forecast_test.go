@@ -73,6 +73,33 @@ func TestForecastErrors(t *testing.T) {
 			_, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{1}, nil, 180)
 			return err
 		}(), almanac.ErrLevel},
+		// A distribution shorter than the point forecasts used to panic
+		// (index out of range) when the intervals were filled.
+		{"new forecast short normal", func() error {
+			_, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{1, 2}, &almanac.Normal{Mean: []float64{1, 2}, SD: []float64{1}}, 80)
+			return err
+		}(), almanac.ErrLength},
+		{"new forecast short path", func() error {
+			_, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{1, 2}, &almanac.Sample{Paths: [][]float64{{1, 2}, {1}}}, 80)
+			return err
+		}(), almanac.ErrLength},
+		{"new forecast short mapped base", func() error {
+			_, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{1, 2}, &almanac.Mapped{Base: &almanac.Normal{Mean: []float64{1}, SD: []float64{1}}, Map: math.Exp})
+			return err
+		}(), almanac.ErrLength},
+		{"new forecast mapped without map", func() error {
+			_, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{1}, &almanac.Mapped{Base: &almanac.Normal{Mean: []float64{1}, SD: []float64{1}}}, 80)
+			return err
+		}(), almanac.ErrInvalid},
+		{"new forecast nil normal", func() error {
+			_, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{1}, (*almanac.Normal)(nil), 80)
+			return err
+		}(), almanac.ErrInvalid},
+		{"quantile of a forecast built by hand with a short distribution", func() error {
+			short := almanac.Forecast{Mean: []float64{1, 2}, Dist: &almanac.Normal{Mean: []float64{1}, SD: []float64{1}}}
+			_, err := short.Quantile(0.5)
+			return err
+		}(), almanac.ErrLength},
 		{"check horizon", almanac.CheckHorizon(0), almanac.ErrHorizon},
 		{"check levels", almanac.CheckLevels(80, -1), almanac.ErrLevel},
 	} {
