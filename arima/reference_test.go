@@ -195,7 +195,12 @@ func checkARIMAFixture(t *testing.T, f *reftest.Fixture) {
 			a, r = tol(t, f, "at_fixed.residuals")
 			numtest.Slice(t, "at_fixed.residuals", fit.Residuals(), f.Floats(t, "expect.at_fixed.residuals"), a, r)
 			if css {
-				numtest.Scalar(t, "at_fixed.css_objective", 0.5*math.Log(fit.Sigma2()), f.Float(t, "expect.at_fixed.css_objective"), a, r)
+				// The fixture gives no tolerance of its own for the CSS
+				// objective ½ log σ²; it follows σ², and a relative error
+				// ε in σ² moves it by ε/2, so the at_fixed.sigma2
+				// tolerance is used in that form.
+				_, sr := tol(t, f, "at_fixed.sigma2")
+				numtest.Scalar(t, "at_fixed.css_objective", 0.5*math.Log(fit.Sigma2()), f.Float(t, "expect.at_fixed.css_objective"), sr/2, 0)
 			}
 			if f.Has("expect.at_fixed.forecast") {
 				a, r = 0, 1e-8
@@ -265,7 +270,15 @@ func checkARIMAFixture(t *testing.T, f *reftest.Fixture) {
 		}
 	}
 	if css {
-		numtest.Scalar(t, "css_objective", 0.5*math.Log(fit.Sigma2()), f.Float(t, "expect.css_objective"), 0, r)
+		// The fixture's sigma2 entry states the bar for a correct CSS
+		// fit: σ² ≤ R's value × (1 + 1e-6) (R's optim stops at reltol
+		// 1e-8, so a better minimiser may go below it, never far above).
+		if got, want := fit.Sigma2(), f.Float(t, "expect.sigma2"); got > want*(1+1e-6) {
+			t.Errorf("sigma2 = %.10g, above R's %.10g × (1 + 1e-6)", got, want)
+		}
+		// ½ log σ² follows σ² (a relative error ε moves it by ε/2); the
+		// fixture's sigma2 tolerance is used in that form.
+		numtest.Scalar(t, "css_objective", 0.5*math.Log(fit.Sigma2()), f.Float(t, "expect.css_objective"), r/2, 0)
 		return
 	}
 	a, r = tol(t, f, "aic")
