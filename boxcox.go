@@ -446,8 +446,9 @@ type BoxCoxFit struct {
 //
 // Special cases: a nil Model or unknown Method gives an error wrapping
 // ErrInvalid; negative data, or zeros with λ ≤ 0, one wrapping
-// ErrNonPositive; the errors of Series.Validate, of the λ search and of
-// the inner model are passed on.
+// ErrNonPositive; an inner model whose FittedValues do not have one value
+// per observation one wrapping ErrLength; the errors of Series.Validate,
+// of the λ search and of the inner model are passed on.
 func (b BoxCox) Fit(ctx context.Context, y Series) (Fitted, error) {
 	if b.Model == nil {
 		return nil, fmt.Errorf("almanac: box-cox: %w: no model", ErrInvalid)
@@ -483,6 +484,9 @@ func (b BoxCox) Fit(ctx context.Context, y Series) (Fitted, error) {
 		return nil, err
 	}
 	fv, _ := BoxCoxInverse(nil, inner.FittedValues(), lam)
+	if len(fv) != len(y.Values) {
+		return nil, fmt.Errorf("almanac: box-cox: series %q: %w: inner model %s gave %d fitted values for %d observations", y.Key, ErrLength, inner, len(fv), len(y.Values))
+	}
 	resp := make([]float64, len(fv))
 	for i, v := range y.Values {
 		resp[i] = v - fv[i]
@@ -546,6 +550,10 @@ func (f *BoxCoxFit) Forecast(h int, levels ...float64) (Forecast, error) {
 			mean[i] = invBoxCox(m, lam)
 		}
 	default:
+		// An inner Forecast built by hand may carry a short distribution.
+		if err := checkDistribution(in.Dist, len(in.Mean)); err != nil {
+			return Forecast{}, fmt.Errorf("almanac: box-cox: inner model %s: %w", f.inner, err)
+		}
 		switch d := in.Dist.(type) {
 		case *Normal:
 			for i, m := range in.Mean {

@@ -187,6 +187,41 @@ func (f constInnerFit) FittedValues() []float64 { return make([]float64, f.y.Len
 func (f constInnerFit) Residuals() []float64    { return f.y.Slice() }
 func (f constInnerFit) String() string          { return "Const" }
 
+// shortInner is a faulty test model whose FittedValues miss the last
+// observation (BoxCox used to panic with index out of range on it).
+type shortInner struct{}
+
+type shortInnerFit struct{ constInnerFit }
+
+func (shortInner) Fit(_ context.Context, y almanac.Series) (almanac.Fitted, error) {
+	return shortInnerFit{constInnerFit{y: y}}, nil
+}
+func (f shortInnerFit) FittedValues() []float64 { return make([]float64, f.y.Len()-1) }
+
+// shortDistInner is a faulty test model whose Forecast, built by hand,
+// carries a normal distribution with no standard deviations (bias
+// adjustment used to panic with index out of range on it).
+type shortDistInner struct{}
+
+type shortDistFit struct{ constInnerFit }
+
+func (shortDistInner) Fit(_ context.Context, y almanac.Series) (almanac.Fitted, error) {
+	return shortDistFit{constInnerFit{y: y}}, nil
+}
+func (f shortDistFit) Forecast(h int, _ ...float64) (almanac.Forecast, error) {
+	return almanac.Forecast{Mean: make([]float64, h), Dist: &almanac.Normal{Mean: make([]float64, h)}}, nil
+}
+
+func TestBoxCoxBiasShortDistribution(t *testing.T) {
+	f, err := almanac.BoxCox{Model: shortDistInner{}, Method: almanac.LambdaFixed, BiasAdjust: true}.Fit(ctx, monthly("d", 4, 5, 6))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := f.Forecast(3); !errors.Is(err, almanac.ErrLength) {
+		t.Errorf("err = %v, want ErrLength", err)
+	}
+}
+
 func TestBoxCoxModel(t *testing.T) {
 	y := monthly("air", airPassengers(t)...)
 	t.Run("log naive", func(t *testing.T) {
@@ -344,6 +379,7 @@ func TestBoxCoxModel(t *testing.T) {
 			{"all missing", almanac.BoxCox{Model: almanac.Naive{}}, monthly("m", nan, nan), almanac.ErrAllMissing},
 			{"constant auto", almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaMaxLikelihood}, monthly("c", 4, 4, 4, 4), almanac.ErrConstant},
 			{"inner too short", almanac.BoxCox{Model: almanac.Drift{}, Method: almanac.LambdaFixed}, monthly("s", 4, 5), almanac.ErrTooShort},
+			{"inner fitted values too few", almanac.BoxCox{Model: shortInner{}, Method: almanac.LambdaFixed}, monthly("f", 4, 5, 6), almanac.ErrLength},
 		}
 		for _, tt := range tests {
 			t.Run(tt.name, func(t *testing.T) {
