@@ -578,6 +578,61 @@ func TestBadInput(t *testing.T) {
 	if _, err := zeroHW.Forecast(3); !errors.Is(err, almanac.ErrNotFitted) {
 		t.Errorf("zero HoltWintersFit: %v", err)
 	}
+	if _, err := zeroHW.Variance(3); !errors.Is(err, almanac.ErrNotFitted) {
+		t.Errorf("zero HoltWintersFit, Variance: %v", err)
+	}
+	hw, err := HoltWinters{Alpha: 0.3, Beta: 0.1, Gamma: 0.1}.fit(ctx, y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, h := range []int{0, -1} {
+		if _, err := hw.Variance(h); !errors.Is(err, almanac.ErrHorizon) {
+			t.Errorf("Holt-Winters Variance(%d): %v", h, err)
+		}
+	}
+}
+
+// TestHoltWintersZeroSlope: R's multiplicative interval formula divides
+// by the final slope (see HoltWintersFit.Variance). On a constant series
+// that slope is 0, so the variance from step m on is not finite: asking
+// for levels is an error wrapping almanac.ErrNoDistribution instead of
+// NaN bounds, and the point forecasts (the constant) stay available
+// without a distribution. The additive form has no such division and
+// gives zero-width intervals.
+func TestHoltWintersZeroSlope(t *testing.T) {
+	c := make([]float64, 30)
+	for i := range c {
+		c[i] = 5
+	}
+	y := almanac.Series{Start: time.Date(2000, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Quarterly, Values: c}
+	mult, err := HoltWinters{Alpha: 0.3, Beta: 0.1, Gamma: 0.1, Multiplicative: true}.fit(ctx, y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if mult.B != 0 {
+		t.Fatalf("final slope %v on a constant series, want 0", mult.B)
+	}
+	if _, err := mult.Forecast(8, 95); !errors.Is(err, almanac.ErrNoDistribution) {
+		t.Errorf("multiplicative, levels: error %v, want one wrapping ErrNoDistribution", err)
+	}
+	fc, err := mult.Forecast(8)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fc.Dist != nil {
+		t.Errorf("multiplicative: distribution %v with non-finite variances", fc.Dist)
+	}
+	numtest.Slice(t, "multiplicative mean", fc.Mean, []float64{5, 5, 5, 5, 5, 5, 5, 5}, 1e-12, 0)
+	add, err := HoltWinters{Alpha: 0.3, Beta: 0.1, Gamma: 0.1}.fit(ctx, y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fc, err = add.Forecast(8, 95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	numtest.Slice(t, "additive lower", fc.Intervals[0].Lower, fc.Mean, 1e-12, 0)
+	numtest.Slice(t, "additive upper", fc.Intervals[0].Upper, fc.Mean, 1e-12, 0)
 }
 
 // TestConstantSeries: a constant series still forecasts (no optimiser

@@ -133,21 +133,9 @@ func (h HoltWinters) fit(ctx context.Context, y almanac.Series) (*HoltWintersFit
 			tv = append(tv, v)
 		}
 	}
-	k := float64(len(tv))
-	xbar := (k + 1) / 2
-	ybar := 0.0
-	for _, v := range tv {
-		ybar += v
-	}
-	ybar /= k
-	sxy, sxx := 0.0, 0.0
-	for i, v := range tv {
-		dx := float64(i+1) - xbar
-		sxy += dx * (v - ybar)
-		sxx += dx * dx
-	}
-	slope := sxy / sxx
-	out := &HoltWintersFit{spec: h, m: m, y: y.Clone(), StartLevel: ybar - slope*xbar, StartSlope: slope, StartSeason: slices.Clone(dec.Figure)}
+	// (m ≥ 2 leaves at least two defined trend values in two seasons.)
+	icept, slope := olsTimeSlope(tv)
+	out := &HoltWintersFit{spec: h, m: m, y: y.Clone(), StartLevel: icept, StartSlope: slope, StartSeason: slices.Clone(dec.Figure)}
 	cnt := n - m
 	out.Level = make([]float64, cnt)
 	out.Slope = make([]float64, cnt)
@@ -271,8 +259,19 @@ func (f *HoltWintersFit) Residuals() []float64 {
 // = 0]γ(1 − α), and for multiplicative seasonality
 // σ̂² Σ_{j=0}^{h−1} (ψ_j c[2+r]/c[2+((r−j) mod m)])², r = 1 + (h−1) mod m,
 // c = (a, b, s_1, …, s_m) 1-based — including R's pick of c[2] = b when
-// (r−j) mod m = 0, reproduced as R computes it.
-func (f *HoltWintersFit) Variance(H int) []float64 {
+// (r−j) mod m = 0, reproduced as R computes it. Because of that pick the
+// multiplicative variance divides by the final slope b: when b is 0 (a
+// constant series, for one) the variances from step m on are not finite.
+//
+// Special cases: H < 1 gives an error wrapping almanac.ErrHorizon, a
+// HoltWintersFit not returned by Fit one wrapping almanac.ErrNotFitted.
+func (f *HoltWintersFit) Variance(H int) ([]float64, error) {
+	if err := f.usable(); err != nil {
+		return nil, err
+	}
+	if err := almanac.CheckHorizon(H); err != nil {
+		return nil, fmt.Errorf("smoothing: %w", err)
+	}
 	h := f.spec
 	m := f.m
 	psi := func(j int) float64 {
@@ -301,14 +300,29 @@ func (f *HoltWintersFit) Variance(H int) []float64 {
 		}
 		out[hh-1] = f.ResidualVariance * sum
 	}
-	return out
+	return out, nil
+}
+
+// usable reports an error wrapping almanac.ErrNotFitted for a
+// HoltWintersFit that did not come from Fit (e.g. a zero value).
+func (f *HoltWintersFit) usable() error {
+	if f == nil || f.m < 2 || len(f.S) != f.m {
+		return fmt.Errorf("smoothing: %w: use the value returned by Fit", almanac.ErrNotFitted)
+	}
+	return nil
 }
 
 // Forecast returns (a + h·b) (+) s forecasts with Gaussian intervals of
 // variance Variance(h) (R's predict.HoltWinters).
+//
+// Special cases: h < 1 wraps almanac.ErrHorizon; a level outside
+// (0, 100) wraps almanac.ErrLevel; when a variance is not finite (see
+// Variance: multiplicative seasonality with a final slope of 0) the
+// forecast has no distribution, and asking for levels gives an error
+// wrapping almanac.ErrNoDistribution rather than NaN bounds.
 func (f *HoltWintersFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
-	if f == nil || f.m < 2 || len(f.S) != f.m {
-		return almanac.Forecast{}, fmt.Errorf("smoothing: %w: use the value returned by Fit", almanac.ErrNotFitted)
+	if err := f.usable(); err != nil {
+		return almanac.Forecast{}, err
 	}
 	if err := almanac.CheckHorizon(h); err != nil {
 		return almanac.Forecast{}, fmt.Errorf("smoothing: %w", err)
@@ -325,12 +339,23 @@ func (f *HoltWintersFit) Forecast(h int, levels ...float64) (almanac.Forecast, e
 			mean[i] = f.A + float64(i+1)*f.B + s
 		}
 	}
-	v := f.Variance(h)
+	v, err := f.Variance(h)
+	if err != nil {
+		return almanac.Forecast{}, err
+	}
 	sd := make([]float64, h)
+	var dist almanac.Distribution = &almanac.Normal{Mean: mean, SD: sd}
 	for i := range v {
 		sd[i] = math.Sqrt(v[i])
+		if math.IsNaN(sd[i]) || math.IsInf(sd[i], 0) {
+			if len(levels) > 0 {
+				return almanac.Forecast{}, fmt.Errorf("smoothing: %v: %w: the interval variance at step %d is %v (R's multiplicative formula divides by the final slope b = %v)", f, almanac.ErrNoDistribution, i+1, v[i], f.B)
+			}
+			dist = nil
+			break
+		}
 	}
-	fc, err := almanac.NewForecast(f.y.Time(f.y.Len()), f.y.Freq, mean, &almanac.Normal{Mean: mean, SD: sd}, levels...)
+	fc, err := almanac.NewForecast(f.y.Time(f.y.Len()), f.y.Freq, mean, dist, levels...)
 	if err != nil {
 		return almanac.Forecast{}, fmt.Errorf("smoothing: %w", err)
 	}
