@@ -437,8 +437,12 @@ func (s TSB) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) 
 // Special cases: h < 1 gives an error wrapping almanac.ErrHorizon; any
 // level gives an error wrapping almanac.ErrNoDistribution (after a level
 // outside (0, 100) one wrapping almanac.ErrLevel), since these methods
-// have no agreed forecast distribution.
+// have no agreed forecast distribution; an IntermittentFit not returned
+// by Fit (e.g. a zero value) gives an error wrapping almanac.ErrNotFitted.
 func (f *IntermittentFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	if f == nil || f.fitted == nil {
+		return almanac.Forecast{}, fmt.Errorf("smoothing: %w: use the value returned by Fit", almanac.ErrNotFitted)
+	}
 	if err := almanac.CheckHorizon(h); err != nil {
 		return almanac.Forecast{}, fmt.Errorf("smoothing: %s: %w", f.Method, err)
 	}

@@ -299,6 +299,12 @@ func TestIntermittentBadInput(t *testing.T) {
 	if _, err := (smoothing.TSB{}).Fit(ctx, weekly(handSeries)); !errors.Is(err, context.Canceled) {
 		t.Errorf("cancelled context: %v", err)
 	}
+	// An IntermittentFit not returned by Fit.
+	for _, z := range []*smoothing.IntermittentFit{{}, nil} {
+		if _, err := z.Forecast(3); !errors.Is(err, almanac.ErrNotFitted) {
+			t.Errorf("IntermittentFit %p: Forecast: %v, want ErrNotFitted", z, err)
+		}
+	}
 }
 
 func TestCrostonVariantString(t *testing.T) {

@@ -303,8 +303,12 @@ func (s Theta) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 // (0, 100)); see Theta for the formulas.
 //
 // Special cases: h < 1 gives an error wrapping almanac.ErrHorizon, a
-// level outside (0, 100) one wrapping almanac.ErrLevel.
+// level outside (0, 100) one wrapping almanac.ErrLevel, a ThetaFit not
+// returned by Fit (e.g. a zero value) one wrapping almanac.ErrNotFitted.
 func (f *ThetaFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	if err := f.usable(); err != nil {
+		return almanac.Forecast{}, err
+	}
 	if err := almanac.CheckHorizon(h); err != nil {
 		return almanac.Forecast{}, fmt.Errorf("smoothing: theta: %w", err)
 	}
@@ -343,8 +347,12 @@ func (f *ThetaFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) 
 // source state gives the same paths.
 //
 // Special cases: h < 1 gives an error wrapping almanac.ErrHorizon; n < 1
-// or a nil src one wrapping almanac.ErrInvalid.
+// or a nil src one wrapping almanac.ErrInvalid; a ThetaFit not returned
+// by Fit one wrapping almanac.ErrNotFitted.
 func (f *ThetaFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
+	if err := f.usable(); err != nil {
+		return nil, err
+	}
 	if err := almanac.CheckHorizon(h); err != nil {
 		return nil, fmt.Errorf("smoothing: theta: %w", err)
 	}
@@ -371,6 +379,16 @@ func (f *ThetaFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
 		paths[i] = p
 	}
 	return paths, nil
+}
+
+// usable reports an error wrapping almanac.ErrNotFitted for a ThetaFit
+// that did not come from Fit (e.g. a zero value, whose α of 0 would make
+// the drift term 0/0).
+func (f *ThetaFit) usable() error {
+	if f == nil || f.n == 0 || !(f.Alpha > 0) || (f.Adjusted && len(f.Indices) != f.Period) {
+		return fmt.Errorf("smoothing: theta: %w: use the value returned by Fit", almanac.ErrNotFitted)
+	}
+	return nil
 }
 
 // FittedValues returns the in-sample one-step forecasts: for observation

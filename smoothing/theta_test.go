@@ -450,6 +450,15 @@ func TestThetaBadInput(t *testing.T) {
 	if _, err := (smoothing.Theta{}).Fit(ctx, quarterly(good)); !errors.Is(err, context.Canceled) {
 		t.Errorf("cancelled context: %v", err)
 	}
+	// A ThetaFit not returned by Fit (its α of 0 would give 0/0 drifts).
+	for _, z := range []*smoothing.ThetaFit{{}, nil} {
+		if _, err := z.Forecast(3, 90); !errors.Is(err, almanac.ErrNotFitted) {
+			t.Errorf("ThetaFit %p: Forecast: %v, want ErrNotFitted", z, err)
+		}
+		if _, err := z.Simulate(3, 10, rand.NewPCG(1, 1)); !errors.Is(err, almanac.ErrNotFitted) {
+			t.Errorf("ThetaFit %p: Simulate: %v, want ErrNotFitted", z, err)
+		}
+	}
 }
 
 func TestThetaString(t *testing.T) {
