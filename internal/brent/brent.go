@@ -21,6 +21,9 @@ func Minimize(f func(float64) float64, a, b, tol float64, maxIter int) (xmin, fm
 	x := a + cgold*(b-a)
 	w, v := x, x
 	fx := f(x)
+	if math.IsNaN(fx) {
+		fx = math.Inf(1)
+	}
 	fw, fv := fx, fx
 	var d, e float64
 	for range maxIter {

@@ -46,3 +46,20 @@ func TestMinimizeNaN(t *testing.T) {
 		t.Error("minimum value is NaN")
 	}
 }
+
+// TestMinimizeNaNAtStart: the first evaluation point a + 0.382(b − a) =
+// 0.528 lies where f is NaN (left of 1); it too must count as +Inf, so the
+// search reaches the minimum of (x − 2)² at 2 (calculus).
+func TestMinimizeNaNAtStart(t *testing.T) {
+	f := func(x float64) float64 {
+		if x < 1 {
+			return math.NaN()
+		}
+		return (x - 2) * (x - 2)
+	}
+	x, fx := Minimize(f, -1, 3, 1e-10, 500)
+	numtest.Scalar(t, "xmin", x, 2, 1e-10, 3e-8)
+	if math.IsNaN(fx) {
+		t.Error("minimum value is NaN")
+	}
+}
