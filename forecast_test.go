@@ -17,10 +17,12 @@ func TestForecastNormal(t *testing.T) {
 		t.Fatal(err)
 	}
 	// Standard normal 0.975 quantile 1.959963984540054 (printed as 1.96
-	// in every normal table; scipy.stats.norm.ppf(0.975)).
+	// in every normal table; scipy.stats.norm.ppf(0.975), recalled from
+	// memory).
 	numtest.Slice(t, "upper95", fc.Intervals[0].Upper, []float64{10 + 2*1.959963984540054, 20}, 1e-12, 0)
 	// A level not requested comes from the distribution: 0.9 quantile
-	// 1.2815515655446004 (scipy.stats.norm.ppf(0.9)).
+	// 1.2815515655446004 (scipy.stats.norm.ppf(0.9), recalled from
+	// memory; 1.2816 in normal tables).
 	lo, hi, err := fc.Bounds(80)
 	if err != nil {
 		t.Fatal(err)
