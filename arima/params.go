@@ -254,14 +254,3 @@ func maInvert(ma []float64) []float64 {
 	}
 	return out
 }
-
-// invertible reports whether 1 + Σ ma_i z^i has no root inside the unit
-// circle.
-func invertible(ma []float64) bool {
-	for _, z := range polyRoots(ma) {
-		if cmplx.Abs(z) < 1 {
-			return false
-		}
-	}
-	return true
-}

@@ -2,6 +2,7 @@ package arima
 
 import (
 	"math"
+	"math/cmplx"
 	"testing"
 
 	"github.com/almanac-go/almanac/internal/numtest"
@@ -123,4 +124,15 @@ func TestStationaryCovSolvesLyapunov(t *testing.T) {
 			numtest.Slice(t, "T Q0 T' + R R' − Q0", k.pnew[:r*r], q0, 1e-12, 1e-12)
 		})
 	}
+}
+
+// invertible reports whether 1 + Σ ma_i z^i has no root inside the unit
+// circle.
+func invertible(ma []float64) bool {
+	for _, z := range polyRoots(ma) {
+		if cmplx.Abs(z) < 1 {
+			return false
+		}
+	}
+	return true
 }

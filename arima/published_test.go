@@ -27,7 +27,9 @@ func coefMap(f *Fitted) map[string]Coefficient {
 // mean against the conditional-least-squares fit printed in the
 // NIST/SEMATECH e-Handbook, section 6.4.4.9 (earlier-edition fit of Box &
 // Jenkins' Series F): φ1 = −0.3397 (SE 0.1224), φ2 = 0.1904 (SE 0.1223),
-// intercept 58.7248, residual variance 110.8236. The printed intercept is
+// residual variance 110.8236 (printed), and the intercept 58.7248 that
+// published.md lists as computed (R 4.2 stats) from the handbook's data
+// and equations, agreeing with the printed coefficients. The intercept is
 // the constant c = μ(1 − φ1 − φ2) of y_t = c + φ1 y_{t−1} + φ2 y_{t−2} + e_t
 // (CSS with a mean is the same least-squares problem reparameterised), and
 // the printed residual variance divides a residual sum of squares by the

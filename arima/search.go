@@ -529,7 +529,7 @@ func (pl *searchPlan) spec(p, q, sp, sq int, constant bool) Spec {
 // evaluate fits one candidate and scores it.
 func (pl *searchPlan) evaluate(ctx context.Context, y almanac.Series, sp Spec) (Candidate, *Fitted) {
 	c := Candidate{Spec: sp, Score: math.Inf(1), LogLik: math.NaN()}
-	f, err := fitSpec(ctx, sp, y, searchOpt)
+	f, err := sp.fitWith(ctx, y, searchOpt)
 	if err != nil {
 		c.Err = err
 		return c, nil
@@ -563,7 +563,7 @@ const confirmMargin = 2
 // lies on the boundary may stop short of it under the looser rules), c is
 // marked rejected and confirm returns nil.
 func (pl *searchPlan) confirm(ctx context.Context, y almanac.Series, c *Candidate) *Fitted {
-	f, err := fitSpec(ctx, c.Spec, y, fullOpt)
+	f, err := c.Spec.fitWith(ctx, y, fullOpt)
 	if err == nil {
 		err = nearUnitRoot(f)
 	}
@@ -579,11 +579,6 @@ func (pl *searchPlan) confirm(ctx context.Context, y almanac.Series, c *Candidat
 	}
 	c.LogLik, c.Score = f.LogLik(), score
 	return f
-}
-
-// fitSpec fits one candidate with the minimiser's stopping rules o.
-func fitSpec(ctx context.Context, sp Spec, y almanac.Series, o optSettings) (*Fitted, error) {
-	return sp.fitWith(ctx, y, o)
 }
 
 // orderKey identifies a candidate within one search (d, D and the period
@@ -826,7 +821,7 @@ func (pl *searchPlan) finish(ctx context.Context, y almanac.Series, res *SearchR
 	for _, i := range order {
 		sp := res.Candidates[i].Spec
 		sp.Method = CSSThenML
-		f, err := fitSpec(ctx, sp, y, fullOpt)
+		f, err := sp.fitWith(ctx, y, fullOpt)
 		if err == nil {
 			err = nearUnitRoot(f)
 		}

@@ -11,7 +11,6 @@ import (
 	"time"
 
 	"github.com/almanac-go/almanac"
-	"github.com/almanac-go/almanac/calendar"
 	"github.com/almanac-go/almanac/internal/numtest"
 	"github.com/almanac-go/almanac/internal/reftest"
 )
@@ -495,5 +494,4 @@ func TestEnumStrings(t *testing.T) {
 			t.Errorf("got %q, want %q", tc.got, tc.want)
 		}
 	}
-	_ = calendar.Monthly
 }
