@@ -408,9 +408,18 @@ func newCSVWriter(w io.Writer, opt CSVOptions) *csv.Writer {
 // NA. Times use opt.Layouts[0] when given, else a date for daily and
 // coarser data at midnight in opt.Location (UTC when nil) and RFC 3339
 // otherwise, so that ReadCSV with the same options reads the series back.
+//
+// Special cases: invalid options give an error wrapping ErrInvalid or
+// ErrFrequency, and so does a series with an invalid frequency (its times
+// cannot be written), before anything is written.
 func WriteSeriesCSV(w io.Writer, ys []Series, opt CSVOptions) error {
 	if err := checkCSVOptions(opt); err != nil {
 		return err
+	}
+	for _, s := range ys {
+		if err := s.Freq.Validate(); err != nil {
+			return fmt.Errorf("almanac: csv: series %q: %w", s.Key, err)
+		}
 	}
 	k, t, v := opt.columns()
 	cw := newCSVWriter(w, opt)
@@ -453,6 +462,10 @@ func BandColumns(level float64) (low, high string) {
 // present in any forecast (ascending) the two BandColumns. A bound that a
 // forecast does not carry is written as NA. Results with a non-nil Err are
 // skipped (the caller has their errors).
+//
+// Special cases: invalid options give an error wrapping ErrInvalid or
+// ErrFrequency, and so does a forecast with an invalid frequency (its
+// times cannot be written), before anything is written.
 func WriteForecastCSV(w io.Writer, fcs []BatchForecast, opt CSVOptions) error {
 	if err := checkCSVOptions(opt); err != nil {
 		return err
@@ -461,6 +474,9 @@ func WriteForecastCSV(w io.Writer, fcs []BatchForecast, opt CSVOptions) error {
 	for _, f := range fcs {
 		if f.Err != nil {
 			continue
+		}
+		if err := f.Forecast.Freq.Validate(); err != nil {
+			return fmt.Errorf("almanac: csv: forecast %q: %w", f.Key, err)
 		}
 		for _, iv := range f.Forecast.Intervals {
 			if !slices.Contains(levels, iv.Level) {

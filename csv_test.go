@@ -217,6 +217,44 @@ func TestWriteForecastCSV(t *testing.T) {
 	}
 }
 
+// TestWriteCSVErrors: the writers refuse what they cannot write in a form
+// ReadCSV reads back (an invalid frequency used to write every row with
+// the start time) and bad options, writing nothing.
+func TestWriteCSVErrors(t *testing.T) {
+	good := almanac.Series{Key: "A", Start: utc(2024, 1, 1), Freq: calendar.Monthly, Values: []float64{1, 2}}
+	noFreq := almanac.Series{Key: "B", Start: utc(2024, 1, 1), Values: []float64{1, 2}}
+	fc := almanac.Forecast{Start: utc(2024, 3, 1), Mean: []float64{3, 4}}
+	tests := []struct {
+		name  string
+		write func(w *bytes.Buffer) error
+		want  error
+	}{
+		{"series without frequency", func(w *bytes.Buffer) error {
+			return almanac.WriteSeriesCSV(w, []almanac.Series{good, noFreq}, almanac.CSVOptions{})
+		}, almanac.ErrFrequency},
+		{"series negative digits", func(w *bytes.Buffer) error {
+			return almanac.WriteSeriesCSV(w, []almanac.Series{good}, almanac.CSVOptions{Digits: -1})
+		}, almanac.ErrInvalid},
+		{"forecast without frequency", func(w *bytes.Buffer) error {
+			return almanac.WriteForecastCSV(w, []almanac.BatchForecast{{Key: "A", Forecast: fc}}, almanac.CSVOptions{})
+		}, almanac.ErrFrequency},
+		{"forecast same column names", func(w *bytes.Buffer) error {
+			return almanac.WriteForecastCSV(w, nil, almanac.CSVOptions{KeyColumn: "x", TimeColumn: "x"})
+		}, almanac.ErrInvalid},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			var buf bytes.Buffer
+			if err := tt.write(&buf); !errors.Is(err, tt.want) {
+				t.Errorf("err = %v, want %v", err, tt.want)
+			}
+			if buf.Len() != 0 {
+				t.Errorf("wrote %q", buf.String())
+			}
+		})
+	}
+}
+
 // FuzzReadCSV: ReadCSV never panics; what it accepts is a set of valid
 // regular series (unless all values of one are missing) that write back
 // and read again unchanged.
