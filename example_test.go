@@ -286,3 +286,31 @@ func ExampleLambdaGuerrero() {
 	// back [42.000 45.000 61.000]
 	// almanac: box-cox: non-positive value: y[1] = 0 with lambda 0 (need y > 0, or y ≥ 0 when lambda > 0)
 }
+
+func ExampleLambdaML() {
+	lam, err := almanac.LambdaML(cans, 0, 0) // default search interval [-1, 2]
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	llf, _ := almanac.BoxCoxLLF(cans, lam)
+	llfLog, _ := almanac.BoxCoxLLF(cans, 0)
+	fmt.Printf("lambda %.3f, log-likelihood %.3f (%.3f for the log transform)\n", lam, llf, llfLog)
+	_, err = almanac.LambdaML([]float64{5, 5, 5}, 0, 0)
+	fmt.Println(err)
+	// Output:
+	// lambda -0.053, log-likelihood -78.166 (-78.169 for the log transform)
+	// almanac: box-cox: constant series: no lambda can be estimated
+}
+
+func ExampleWriteSeriesCSV() {
+	y := almanac.Series{Key: "cans", Start: time.Date(2024, time.October, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly, Values: []float64{62, math.NaN(), 51.5}}
+	if err := almanac.WriteSeriesCSV(os.Stdout, []almanac.Series{y}, almanac.CSVOptions{ValueColumn: "units"}); err != nil {
+		fmt.Println(err)
+	}
+	// Output:
+	// series,period,units
+	// cans,2024-10-01,62
+	// cans,2024-11-01,NA
+	// cans,2024-12-01,51.5
+}
