@@ -84,8 +84,9 @@
 // channels, goroutines and work vectors, about 370 allocations (44 kB)
 // for one ETS(M,Ad,M) fit. The Theta method, Croston and TSB estimate
 // their constants with a grid refined by a bounded one-dimensional Brent
-// search of our own (minimize1D in theta_ses.go; nested for TSB's two
-// constants), because gonum has no bounded 1-D minimiser.
+// search (minimize1D in theta_ses.go on the project's internal/brent;
+// nested for TSB's two constants), because gonum has no bounded 1-D
+// minimiser.
 //
 // Both searches are local. Measured once before the former hand-written
 // BFGS/simplex pair was removed, on 14,953 ETS fits to M3 series (all

@@ -3,6 +3,7 @@ package smoothing
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -261,9 +262,11 @@ func TestIntervalsWiden(t *testing.T) {
 // variances (Hyndman, Koehler, Ord & Snyder 2005) with the variance of
 // simulated paths from the same fitted model. Class 2 is exact: the two
 // agree to Monte-Carlo error (20000 paths: about 1% standard error on a
-// variance, tolerance 5%). Class 3 is an approximation: reported, and
-// required within 15% (common practice for this approximation at short
-// horizons is a few per cent).
+// variance, tolerance 5%). Class 3 is an approximation, good when σ is
+// small (recalled from memory of the paper); on this series σ² is about
+// 1e-3 and its ratios to the simulated variance (logged) stay within the
+// same Monte-Carlo error as class 2's, so the same 5% is required (it
+// was 15%, a bound with no stated basis).
 func TestAnalyticVarianceBySimulation(t *testing.T) {
 	y := airPassengers(t)
 	for _, tc := range []struct {
@@ -273,7 +276,7 @@ func TestAnalyticVarianceBySimulation(t *testing.T) {
 	}{
 		{"class 2 ETS(M,A,N)", Spec{Error: MultiplicativeError, Trend: AdditiveTrend}, 0.05},
 		{"class 2 ETS(M,Ad,A)", Spec{Error: MultiplicativeError, Trend: DampedTrend, Season: AdditiveSeason}, 0.05},
-		{"class 3 ETS(M,A,M)", Spec{Error: MultiplicativeError, Trend: AdditiveTrend, Season: MultiplicativeSeason}, 0.15},
+		{"class 3 ETS(M,A,M)", Spec{Error: MultiplicativeError, Trend: AdditiveTrend, Season: MultiplicativeSeason}, 0.05},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			fit, err := tc.sp.fit(ctx, y)
@@ -299,7 +302,7 @@ func TestAnalyticVarianceBySimulation(t *testing.T) {
 					sq += (p[h] - mean) * (p[h] - mean)
 				}
 				sv := sq / float64(len(paths)-1)
-				t.Logf("h=%2d analytic %.5g simulated %.5g ratio %.4f", h+1, v[h], sv, v[h]/sv)
+				t.Logf("h=%2d analytic %.5g simulated %.5g ratio %.4f (σ² %.3g)", h+1, v[h], sv, v[h]/sv, fit.Sigma2)
 				if math.Abs(v[h]/sv-1) > tc.rel {
 					t.Errorf("h=%d: analytic variance %g, simulated %g", h+1, v[h], sv)
 				}
@@ -416,7 +419,7 @@ func TestSchurStable(t *testing.T) {
 		{trend: DampedTrend, season: AdditiveSeason, m: 12},
 		{trend: AdditiveTrend, season: AdditiveSeason, m: 12},
 	} {
-		t.Run(f.String()+"/m="+string(rune('0'+f.m%10)), func(t *testing.T) {
+		t.Run(fmt.Sprintf("%v/m=%d", f, f.m), func(t *testing.T) {
 			agree, yes := 0, 0
 			for range 400 {
 				p := Params{Alpha: 2.2 * rng.Float64(), Beta: 1.5*rng.Float64() - 0.2, Gamma: 1.5*rng.Float64() - 0.1, Phi: 1}

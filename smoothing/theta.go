@@ -23,8 +23,9 @@ const (
 	// at least 3m observations, every value is positive and the
 	// autocorrelation test says the series is seasonal at the 90% level:
 	// |r_m| > 1.645·√((1 + 2 Σ_{i<m} r_i²)/n). This is the test used with
-	// the Theta method and the Naive2 benchmark in the M3/M4 competitions
-	// (Assimakopoulos & Nikolopoulos 2000; M4 competition code).
+	// the Theta method and the Naive2 benchmark in the M3 and M4
+	// competitions (common practice; recalled from memory, as is its use
+	// by Assimakopoulos & Nikolopoulos 2000).
 	AdjustAuto SeasonalAdjust = iota
 	// AdjustNever forecasts the series as it is.
 	AdjustNever
@@ -47,8 +48,9 @@ func (a SeasonalAdjust) String() string {
 	return "SeasonalAdjust(" + strconv.Itoa(int(a)) + ")"
 }
 
-// thetaSeasonalZ is the one-sided normal quantile of the 90% seasonality
-// test (common practice with the Theta method and Naive2).
+// thetaSeasonalZ is the critical value of the 90% seasonality test,
+// Φ⁻¹(0.95) = 1.645 (the test compares |r_m|, so the level is two-sided;
+// common practice with the Theta method and Naive2).
 const thetaSeasonalZ = 1.645
 
 // thetaGridN is the number of grid cells searched over α before Brent's
