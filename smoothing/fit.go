@@ -309,13 +309,7 @@ func (s Spec) fit(ctx context.Context, y almanac.Series) (*Fitted, error) {
 	if p.estS {
 		out.DF++
 	}
-	fn, k := float64(n), float64(out.DF)
-	out.AIC = -2*out.LogLik + 2*k
-	out.AICc = out.AIC + 2*k*(k+1)/(fn-k-1)
-	if fn-k-1 <= 0 {
-		out.AICc = math.Inf(1)
-	}
-	out.BIC = -2*out.LogLik + math.Log(fn)*k
+	out.setCriteria()
 	return out, nil
 }
 
@@ -376,6 +370,18 @@ func newFitted(s Spec, f form, y almanac.Series, par Params, l0, b0 float64, s0 
 		out.LogLik = logLik(n, sse, sumlog)
 	}
 	return out, nil
+}
+
+// setCriteria sets AIC, AICc and BIC from LogLik and DF (AICc +Inf when
+// n ≤ DF + 1).
+func (m *Fitted) setCriteria() {
+	fn, k := float64(m.series.Len()), float64(m.DF)
+	m.AIC = -2*m.LogLik + 2*k
+	m.AICc = m.AIC + 2*k*(k+1)/(fn-k-1)
+	if fn-k-1 <= 0 {
+		m.AICc = math.Inf(1)
+	}
+	m.BIC = -2*m.LogLik + math.Log(fn)*k
 }
 
 // String returns the model in taxonomy notation, e.g. "ETS(M,Ad,M)".
@@ -465,12 +471,6 @@ func (m *Fitted) Update(newY []float64) (*Fitted, error) {
 	if sse > 0 {
 		out.LogLik = logLik(n, sse, sumlog)
 	}
-	fn, k := float64(n), float64(out.DF)
-	out.AIC = -2*out.LogLik + 2*k
-	out.AICc = out.AIC + 2*k*(k+1)/(fn-k-1)
-	if fn-k-1 <= 0 {
-		out.AICc = math.Inf(1)
-	}
-	out.BIC = -2*out.LogLik + math.Log(fn)*k
+	out.setCriteria()
 	return out, nil
 }
