@@ -422,7 +422,8 @@ type BoxCox struct {
 	// [DefaultLambdaLower, DefaultLambdaUpper].
 	Lower, Upper float64
 	// Period is the subseries length of Guerrero's method; 0 means
-	// y.Period() (subseries of 2 for non-seasonal data).
+	// y.Period() (subseries of 2 for non-seasonal data). Negative is
+	// invalid.
 	Period int
 	// BiasAdjust makes the point forecast the back-transformed mean
 	// instead of the median.
@@ -444,14 +445,17 @@ type BoxCoxFit struct {
 
 // Fit implements Model.
 //
-// Special cases: a nil Model or unknown Method gives an error wrapping
-// ErrInvalid; negative data, or zeros with λ ≤ 0, one wrapping
+// Special cases: a nil Model, an unknown Method or a negative Period
+// gives an error wrapping ErrInvalid; negative data, or zeros with λ ≤ 0, one wrapping
 // ErrNonPositive; an inner model whose FittedValues do not have one value
 // per observation one wrapping ErrLength; the errors of Series.Validate,
 // of the λ search and of the inner model are passed on.
 func (b BoxCox) Fit(ctx context.Context, y Series) (Fitted, error) {
 	if b.Model == nil {
 		return nil, fmt.Errorf("almanac: box-cox: %w: no model", ErrInvalid)
+	}
+	if b.Period < 0 {
+		return nil, fmt.Errorf("almanac: box-cox: %w: period %d", ErrInvalid, b.Period)
 	}
 	if err := y.Validate(); err != nil {
 		return nil, err

@@ -371,6 +371,7 @@ func TestBoxCoxModel(t *testing.T) {
 		}{
 			{"nil model", almanac.BoxCox{}, y, almanac.ErrInvalid},
 			{"unknown method", almanac.BoxCox{Model: almanac.Naive{}, Method: 7}, y, almanac.ErrInvalid},
+			{"negative period", almanac.BoxCox{Model: almanac.Naive{}, Period: -12}, y, almanac.ErrInvalid},
 			{"NaN lambda", almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaFixed, Lambda: nan}, y, almanac.ErrInvalid},
 			{"zero with log", almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaFixed}, monthly("z", 1, 0, 2), almanac.ErrNonPositive},
 			{"negative with sqrt", almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaFixed, Lambda: 0.5}, monthly("z", 1, -1, 2), almanac.ErrNonPositive},
