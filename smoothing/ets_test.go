@@ -189,7 +189,7 @@ func TestDeterminism(t *testing.T) {
 	var ref almanac.Forecast
 	var refName string
 	for i, w := range []int{1, 2, 7, 1} {
-		fit, err := Select{Workers: w, AllowMultiplicativeTrend: true}.Fit(ctx, y)
+		fit, err := Select{Workers: w, MultiplicativeTrends: true}.Fit(ctx, y)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -368,7 +368,7 @@ func TestObjectiveAllocs(t *testing.T) {
 	for _, sp := range []Spec{
 		{Error: MultiplicativeError, Trend: DampedTrend, Season: MultiplicativeSeason},
 		{Trend: AdditiveTrend, Season: AdditiveSeason, Bounds: AdmissibleBounds},
-		{Error: MultiplicativeError, Trend: DampedMultiplicativeTrend, Season: MultiplicativeSeason, Bounds: BothBounds},
+		{Error: MultiplicativeError, Trend: DampedMultiplicativeTrend, Season: MultiplicativeSeason, Bounds: UsualAdmissibleBounds},
 		{},
 	} {
 		t.Run(sp.String()+"/"+sp.Bounds.String(), func(t *testing.T) {
@@ -676,7 +676,7 @@ func TestSelect(t *testing.T) {
 		exclude string
 	}{
 		{"default, positive monthly", Select{}, y, 15, "ETS(M,Ad,M)", "ETS(A,A,M)"},
-		{"multiplicative trends allowed", Select{AllowMultiplicativeTrend: true}, y, 21, "ETS(M,Md,M)", "ETS(A,M,N)"},
+		{"multiplicative trends allowed", Select{MultiplicativeTrends: true}, y, 21, "ETS(M,Md,M)", "ETS(A,M,N)"},
 		{"unstable allowed", Select{AllowUnstable: true}, y, 18, "ETS(A,A,M)", ""},
 		{"restricted", Select{Errors: []ErrorType{AdditiveError}, Seasons: []SeasonType{NoSeason}}, y, 3, "ETS(A,Ad,N)", "ETS(A,A,A)"},
 		{"too short for seasons", Select{}, y.Head(20), 6, "ETS(M,A,N)", "ETS(A,N,A)"},
@@ -729,7 +729,7 @@ func shifted(y almanac.Series, d float64) almanac.Series {
 // admissible fits are admissible.
 func TestBoundsRegions(t *testing.T) {
 	y := airPassengers(t)
-	for _, b := range []Bounds{UsualBounds, AdmissibleBounds, BothBounds} {
+	for _, b := range []Bounds{UsualBounds, AdmissibleBounds, UsualAdmissibleBounds} {
 		for _, sp := range []Spec{{Trend: DampedTrend, Season: AdditiveSeason}, {Error: MultiplicativeError, Trend: AdditiveTrend, Season: MultiplicativeSeason}, {Trend: AdditiveTrend}} {
 			sp.Bounds = b
 			t.Run(sp.String()+"/"+b.String(), func(t *testing.T) {

@@ -28,7 +28,7 @@ func FuzzFit(f *testing.F) {
 		y := almanac.Series{Start: time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Quarterly, Values: v}
 		var m almanac.Model
 		if kind%4 == 0 {
-			m = Select{Workers: 1, AllowMultiplicativeTrend: kind%8 == 0}
+			m = Select{Workers: 1, MultiplicativeTrends: kind%8 == 0}
 		} else {
 			m = Spec{Error: ErrorType(kind % 2), Trend: TrendType(kind / 2 % 5), Season: SeasonType(kind / 10 % 3), Paths: 50}
 		}

@@ -59,7 +59,7 @@ func (c Criterion) of(f *Fitted) float64 {
 //   - seasonal models with fewer than two full seasons of data;
 //   - models with more parameters than the data supports (n ≤ DF + 1,
 //     so AICc is defined);
-//   - multiplicative trends unless AllowMultiplicativeTrend (common
+//   - multiplicative trends unless MultiplicativeTrends (common
 //     practice: they forecast explosively);
 //   - additive error with a multiplicative trend or season unless
 //     AllowUnstable (common practice: numerically unstable, the
@@ -79,8 +79,9 @@ type Select struct {
 	Errors  []ErrorType
 	Trends  []TrendType
 	Seasons []SeasonType
-	// AllowMultiplicativeTrend adds M and Md trends to the default set.
-	AllowMultiplicativeTrend bool
+	// MultiplicativeTrends adds M and Md trends to the default set of
+	// trends (ignored when Trends is set). Default false.
+	MultiplicativeTrends bool
 	// AllowUnstable admits additive error with multiplicative trend or
 	// season.
 	AllowUnstable bool
@@ -147,7 +148,7 @@ func (s Select) candidates(y almanac.Series) ([]Spec, error) {
 	trends := s.Trends
 	if trends == nil {
 		trends = []TrendType{NoTrend, AdditiveTrend, DampedTrend}
-		if s.AllowMultiplicativeTrend {
+		if s.MultiplicativeTrends {
 			trends = append(trends, MultiplicativeTrend, DampedMultiplicativeTrend)
 		}
 	}

@@ -102,19 +102,22 @@ const (
 	// matrix has all eigenvalues inside the unit circle. The search box
 	// is 1e-4 ≤ α, β, γ ≤ 2−1e-4 (β ≤ 4−1e-4) and 0.8 ≤ φ ≤ 0.98.
 	AdmissibleBounds
-	// BothBounds: the usual bounds intersected with the admissible region.
-	BothBounds
+	// UsualAdmissibleBounds: the usual bounds intersected with the
+	// admissible region.
+	UsualAdmissibleBounds
 )
 
-// String returns "usual", "admissible", "both", or "Bounds(n)".
+// String returns "usual", "admissible", "usual+admissible", or
+// "Bounds(n)". (The names of the two regions are those of Hyndman,
+// Koehler, Ord & Snyder 2008, ch. 10.)
 func (b Bounds) String() string {
 	switch b {
 	case UsualBounds:
 		return "usual"
 	case AdmissibleBounds:
 		return "admissible"
-	case BothBounds:
-		return "both"
+	case UsualAdmissibleBounds:
+		return "usual+admissible"
 	}
 	return fmt.Sprintf("Bounds(%d)", int(b))
 }
@@ -194,7 +197,7 @@ func (s Spec) check() error {
 	if s.Season < NoSeason || s.Season > MultiplicativeSeason {
 		return fmt.Errorf("smoothing: %w: season type %v", errInvalid, s.Season)
 	}
-	if s.Bounds < UsualBounds || s.Bounds > BothBounds {
+	if s.Bounds < UsualBounds || s.Bounds > UsualAdmissibleBounds {
 		return fmt.Errorf("smoothing: %w: bounds %v", errInvalid, s.Bounds)
 	}
 	if s.Period < 0 {
