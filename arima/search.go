@@ -158,7 +158,7 @@ type Search struct {
 	// 1, STL strength above 0.64).
 	SeasonalDifferencing SeasonalDifferencesSpec
 	// Period is the seasonal period; 0 takes it from the series'
-	// frequency. Seasonal terms are searched only when the period is ≥ 2
+	// frequency; negative is invalid. Seasonal terms are searched only when the period is ≥ 2
 	// and the series has more than two full periods of observed values.
 	Period int
 	// Criterion ranks the candidates; default AICc.
@@ -310,7 +310,7 @@ func limit(v, def int) int {
 //     constant is considered) left after differencing, give
 //     almanac.ErrTooShort; a series with no more than two full periods of
 //     observed values is searched without seasonal terms;
-//   - a negative MaxTerms, an unknown Criterion or Likelihood, or a D
+//   - a negative MaxTerms or Period, an unknown Criterion or Likelihood, or a D
 //     or SD below NoDifferencing wrap almanac.ErrInvalid;
 //   - regressors of the wrong length wrap almanac.ErrLength, non-finite
 //     regressor values almanac.ErrNonFinite, regressors linearly dependent
@@ -370,7 +370,10 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 	if pl.period == 0 {
 		pl.period = y.Period()
 	}
-	seasonal := pl.period >= 2 && nObs > 2*pl.period
+	if pl.period < 0 {
+		return nil, fmt.Errorf("arima: search: %w: Period %d is negative", almanac.ErrInvalid, pl.period)
+	}
+	seasonal := pl.period >= 2 && !tooFewPeriods(nObs, pl.period)
 	strength := math.NaN()
 	if !seasonal {
 		pl.maxSP, pl.maxSQ = 0, 0

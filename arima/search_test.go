@@ -427,6 +427,7 @@ func TestSearchBadInput(t *testing.T) {
 		{"nothing fits", context.Background(), arima.Search{D: arima.NoDifferencing, MaxModels: 1}, yearly("six", []float64{1, 4, 2, 8, 5, 7}),
 			[]error{almanac.ErrNotFitted, almanac.ErrTooShort}},
 		{"negative MaxTerms", context.Background(), arima.Search{MaxTerms: -1}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
+		{"negative Period", context.Background(), arima.Search{Period: -3}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
 		{"bad D", context.Background(), arima.Search{D: -2}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
 		{"bad criterion", context.Background(), arima.Search{Criterion: 7}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
 		{"bad likelihood", context.Background(), arima.Search{Likelihood: -1}, yearly("lh", selLH), []error{almanac.ErrInvalid}},
@@ -485,5 +486,19 @@ func TestSearchExhaustiveHugeLimits(t *testing.T) {
 	// p + q ≤ 2, with and without the mean: 6 order pairs × 2.
 	if len(small.Candidates) != 12 {
 		t.Errorf("%d candidates, want 12", len(small.Candidates))
+	}
+}
+
+// TestSearchHugePeriod: a period longer than the series (here the largest
+// int, whose double once overflowed the "more than two periods" test and
+// sent the search into the STL fit) means no seasonal terms, as the
+// Search documentation says: the same choice as the yearly series' own
+// non-seasonal search.
+func TestSearchHugePeriod(t *testing.T) {
+	y := yearly("lh", selLH)
+	huge := searchFit(t, arima.Search{Period: math.MaxInt}, y)
+	plain := searchFit(t, arima.Search{}, y)
+	if huge.String() != plain.String() || huge.Period() != 0 {
+		t.Errorf("Period MaxInt chose %s (period %d), the plain search %s", huge, huge.Period(), plain)
 	}
 }

@@ -19,6 +19,17 @@ const DefaultStrengthThreshold = 0.64
 // ask for an odd span of at least 7; 13 is a common choice).
 const DefaultStrengthSpan = 13
 
+// maxStrengthSpan bounds the STL seasonal span: larger spans are used as
+// this one. At 2^60 the loess weights of any series shorter than 2^40
+// are already all exactly 1 (the tricube of distance/span rounds to 1),
+// so the bound changes no result, and spans near the largest int would
+// overflow the STL window arithmetic.
+const maxStrengthSpan = 1 << 60
+
+// tooFewPeriods reports whether n values hold no more than two full
+// periods (n ≤ 2·period, written so that a huge period cannot overflow).
+func tooFewPeriods(n, period int) bool { return period > (n-1)/2 }
+
 // SeasonalDifferencesSpec configures SeasonalDifferences. The zero value
 // takes at most one seasonal difference, when the STL seasonal strength
 // exceeds 0.64:
@@ -32,7 +43,8 @@ type SeasonalDifferencesSpec struct {
 	// taken, in (0, 1); 0 means DefaultStrengthThreshold.
 	Threshold float64
 	// Span is the STL seasonal loess span (odd, ≥ 7 advised); 0 means
-	// DefaultStrengthSpan.
+	// DefaultStrengthSpan; spans above 2^60 are used as 2^60 (the same
+	// fit for any series shorter than 2^40).
 	Span int
 }
 
@@ -42,7 +54,8 @@ type SeasonalDifferencesSpec struct {
 // Cleveland et al. 1990, non-robust, seasonal span `span`, the other
 // settings those of R's stats::stl). F_s is near 0 for no seasonality and
 // near 1 for a seasonal pattern that dominates the remainder. span 0
-// means DefaultStrengthSpan.
+// means DefaultStrengthSpan; a span above 2^60 is used as 2^60 (the same
+// fit for any series shorter than 2^40).
 //
 // Missing values inside the series are filled by linear interpolation
 // between their observed neighbours before the decomposition; missing
@@ -65,11 +78,12 @@ func SeasonalStrength(y []float64, period, span int) (float64, error) {
 	if span == 0 {
 		span = DefaultStrengthSpan
 	}
+	span = min(span, maxStrengthSpan)
 	if err := selCheckFinite(y); err != nil {
 		return 0, err
 	}
 	x := selInterpolate(y)
-	if len(x) <= 2*period {
+	if tooFewPeriods(len(x), period) {
 		return 0, fmt.Errorf("arima: %w: seasonal strength with period %d needs more than %d observations, have %d", almanac.ErrTooShort, period, 2*period, len(x))
 	}
 	return selStrength(x, period, span)
@@ -132,10 +146,11 @@ func SeasonalDifferences(y []float64, period int, spec SeasonalDifferencesSpec) 
 	if span == 0 {
 		span = DefaultStrengthSpan
 	}
+	span = min(span, maxStrengthSpan)
 	w := append([]float64(nil), y...)
 	for d := 0; ; d++ {
 		x := selInterpolate(w)
-		if d == maxD || len(x) <= 2*period || selIsConstant(x) {
+		if d == maxD || tooFewPeriods(len(x), period) || selIsConstant(x) {
 			return d, nil
 		}
 		f, err := selStrength(x, period, span)

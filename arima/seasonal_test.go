@@ -97,6 +97,10 @@ func TestSeasonalBadInput(t *testing.T) {
 		{"negative MaxD", selLH, 4, arima.SeasonalDifferencesSpec{MaxD: -1}, almanac.ErrInvalid},
 		{"threshold 1", selLH, 4, arima.SeasonalDifferencesSpec{Threshold: 1}, almanac.ErrInvalid},
 		{"negative span", selLH, 4, arima.SeasonalDifferencesSpec{Span: -3}, almanac.ErrInvalid},
+		// 2·period overflowed to a negative number and the STL fit
+		// sliced with it (panic).
+		{"period beyond half the largest int", selLH, math.MaxInt/2 + 1, arima.SeasonalDifferencesSpec{}, almanac.ErrTooShort},
+		{"largest int as period", selLH, math.MaxInt, arima.SeasonalDifferencesSpec{}, almanac.ErrTooShort},
 		{"overflowing values", []float64{1e300, -1e300, 1e300, -1e300, 1e300, -1e300, 1e300, -1e300, 5}, 2, arima.SeasonalDifferencesSpec{}, almanac.ErrNonFinite},
 	}
 	for _, tc := range tests {
@@ -105,5 +109,29 @@ func TestSeasonalBadInput(t *testing.T) {
 				t.Errorf("err = %v, want %v", err, tc.want)
 			}
 		})
+	}
+}
+
+// TestSeasonalStrengthHugeSpan: a span near the largest int (which once
+// overflowed the STL window arithmetic and panicked) gives the fit of the
+// span 2^60 it is bounded to, and that equals the fit with span 2^40: for
+// this monthly series the STL windows and jumps come out the same and the
+// loess weights are all 1 at both (a property of the tricube weights, not
+// a reference value).
+func TestSeasonalStrengthHugeSpan(t *testing.T) {
+	y := logOf(selAirPassengers)
+	huge, err := arima.SeasonalStrength(y, 12, math.MaxInt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	big, err := arima.SeasonalStrength(y, 12, 1<<40)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Float64bits(huge) != math.Float64bits(big) {
+		t.Errorf("strength %v with span MaxInt, %v with span 2^40", huge, big)
+	}
+	if _, err := arima.SeasonalDifferences(y, 12, arima.SeasonalDifferencesSpec{Span: math.MaxInt}); err != nil {
+		t.Errorf("SeasonalDifferences with span MaxInt: %v", err)
 	}
 }
