@@ -1,6 +1,3 @@
-// Package brent holds Brent's bounded univariate minimiser, shared by the
-// Box-Cox λ search and the one-parameter smoothing methods (gonum's
-// optimize package has no bounded one-dimensional minimiser).
 package brent
 
 import "math"

@@ -1,12 +1,3 @@
-// Package seasonal holds classical (moving-average) decomposition and the
-// autocorrelation seasonality test, shared by the model packages.
-//
-// Classical decomposition follows the conventions of R's
-// stats::decompose (checked against R in package decompose's reference
-// test): a centred moving average of order m (a 2×m average when m is
-// even) estimates the trend; the seasonal figure is the mean of the
-// detrended values at each position counted from the first observation,
-// centred to sum to zero (additive) or average one (multiplicative).
 package seasonal
 
 import (
@@ -127,7 +118,8 @@ func Classical(y []float64, m int, multiplicative bool) (Result, error) {
 // Naive2 benchmark of the M4 competition and with the Theta method: with
 // r the sample autocorrelations of y, y is seasonal with period m iff
 // m > 1, n ≥ 3m and |r_m| > z·√((1 + 2 Σ_{i=1}^{m−1} r_i²)/n), where
-// z = 1.645 gives the usual 90% level (two-sided). y must be complete.
+// z = 1.645 gives the usual 90% level (two-sided; common practice).
+// y must be complete.
 func IsSeasonal(y []float64, m int, z float64) bool {
 	n := len(y)
 	if m <= 1 || n < 3*m {

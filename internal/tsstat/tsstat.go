@@ -1,6 +1,3 @@
-// Package tsstat holds small time-series statistics shared by several
-// packages: sample autocovariances, autocorrelations and partial
-// autocorrelations.
 package tsstat
 
 import "math"
