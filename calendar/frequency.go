@@ -238,8 +238,10 @@ func civilDays(t time.Time) int64 {
 
 // SeasonalPeriods returns the natural seasonal cycles of the frequency,
 // in observations, shortest first: monthly {12}, quarterly {4}, weekly
-// {365.25/7}, daily {7, 365.25}, hourly {24, 168}, minutes {per day, per week}; yearly data has none. Periods of
-// less than two observations are left out.
+// {365.25/7}, daily {7, 365.25}, hourly {24, 168}, minutes {per day, per
+// week}, each divided by the multiple N; yearly data and an invalid
+// frequency have none. Periods of less than two observations are left
+// out.
 func (f Frequency) SeasonalPeriods() []float64 {
 	if f.Validate() != nil {
 		return nil
