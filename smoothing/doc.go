@@ -17,7 +17,8 @@
 //
 // ETS here needs complete data: a NaN gives an error wrapping
 // almanac.ErrMissing. Fill gaps first, e.g. with the interpolation of
-// package decompose.
+// package decompose. The same holds for HoltWinters and Theta, and for
+// Croston and TSB, where a period without demand is recorded as 0.
 //
 // # Likelihood
 //

@@ -15,8 +15,10 @@ var (
 	// ErrNoCandidate: Select found no candidate model the data can
 	// support, or every candidate failed to fit.
 	ErrNoCandidate = errors.New("no candidate model could be fitted")
-	// ErrNotAdmissible: fixed parameters outside the admissible region
-	// or outside their valid range.
+	// ErrNotAdmissible: a fixed parameter outside its valid range (a
+	// fixed φ outside (0, 1]). Other fixed values are used as given; with
+	// AdmissibleBounds or UsualAdmissibleBounds, fixed values that leave
+	// no admissible estimate give an error wrapping almanac.ErrNotFitted.
 	ErrNotAdmissible = errors.New("parameters not admissible")
 )
 

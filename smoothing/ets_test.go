@@ -547,6 +547,7 @@ func TestBadInput(t *testing.T) {
 		{"wrong number of seasonal states", Spec{Season: AdditiveSeason, InitSeason: []float64{1, 2}}, y, almanac.ErrLength},
 		{"unknown error type", Spec{Error: 7}, y, almanac.ErrInvalid},
 		{"fixed phi above 1", Spec{Trend: DampedTrend, Phi: Value(1.2)}, y, ErrNotAdmissible},
+		{"fixed alpha outside the admissible region", Spec{Trend: AdditiveTrend, Alpha: Value(5), Bounds: AdmissibleBounds}, y, almanac.ErrNotFitted},
 		{"Select, nothing fits", Select{Seasons: []SeasonType{MultiplicativeSeason}}, y.Head(10), ErrNoCandidate},
 		{"Holt-Winters, too short", HoltWinters{Alpha: 0.5}, y.Head(24), almanac.ErrTooShort},
 		{"Holt-Winters, constant out of range", HoltWinters{Alpha: 1.5}, y, almanac.ErrInvalid},

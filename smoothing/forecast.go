@@ -112,15 +112,14 @@ func (m *Fitted) cj(j int, withSeason bool) float64 {
 	if f.trend != NoTrend {
 		phiJ := float64(j)
 		if f.trend == DampedTrend {
-			phiJ, pw := 0.0, 1.0
+			phiJ = 0
+			pw := 1.0
 			for range j {
 				pw *= p.Phi
 				phiJ += pw
 			}
-			c += p.Beta * phiJ
-		} else {
-			c += p.Beta * phiJ
 		}
+		c += p.Beta * phiJ
 	}
 	if withSeason && f.season != NoSeason && j%f.m == 0 {
 		c += p.Gamma
