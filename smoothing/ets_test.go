@@ -549,6 +549,8 @@ func TestBadInput(t *testing.T) {
 		{"fixed phi above 1", Spec{Trend: DampedTrend, Phi: Value(1.2)}, y, ErrNotAdmissible},
 		{"fixed alpha outside the admissible region", Spec{Trend: AdditiveTrend, Alpha: Value(5), Bounds: AdmissibleBounds}, y, almanac.ErrNotFitted},
 		{"Select, nothing fits", Select{Seasons: []SeasonType{MultiplicativeSeason}}, y.Head(10), ErrNoCandidate},
+		{"Select, unknown criterion, constant series", Select{Criterion: 9}, constantSeries(30, 42), almanac.ErrInvalid},
+		{"Select, negative workers, constant series", Select{Workers: -1}, constantSeries(30, 42), almanac.ErrInvalid},
 		{"Holt-Winters, too short", HoltWinters{Alpha: 0.5}, y.Head(24), almanac.ErrTooShort},
 		{"Holt-Winters, constant out of range", HoltWinters{Alpha: 1.5}, y, almanac.ErrInvalid},
 	}
@@ -637,6 +639,15 @@ func TestHoltWintersZeroSlope(t *testing.T) {
 	}
 	numtest.Slice(t, "additive lower", fc.Intervals[0].Lower, fc.Mean, 1e-12, 0)
 	numtest.Slice(t, "additive upper", fc.Intervals[0].Upper, fc.Mean, 1e-12, 0)
+}
+
+// constantSeries is n quarterly values equal to c.
+func constantSeries(n int, c float64) almanac.Series {
+	v := make([]float64, n)
+	for i := range v {
+		v[i] = c
+	}
+	return almanac.Series{Start: time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Quarterly, Values: v}
 }
 
 // TestConstantSeries: a constant series still forecasts (no optimiser

@@ -131,14 +131,22 @@ func (s Select) Compare(ctx context.Context, y almanac.Series) ([]Candidate, int
 	return cands, -1, nil
 }
 
+// check validates the options that do not depend on the data.
+func (s Select) check() error {
+	if s.Criterion < AICc || s.Criterion > BIC {
+		return fmt.Errorf("smoothing: select: %w: criterion %v", errInvalid, s.Criterion)
+	}
+	if s.Period < 0 || s.Workers < 0 || s.Paths < 0 {
+		return fmt.Errorf("smoothing: select: %w: negative period, workers or paths", errInvalid)
+	}
+	if s.Bounds < UsualBounds || s.Bounds > UsualAdmissibleBounds {
+		return fmt.Errorf("smoothing: select: %w: bounds %v", errInvalid, s.Bounds)
+	}
+	return nil
+}
+
 // candidates lists the specs to try for y.
 func (s Select) candidates(y almanac.Series) ([]Spec, error) {
-	if s.Criterion < AICc || s.Criterion > BIC {
-		return nil, fmt.Errorf("smoothing: select: %w: criterion %v", errInvalid, s.Criterion)
-	}
-	if s.Period < 0 || s.Workers < 0 {
-		return nil, fmt.Errorf("smoothing: select: %w: negative period or workers", errInvalid)
-	}
 	positive := y.CheckPositive() == nil
 	n := y.Len()
 	errs := s.Errors
@@ -218,6 +226,9 @@ func (s Spec) df(m int) int {
 }
 
 func (s Select) search(ctx context.Context, y almanac.Series) (*Fitted, []Candidate, error) {
+	if err := s.check(); err != nil {
+		return nil, nil, err
+	}
 	if err := y.Validate(); err != nil {
 		return nil, nil, fmt.Errorf("smoothing: select: %w", err)
 	}
