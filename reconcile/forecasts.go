@@ -203,7 +203,7 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 	// rather than O(n²).
 	var zt *mat.Dense // n × T
 	var lambda float64
-	if spec.Residuals != nil {
+	if !absent(spec.Residuals) {
 		kind := Shrinkage
 		if p.method == MethodMinTSample {
 			kind = SampleCovariance

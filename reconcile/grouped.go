@@ -31,17 +31,26 @@ type Grouped struct {
 
 var _ Structure = (*Grouped)(nil)
 
+// MaxFactors is the largest number of factors NewGrouped accepts. Every
+// subset of the factors gets at least one aggregate, so k factors make at
+// least 2^k nodes: 16 factors already make 65,536, far beyond what the
+// dense projection methods can solve.
+const MaxFactors = 16
+
 // NewGrouped builds a grouped structure from the factor names and one row
 // of factor values per bottom series.
 //
-// Errors wrap ErrNoBottom (no rows or no factors), ErrStructure (a row of
-// the wrong width, an empty factor name or value) or ErrDuplicateName (two
-// factors of the same name, two equal rows, or generated names that
-// collide).
+// Errors wrap ErrNoBottom (no rows or no factors), ErrStructure (more
+// than MaxFactors factors, a row of the wrong width, an empty factor name
+// or value) or ErrDuplicateName (two factors of the same name, two equal
+// rows, or generated names that collide).
 func NewGrouped(factors []string, bottom [][]string) (*Grouped, error) {
 	k := len(factors)
 	if k == 0 {
 		return nil, fmt.Errorf("reconcile: %w: grouped structure without factors", ErrNoBottom)
+	}
+	if k > MaxFactors {
+		return nil, fmt.Errorf("reconcile: %w: %d factors, at most %d (k factors make at least 2^k aggregate nodes)", ErrStructure, k, MaxFactors)
 	}
 	if len(bottom) == 0 {
 		return nil, fmt.Errorf("reconcile: %w: grouped structure without bottom series", ErrNoBottom)

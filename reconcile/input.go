@@ -3,15 +3,27 @@ package reconcile
 import (
 	"fmt"
 	"math"
+	"reflect"
 
 	"github.com/almanac-go/almanac"
 	"gonum.org/v1/gonum/mat"
 )
 
+// absent reports whether a matrix argument is missing: a nil interface,
+// or a typed nil pointer such as a (*mat.Dense)(nil) held in a
+// mat.Matrix, whose methods would dereference nil.
+func absent(x any) bool {
+	if x == nil {
+		return true
+	}
+	v := reflect.ValueOf(x)
+	return v.Kind() == reflect.Pointer && v.IsNil()
+}
+
 // baseRows copies the base forecasts (h × n) into row slices after
 // checking their shape and values.
 func baseRows(c *core, base mat.Matrix) ([][]float64, error) {
-	if base == nil {
+	if absent(base) {
 		return nil, fmt.Errorf("reconcile: %w: no base forecasts", almanac.ErrEmpty)
 	}
 	r, k := base.Dims()
@@ -49,7 +61,7 @@ func finite(c *core, what string, v float64, t, i int) error {
 // that have no NaN; ±Inf anywhere is an error. what names the matrix in
 // messages.
 func completeRows(c *core, x mat.Matrix, what string) ([][]float64, error) {
-	if x == nil {
+	if absent(x) {
 		return nil, fmt.Errorf("reconcile: %w: no %s given (this method needs them)", almanac.ErrEmpty, what)
 	}
 	r, k := x.Dims()

@@ -324,6 +324,10 @@ func TestBadInput(t *testing.T) {
 		{"typed nil hierarchy", (*reconcile.Hierarchy)(nil), base, reconcile.Spec{}, []error{almanac.ErrInvalid}},
 		{"zero grouped structure", &reconcile.Grouped{}, base, reconcile.Spec{}, []error{almanac.ErrInvalid}},
 		{"nil base", h, nil, reconcile.Spec{}, []error{almanac.ErrEmpty}},
+		// A typed nil held in a mat.Matrix once reached a nil dereference.
+		{"typed nil base", h, (*mat.Dense)(nil), reconcile.Spec{}, []error{almanac.ErrEmpty}},
+		{"typed nil residuals for MinT", h, base, reconcile.Spec{Method: reconcile.MethodMinTShrink, Residuals: (*mat.Dense)(nil)}, []error{almanac.ErrEmpty}},
+		{"typed nil history", h, base, reconcile.Spec{Method: reconcile.MethodTopDown, Disaggregation: reconcile.AverageHistoricalProportions, History: (*mat.Dense)(nil)}, []error{almanac.ErrEmpty}},
 		{"too few columns", h, mat.NewDense(2, 6, nil), reconcile.Spec{}, []error{reconcile.ErrDimension, almanac.ErrLength}},
 		{"NaN base forecast", h, withCell(base, 1, 2, math.NaN()), reconcile.Spec{}, []error{almanac.ErrMissing}},
 		{"Inf base forecast", h, withCell(base, 0, 0, math.Inf(1)), reconcile.Spec{Method: reconcile.MethodOLS}, []error{almanac.ErrNonFinite}},
@@ -359,6 +363,42 @@ func TestBadInput(t *testing.T) {
 				t.Errorf("message %q does not start with the package name", msg)
 			}
 		})
+	}
+}
+
+// TestTypedNilMatrices: a typed nil matrix is treated as no matrix by
+// every entry point (an error, or for MethodAuto the choice made without
+// residuals), never a nil dereference.
+func TestTypedNilMatrices(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	h := testHierarchy(t, 2, 2)
+	base := coherentData(h, 3, 1, rng)
+	auto, err := reconcile.Reconcile(h, base, reconcile.Spec{Residuals: (*mat.Dense)(nil)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	wls, err := reconcile.WLSStructural(h, base)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !mat.Equal(auto, wls) {
+		t.Error("MethodAuto with typed nil residuals is not WLS (structural)")
+	}
+	if _, err := reconcile.Proportions(h, 0, (*mat.Dense)(nil), reconcile.AverageHistoricalProportions); !errors.Is(err, almanac.ErrEmpty) {
+		t.Errorf("Proportions: %v", err)
+	}
+	if _, err := reconcile.EstimateCovariance(h, (*mat.Dense)(nil), reconcile.Shrinkage); !errors.Is(err, almanac.ErrEmpty) {
+		t.Errorf("EstimateCovariance: %v", err)
+	}
+	g, err := reconcile.BottomMap(h, reconcile.Spec{Method: reconcile.MethodOLS})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := reconcile.ReconciledCovariance(h, g, (*mat.SymDense)(nil)); !errors.Is(err, almanac.ErrInvalid) {
+		t.Errorf("ReconciledCovariance, typed nil W: %v", err)
+	}
+	if _, err := reconcile.ReconciledCovariance(h, (*mat.Dense)(nil), mat.NewSymDense(h.Len(), nil)); !errors.Is(err, almanac.ErrInvalid) {
+		t.Errorf("ReconciledCovariance, typed nil G: %v", err)
 	}
 }
 

@@ -12,7 +12,8 @@ type Method int
 
 const (
 	// MethodAuto is the default: MethodMinTShrink when Spec.Residuals is
-	// set, MethodWLSStructural otherwise.
+	// set, MethodWLSStructural otherwise (a nil matrix, including a typed
+	// nil such as (*mat.Dense)(nil), is not set).
 	MethodAuto Method = iota
 	// MethodBottomUp keeps the bottom-level base forecasts and adds them
 	// up.
@@ -102,7 +103,7 @@ func newPlan(st Structure, spec Spec, y [][]float64) (*plan, error) {
 	method := spec.Method
 	if method == MethodAuto {
 		method = MethodWLSStructural
-		if spec.Residuals != nil {
+		if !absent(spec.Residuals) {
 			method = MethodMinTShrink
 		}
 	}
@@ -371,7 +372,7 @@ func ReconciledCovariance(st Structure, g mat.Matrix, w mat.Symmetric) (*mat.Sym
 	if err != nil {
 		return nil, err
 	}
-	if g == nil || w == nil {
+	if absent(g) || absent(w) {
 		return nil, fmt.Errorf("reconcile: %w: nil argument", almanac.ErrInvalid)
 	}
 	n, m := c.n(), c.m

@@ -3,6 +3,7 @@ package reconcile_test
 import (
 	"errors"
 	"slices"
+	"strconv"
 	"testing"
 
 	"github.com/almanac-go/almanac/reconcile"
@@ -142,6 +143,17 @@ func TestStructureErrors(t *testing.T) {
 		{"no bottom rows", func() error { _, err := reconcile.NewGrouped([]string{"f"}, nil); return err }, reconcile.ErrNoBottom},
 		{"row width", func() error { _, err := reconcile.NewGrouped([]string{"f", "g"}, [][]string{{"x"}}); return err }, reconcile.ErrStructure},
 		{"empty value", func() error { _, err := reconcile.NewGrouped([]string{"f"}, [][]string{{""}}); return err }, reconcile.ErrStructure},
+		{"too many factors", func() error {
+			// 17 factors would make at least 2^17 aggregates (building them
+			// once ran out of memory at 40 factors).
+			f := make([]string, reconcile.MaxFactors+1)
+			row := make([]string, len(f))
+			for i := range f {
+				f[i], row[i] = "f"+strconv.Itoa(i), "v"
+			}
+			_, err := reconcile.NewGrouped(f, [][]string{row})
+			return err
+		}, reconcile.ErrStructure},
 		{"duplicate factor", func() error { _, err := reconcile.NewGrouped([]string{"f", "f"}, [][]string{{"x", "y"}}); return err }, reconcile.ErrDuplicateName},
 		{"duplicate row", func() error {
 			_, err := reconcile.NewGrouped([]string{"f", "g"}, [][]string{{"x", "y"}, {"x", "y"}})
