@@ -106,7 +106,9 @@
 // absolute value (an exact operation in floating point) and scales the
 // results back, so that data of any magnitude, 1e-200 or 1e250, fit and
 // forecast alike (forecasts of c·y are c times those of y; the test covers
-// c = 1e-200 and 3e250).
+// c = 1e-200 and 3e250). Values of magnitude 2^1023 (about 9e307) or more
+// are rejected (almanac.ErrNonFinite): sums of a few of them, as in the
+// differencing, overflow.
 //
 // Regressors whose columns are linearly dependent after the model's
 // differencing are rejected (ErrCollinear) with their names.

@@ -53,6 +53,11 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 	// coefficients (and their fixed values) scale with y.
 	yv := y.Slice()
 	c := dataScale(yv)
+	if math.IsInf(c, 1) {
+		// Within a factor 2 of the largest float64 the differencing and
+		// forecast recursions (sums of several values) overflow.
+		return nil, fmt.Errorf("arima: %w: series %q has a value of magnitude 2^1023 (about 9e307) or more; the differencing and forecast arithmetic would overflow (rescale the series)", almanac.ErrNonFinite, y.Key)
+	}
 	for i := range yv {
 		yv[i] /= c
 	}
@@ -266,7 +271,8 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 }
 
 // dataScale returns a power of two close to the largest |v| (1 when all
-// are zero or missing).
+// are zero or missing): 2^e with |v| < 2^e, +Inf when the largest |v| is
+// 2^1023 or more (fitWith rejects such data).
 func dataScale(v []float64) float64 {
 	m := 0.0
 	for _, x := range v {

@@ -316,6 +316,8 @@ func (l *layout) orders() string {
 // Special cases:
 //   - an invalid series (empty, all missing, ±Inf) gives the error of
 //     almanac.Series.Validate; a constant one wraps almanac.ErrConstant;
+//     values of magnitude 2^1023 (about 9e307) or more wrap
+//     almanac.ErrNonFinite (the recursions would overflow);
 //   - negative orders, a seasonal order without a period ≥ 2, an unknown
 //     name in Fixed or a bad regressor name give errors wrapping
 //     almanac.ErrInvalid;

@@ -59,6 +59,9 @@ func TestBadInput(t *testing.T) {
 		{"all missing", Spec{}, withValues(lh, []float64{nan, nan, nan}), almanac.ErrAllMissing, nil},
 		{"infinite value", Spec{}, withValues(lh, []float64{1, 2, math.Inf(1), 4}), almanac.ErrNonFinite, nil},
 		{"constant", Spec{P: 1}, withValues(lh, []float64{3, 3, 3, 3, 3, 3, 3, 3}), almanac.ErrConstant, nil},
+		// Values from 2^1023 up made the data scale 2^1024 = +Inf (the fit
+		// then failed on a zero series with a misleading message).
+		{"values near the largest float64", Spec{D: 1, Q: 1}, withValues(lh, scaled(lh.Values, math.MaxFloat64/4)), almanac.ErrNonFinite, []string{"2^1023"}},
 		{"too short for the orders", Spec{P: 3, Q: 2}, lh.Head(6), almanac.ErrTooShort, []string{"ARIMA(3,0,2)"}},
 		{"too short after differencing", Spec{D: 1, SD: 1, SQ: 1, Period: 12}, lh.Head(14), almanac.ErrTooShort, nil},
 		{"negative order", Spec{P: -1}, lh, almanac.ErrInvalid, nil},
