@@ -553,6 +553,7 @@ func TestBadInput(t *testing.T) {
 		{"Select, negative workers, constant series", Select{Workers: -1}, constantSeries(30, 42), almanac.ErrInvalid},
 		{"Holt-Winters, too short", HoltWinters{Alpha: 0.5}, y.Head(24), almanac.ErrTooShort},
 		{"Holt-Winters, constant out of range", HoltWinters{Alpha: 1.5}, y, almanac.ErrInvalid},
+		{"Holt-Winters, squares overflow", HoltWinters{Alpha: 0.3, Beta: 0.1, Gamma: 0.1}, scaled(y, 1e303), almanac.ErrNotFitted},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -727,6 +728,14 @@ func TestSelect(t *testing.T) {
 	if _, ok := fit.(*Fitted); !ok {
 		t.Fatalf("Fit returned %T", fit)
 	}
+}
+
+func scaled(y almanac.Series, c float64) almanac.Series {
+	y = y.Clone()
+	for i := range y.Values {
+		y.Values[i] *= c
+	}
+	return y
 }
 
 func shifted(y almanac.Series, d float64) almanac.Series {

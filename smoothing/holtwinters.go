@@ -82,6 +82,13 @@ func (h HoltWinters) String() string {
 // Fit runs the recursion on y. y must be complete, hold at least two full
 // seasons plus one observation, and be positive for multiplicative
 // seasonality.
+//
+// Special cases: a constant outside [0, 1] or a period below 2 wraps
+// almanac.ErrInvalid; a NaN wraps almanac.ErrMissing; a value ≤ 0 with
+// multiplicative seasonality wraps almanac.ErrNonPositive; fewer than
+// 2m+1 observations wrap almanac.ErrTooShort; a sum of squared errors
+// that overflows (values near the largest float64) wraps
+// almanac.ErrNotFitted.
 func (h HoltWinters) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
 	f, err := h.fit(ctx, y)
 	if err != nil {
@@ -163,6 +170,9 @@ func (h HoltWinters) fit(ctx context.Context, y almanac.Series) (*HoltWintersFit
 		ss += d * d
 	}
 	out.ResidualVariance = ss / float64(cnt-1)
+	if math.IsInf(out.SSE, 0) || math.IsNaN(out.SSE) || math.IsInf(out.ResidualVariance, 0) || math.IsNaN(out.ResidualVariance) {
+		return nil, fmt.Errorf("smoothing: %v: %w: sum of squared one-step errors not finite (values too large?)", h, almanac.ErrNotFitted)
+	}
 	return out, nil
 }
 
@@ -349,7 +359,11 @@ func (f *HoltWintersFit) Forecast(h int, levels ...float64) (almanac.Forecast, e
 		sd[i] = math.Sqrt(v[i])
 		if math.IsNaN(sd[i]) || math.IsInf(sd[i], 0) {
 			if len(levels) > 0 {
-				return almanac.Forecast{}, fmt.Errorf("smoothing: %v: %w: the interval variance at step %d is %v (R's multiplicative formula divides by the final slope b = %v)", f, almanac.ErrNoDistribution, i+1, v[i], f.B)
+				why := ""
+				if f.spec.Multiplicative && f.B == 0 {
+					why = " (R's multiplicative formula divides by the final slope, which is 0)"
+				}
+				return almanac.Forecast{}, fmt.Errorf("smoothing: %v: %w: the interval variance at step %d is %v%s", f, almanac.ErrNoDistribution, i+1, v[i], why)
 			}
 			dist = nil
 			break
