@@ -34,6 +34,13 @@
 // goes straight to ML when values are missing; CSS alone needs complete
 // data (almanac.ErrMissing). Regressor values must all be finite.
 //
+// The order-selection helpers: Search ranks by exact likelihood when
+// values are missing; KPSS rejects NaN (almanac.ErrMissing); Differences
+// tests the observed values of each differenced series; SeasonalStrength
+// and SeasonalDifferences fill interior gaps linearly and drop missing
+// values at the ends; ACF and PACF use the pairs where both values are
+// observed.
+//
 // # Numerical notes
 //
 // Likelihood. The state space is Harvey's (1989) form with
@@ -125,8 +132,10 @@
 // 5% level on the seasonally differenced series (Differences: difference
 // while stationarity is rejected, at most twice). Last, Search runs the
 // stepwise algorithm of Hyndman & Khandakar (2008, Journal of
-// Statistical Software 27(3)) — four starting models, then moves of p,
-// q, P, Q by ±1 and the constant toggled while the criterion improves —
+// Statistical Software 27(3)) — four starting models (and white noise
+// without the constant when a constant is considered), then moves of p,
+// q, P, Q by ±1, of p and q or P and Q together, and the constant
+// toggled, while the criterion improves —
 // or, with Exhaustive, fits every model of a bounded grid, and ranks by
 // AICc (or AIC, BIC). Candidates with an AR or MA root within 1.001 of
 // the unit circle are rejected (ErrNearUnitRoot); the chosen model is
@@ -206,10 +215,19 @@
 //
 // # References
 //
+// (Bibliographic details of Bartlett, Cleveland et al., Hurvich & Tsai
+// and Newey & West recalled from memory.)
+//
+//   - Bartlett, M.S. (1946). On the theoretical specification and sampling
+//     properties of autocorrelated time-series. Supplement to the Journal
+//     of the Royal Statistical Society 8, 27–41.
 //   - Box, G.E.P., Jenkins, G.M., Reinsel, G.C. (1994). Time Series
 //     Analysis: Forecasting and Control, 3rd ed. Prentice Hall.
 //   - Brockwell, P.J., Davis, R.A. (1991). Time Series: Theory and
 //     Methods, 2nd ed. Springer.
+//   - Cleveland, R.B., Cleveland, W.S., McRae, J.E., Terpenning, I.
+//     (1990). STL: a seasonal-trend decomposition procedure based on
+//     loess. Journal of Official Statistics 6, 3–73.
 //   - Durbin, J., Koopman, S.J. (2012). Time Series Analysis by State Space
 //     Methods, 2nd ed. Oxford University Press.
 //   - Gardner, G., Harvey, A.C., Phillips, G.D.A. (1980). Algorithm AS 154.
@@ -218,6 +236,8 @@
 //     the Kalman Filter. Cambridge University Press.
 //   - Hobijn, B., Franses, P.H., Ooms, M. (2004). Generalizations of the
 //     KPSS-test for stationarity. Statistica Neerlandica 58, 483–502.
+//   - Hurvich, C.M., Tsai, C.-L. (1989). Regression and time series model
+//     selection in small samples. Biometrika 76, 297–307.
 //   - Hyndman, R.J., Khandakar, Y. (2008). Automatic time series
 //     forecasting. Journal of Statistical Software 27(3).
 //   - Jones, R.H. (1980). Maximum likelihood fitting of ARMA models to time
@@ -227,6 +247,9 @@
 //     of a unit root. Journal of Econometrics 54, 159–178.
 //   - Monahan, J.F. (1984). A note on enforcing stationarity in
 //     autoregressive-moving average models. Biometrika 71, 403–404.
+//   - Newey, W.K., West, K.D. (1987). A simple, positive semi-definite,
+//     heteroskedasticity and autocorrelation consistent covariance
+//     matrix. Econometrica 55, 703–708.
 //   - Nash, J.C. (1990). Compact Numerical Methods for Computers, 2nd ed.
 //     Adam Hilger (the variable-metric algorithm).
 //   - Wang, X., Smith, K.A., Hyndman, R.J. (2006). Characteristic-based

@@ -16,7 +16,8 @@ const DefaultStrengthThreshold = 0.64
 
 // DefaultStrengthSpan is the seasonal loess span of the STL fit behind
 // SeasonalStrength when none is given: 13 cycles (Cleveland et al. 1990
-// ask for an odd span of at least 7; 13 is a common choice).
+// ask for an odd span of at least 7; 13 is a common choice, common
+// practice).
 const DefaultStrengthSpan = 13
 
 // maxStrengthSpan bounds the STL seasonal span: larger spans are used as
