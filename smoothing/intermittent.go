@@ -291,14 +291,20 @@ func newIntermittentFit(method string, y almanac.Series, first int) *Intermitten
 	return f
 }
 
-// finish fills the residuals and the MSE from the fitted values.
-func (f *IntermittentFit) finish(y []float64, sse float64) {
+// finish fills the residuals and the MSE from the fitted values. A sum
+// of squares that overflows (demands near the largest float64) gives an
+// error wrapping almanac.ErrNotFitted.
+func (f *IntermittentFit) finish(y []float64, sse float64) error {
+	if math.IsInf(sse, 0) || math.IsNaN(sse) {
+		return fmt.Errorf("smoothing: %s: %w: sum of squared one-step errors not finite (values too large?)", f.Method, almanac.ErrNotFitted)
+	}
 	for t, v := range y {
 		f.resid[t] = v - f.fitted[t]
 	}
 	if m := len(y) - f.FirstDemand - 1; f.FirstDemand >= 0 && m > 0 {
 		f.MSE = sse / float64(m)
 	}
+	return nil
 }
 
 // Fit estimates Croston's method (or SBA) on y.
@@ -310,6 +316,8 @@ func (f *IntermittentFit) finish(y []float64, sse float64) {
 //     value: almanac.ErrMissing; a negative value: almanac.ErrNonPositive;
 //   - EstimateAlpha with fewer than two periods after the first demand:
 //     almanac.ErrTooShort;
+//   - squared errors that overflow (demands near the largest float64):
+//     almanac.ErrNotFitted;
 //   - no demand at all: a fit whose forecasts are 0.
 func (c Croston) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
 	const name = "croston"
@@ -361,7 +369,9 @@ func (c Croston) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, err
 	z, p, sse := crostonRun(f.fitted, x, k, alpha, factorOf(alpha))
 	f.Size, f.Interval, f.Probability = z, p, 1/p
 	f.Rate = factorOf(alpha) * z / p
-	f.finish(x, sse)
+	if err := f.finish(x, sse); err != nil {
+		return nil, err
+	}
 	return f, nil
 }
 
@@ -374,6 +384,8 @@ func (c Croston) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, err
 //     value: almanac.ErrMissing; a negative value: almanac.ErrNonPositive;
 //   - Estimate with fewer than two periods after the first demand:
 //     almanac.ErrTooShort;
+//   - squared errors that overflow (demands near the largest float64):
+//     almanac.ErrNotFitted;
 //   - no demand at all: a fit whose forecasts are 0.
 func (s TSB) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
 	const name = "tsb"
@@ -427,7 +439,9 @@ func (s TSB) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) 
 	z, prob, sse := tsbRun(f.fitted, x, k, alpha, beta)
 	f.Size, f.Probability = z, prob
 	f.Rate = prob * z
-	f.finish(x, sse)
+	if err := f.finish(x, sse); err != nil {
+		return nil, err
+	}
 	return f, nil
 }
 

@@ -265,6 +265,8 @@ func TestIntermittentBadInput(t *testing.T) {
 		{"tsb/beta negative", smoothing.TSB{Beta: -0.1}, weekly(handSeries), almanac.ErrInvalid},
 		{"tsb/beta and estimate", smoothing.TSB{Beta: 0.1, Estimate: true}, weekly(handSeries), almanac.ErrInvalid},
 		{"tsb/estimate, demand at the end", smoothing.TSB{Estimate: true}, weekly([]float64{0, 0, 0, 3}), almanac.ErrTooShort},
+		{"croston/squares overflow", smoothing.Croston{}, weekly([]float64{0, 1e300, 0, 0, 1e200}), almanac.ErrNotFitted},
+		{"tsb/squares overflow", smoothing.TSB{Estimate: true}, weekly([]float64{0, 1e300, 0, 0, 1e200}), almanac.ErrNotFitted},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
