@@ -13,8 +13,8 @@ import (
 )
 
 // FuzzFit fits small models to arbitrary short series: Fit and Forecast
-// must not panic, and every error must wrap one of the documented
-// sentinels.
+// must not panic, every error must wrap one of the documented sentinels,
+// and a forecast that is returned must be finite.
 func FuzzFit(f *testing.F) {
 	seed := func(vals ...float64) []byte {
 		b := make([]byte, 8*len(vals))
@@ -47,9 +47,19 @@ func FuzzFit(f *testing.F) {
 			t.Fatalf("%v: error %v wraps no documented sentinel", s, err)
 		}
 		fc, err := fm.Forecast(4, 90)
-		if err != nil && !errors.Is(err, ErrNonStationary) {
-			t.Fatalf("%v: forecast error %v", s, err)
+		if err != nil {
+			if !errors.Is(err, ErrNonStationary) {
+				t.Fatalf("%v: forecast error %v", s, err)
+			}
+			return
 		}
-		_ = fc
+		// A forecast that is returned must be a number: no NaN or ±Inf
+		// mean or standard error passed off as a result.
+		sd := fc.Dist.(*almanac.Normal).SD
+		for h := range fc.Mean {
+			if math.IsNaN(fc.Mean[h]) || math.IsInf(fc.Mean[h], 0) || !(sd[h] >= 0) || math.IsInf(sd[h], 0) {
+				t.Fatalf("%v on %v: forecast step %d mean %v sd %v", s, v, h, fc.Mean[h], sd[h])
+			}
+		}
 	})
 }

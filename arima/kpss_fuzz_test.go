@@ -54,8 +54,13 @@ func FuzzOrderSelectionTools(f *testing.F) {
 				}
 			}
 		}
-		if _, err := arima.PACF(y, int(period)); err != nil {
-			_ = err
+		if c, err := arima.PACF(y, int(period)); err == nil {
+			for _, v := range c.Values {
+				if math.IsNaN(v) || math.IsInf(v, 0) {
+					t.Errorf("PACF not finite: %v", c.Values)
+					break
+				}
+			}
 		}
 		if fs, err := arima.SeasonalStrength(y, int(period), 0); err == nil && !(fs >= 0 && fs <= 1) {
 			t.Errorf("SeasonalStrength = %v", fs)
