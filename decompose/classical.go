@@ -55,6 +55,11 @@ func (c Classical) Decompose(y almanac.Series) (*Decomposition, error) {
 			return nil, fmt.Errorf("decompose: multiplicative classical decomposition: %w", err)
 		}
 	}
+	if n := y.Len(); m >= 2 && m > n/2 {
+		// Checked here too, before any slice of the period's size is
+		// made: internal/seasonal would allocate for a huge period.
+		return nil, fmt.Errorf("decompose: %w: %d observations, classical decomposition with period %d needs at least twice as many", almanac.ErrTooShort, n, m)
+	}
 	r, err := seasonal.Classical(y.Values, m, c.Multiplicative)
 	if err != nil {
 		return nil, seasonalError(err, y.Len(), m)

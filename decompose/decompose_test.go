@@ -48,6 +48,15 @@ func TestBadInput(t *testing.T) {
 		{"classical multiplicative negative", decompose.Classical{Multiplicative: true}, negative, almanac.ErrNonPositive, "multiplicative needs positive data"},
 		{"classical period 1", decompose.Classical{Period: 1}, co2, decompose.ErrPeriod, "period below 2"},
 		{"empty", decompose.STL{}, monthly(nil), almanac.ErrEmpty, "no data"},
+		// Options so large that int arithmetic on them wrapped around:
+		// these once panicked (slice bounds, makeslice) or gave a
+		// misleading sentinel.
+		{"stl huge seasonal window", decompose.STL{SeasonalWindow: math.MaxInt}, co2, decompose.ErrWindow, "R's stl takes 32-bit integers"},
+		{"stl huge trend window", decompose.STL{TrendWindow: math.MaxInt32 + 1}, co2, decompose.ErrWindow, "just above the 32-bit bound"},
+		{"stl huge period", decompose.STL{Period: math.MaxInt}, co2, almanac.ErrTooShort, "no two cycles fit"},
+		{"mstl huge period", decompose.MSTL{Periods: []float64{1e300}}, co2, almanac.ErrTooShort, "no two cycles fit, not a wrapped int"},
+		{"classical huge period", decompose.Classical{Period: math.MaxInt}, co2, almanac.ErrTooShort, "checked before allocating a period's figure"},
+		{"classical period just too long", decompose.Classical{Period: 235}, co2, almanac.ErrTooShort, "468 < 2·235"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			_, err := c.method.Decompose(c.y)
@@ -64,6 +73,45 @@ func TestBadInput(t *testing.T) {
 	}
 	if !errors.Is(decompose.ErrWindow, almanac.ErrInvalid) || !errors.Is(decompose.ErrPeriod, almanac.ErrInvalid) {
 		t.Error("package sentinels do not wrap almanac.ErrInvalid")
+	}
+}
+
+// TestLargestSpans: spans and jumps at the 32-bit bound are accepted
+// and give finite components (a span beyond the series is a global
+// loess fit, as in the authors' Fortran).
+func TestLargestSpans(t *testing.T) {
+	y := fixtureInput(t, "stl_co2_swin7")
+	for _, s := range []decompose.STL{
+		{SeasonalWindow: math.MaxInt32},
+		{TrendWindow: math.MaxInt32},
+		{LowPassWindow: math.MaxInt32},
+		{SeasonalJump: math.MaxInt32, TrendJump: math.MaxInt32, LowPassJump: math.MaxInt32},
+	} {
+		d, err := s.Decompose(y)
+		if err != nil {
+			t.Fatalf("%+v: %v", s, err)
+		}
+		for i := range d.Trend {
+			if math.IsNaN(d.Trend[i]) || math.IsInf(d.Trend[i], 0) || math.IsNaN(d.Seasonal[i]) || math.IsInf(d.Seasonal[i], 0) {
+				t.Fatalf("%+v: component not finite at %d", s, i)
+			}
+		}
+	}
+}
+
+// TestSeasonalForwardEmpty: a horizon below 1 gives nil, not a panic.
+func TestSeasonalForwardEmpty(t *testing.T) {
+	d, err := decompose.STL{}.Decompose(fixtureInput(t, "stl_co2_swin7"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, h := range []int{0, -1, math.MinInt} {
+		if s := d.SeasonalForward(h); s != nil {
+			t.Errorf("h = %d: %v, want nil", h, s)
+		}
+	}
+	if s := d.SeasonalForward(13); len(s) != 13 || s[12] != s[0] || s[0] != d.Seasonal[len(d.Seasonal)-12] {
+		t.Errorf("h = 13: %v does not continue the last cycle", s)
 	}
 }
 

@@ -124,8 +124,12 @@ func (f *ForecasterFit) NumParams() int {
 
 // SeasonalForward returns the seasonal part for steps 1..h after the
 // series: each seasonal component continued as its last cycle, summed
-// (multiplied for a multiplicative decomposition).
+// (multiplied for a multiplicative decomposition). It returns nil for
+// h < 1.
 func (d *Decomposition) SeasonalForward(h int) []float64 {
+	if h < 1 {
+		return nil
+	}
 	n := len(d.Seasonal)
 	out := make([]float64, h)
 	for k := range out {

@@ -84,7 +84,10 @@ func (m MSTL) Decompose(y almanac.Series) (*Decomposition, error) {
 		if math.IsNaN(p) || math.IsInf(p, 0) || math.Round(p) < 2 {
 			return nil, fmt.Errorf("decompose: mstl: %w: period %v", ErrPeriod, p)
 		}
-		periods = append(periods, int(math.Round(p)))
+		// A period beyond maxParam has no two full cycles in any series
+		// and is left out below; bounding it keeps the conversion to int
+		// (and 2·period) from wrapping around.
+		periods = append(periods, int(math.Min(math.Round(p), maxParam)))
 	}
 	slices.Sort(periods)
 	periods = slices.Compact(periods)
@@ -106,7 +109,7 @@ func (m MSTL) Decompose(y almanac.Series) (*Decomposition, error) {
 		used = append(used, p)
 	}
 	if len(used) == 0 {
-		return nil, fmt.Errorf("decompose: mstl: %w: %d observations, no period in %v has more than two full cycles", almanac.ErrTooShort, n, periods)
+		return nil, fmt.Errorf("decompose: mstl: %w: %d observations, no period in %v has more than two full cycles", almanac.ErrTooShort, n, raw)
 	}
 	iters := m.Iterations
 	if iters == 0 {

@@ -157,8 +157,8 @@ func (r Repair) fill(y almanac.Series, gap []bool) (almanac.Series, error) {
 	if period < 2 {
 		return out, nil
 	}
-	if n <= 2*period {
-		return almanac.Series{}, fmt.Errorf("decompose: repair: %w: %d observations, a seasonal fill with period %d needs more than %d (Period: 1 fills linearly)", almanac.ErrTooShort, n, period, 2*period)
+	if period >= n-period { // n ≤ 2·period, written so that it cannot overflow
+		return almanac.Series{}, fmt.Errorf("decompose: repair: %w: %d observations, a seasonal fill with period %d needs more than two full cycles (Period: 1 fills linearly)", almanac.ErrTooShort, n, period)
 	}
 	passes := r.Passes
 	if passes == 0 {

@@ -109,6 +109,8 @@ func TestRepairBadInput(t *testing.T) {
 		{"too short for the season", decompose.Repair{}, short, almanac.ErrTooShort},
 		{"negative period", decompose.Repair{Period: -2, Disrupted: []int{4}}, y, decompose.ErrPeriod},
 		{"negative passes", decompose.Repair{Passes: -1, Disrupted: []int{4}}, y, decompose.ErrWindow},
+		{"huge period", decompose.Repair{Period: math.MaxInt, Disrupted: []int{4}}, y, almanac.ErrTooShort},
+		{"huge seasonal window", decompose.Repair{SeasonalWindow: math.MaxInt, Disrupted: []int{4}}, y, decompose.ErrWindow},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			if _, _, err := c.r.Fill(c.y); !errors.Is(err, c.want) {

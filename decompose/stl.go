@@ -2,6 +2,7 @@ package decompose
 
 import (
 	"fmt"
+	"math"
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/internal/stl"
@@ -59,7 +60,9 @@ const DefaultSeasonalWindow = 11
 // Spans (windows) are in observations (trend, low-pass) or in cycles
 // (seasonal). A span below 3 is raised to 3 and an even span to the next
 // odd number, as the authors' Fortran does; the spans actually used are
-// reported in Decomposition.Settings. Negative values are rejected.
+// reported in Decomposition.Settings. Negative values, and spans, jumps
+// and iteration counts above math.MaxInt32 (R's stl takes 32-bit
+// integers), are rejected.
 //
 // Example:
 //
@@ -116,6 +119,13 @@ type STL struct {
 
 var _ Method = STL{}
 
+// maxParam bounds the integer options of STL (spans, jumps, iteration
+// counts; a larger period is simply too long for any series): R's stl hands them to the authors' Fortran as 32-bit
+// integers, so nothing larger has a reference meaning, and bounding them
+// keeps the span arithmetic of the kernel (nextodd, ceiling(w/10), w+1)
+// far from int overflow.
+const maxParam = math.MaxInt32
+
 // params resolves the specification for n observations of a series whose
 // frequency gives period fp.
 func (s STL) params(n, fp int) (stl.Params, STL, error) {
@@ -130,6 +140,9 @@ func (s STL) params(n, fp int) (stl.Params, STL, error) {
 		if v.v < 0 {
 			return stl.Params{}, s, fmt.Errorf("decompose: stl: %w: negative %s %d", ErrWindow, v.name, v.v)
 		}
+		if v.v > maxParam && v.name != "period" {
+			return stl.Params{}, s, fmt.Errorf("decompose: stl: %w: %s %d above %d", ErrWindow, v.name, v.v, maxParam)
+		}
 	}
 	period := s.Period
 	if period == 0 {
@@ -137,6 +150,9 @@ func (s STL) params(n, fp int) (stl.Params, STL, error) {
 	}
 	if period < 2 {
 		return stl.Params{}, s, fmt.Errorf("decompose: stl: %w: period %d (set STL.Period for a series without a seasonal frequency)", ErrPeriod, period)
+	}
+	if period >= n-period { // n ≤ 2·period, written so that it cannot overflow
+		return stl.Params{}, s, fmt.Errorf("decompose: stl: %w: %d observations, period %d needs more than two full cycles", almanac.ErrTooShort, n, period)
 	}
 	sw := s.SeasonalWindow
 	if sw == 0 {
@@ -213,8 +229,8 @@ func degreeOf(d int) Degree {
 // Special cases: a missing value gives an error wrapping
 // almanac.ErrMissing (fill gaps with Repair.Fill first); a period below 2
 // one wrapping ErrPeriod; n ≤ 2·period one wrapping almanac.ErrTooShort;
-// a negative window, jump or iteration count or an unknown Degree one
-// wrapping ErrWindow.
+// a negative window, jump or iteration count, a window, jump or count
+// above math.MaxInt32, or an unknown Degree one wrapping ErrWindow.
 func (s STL) Decompose(y almanac.Series) (*Decomposition, error) {
 	if err := checkComplete(y, "STL"); err != nil {
 		return nil, err
