@@ -599,6 +599,39 @@ func TestBadInput(t *testing.T) {
 	}
 }
 
+// TestSimulatedPathsAllLeave: with a relative error SD of 10 (σ² set to
+// 100 on a fitted ETS(M,M,N)), about half the simulated paths leave the
+// domain (a non-positive level) at every step, so by step 40 none of the
+// 5000 is left: levels give an error wrapping almanac.ErrNoDistribution
+// instead of NaN bounds, and the point forecasts stay available without
+// a distribution. At step 2 paths remain and the bounds are finite.
+func TestSimulatedPathsAllLeave(t *testing.T) {
+	fit, err := Spec{Error: MultiplicativeError, Trend: MultiplicativeTrend}.fit(ctx, airPassengers(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	fit.Sigma2 = 100
+	if _, err := fit.Forecast(40, 90); !errors.Is(err, almanac.ErrNoDistribution) {
+		t.Errorf("h=40, level 90: error %v, want one wrapping ErrNoDistribution", err)
+	}
+	fc, err := fit.Forecast(40)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fc.Dist != nil || len(fc.Mean) != 40 {
+		t.Errorf("h=40 without levels: Dist %v, %d means", fc.Dist, len(fc.Mean))
+	}
+	fc, err = fit.Forecast(2, 90)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for h := range 2 {
+		if lo, hi := fc.Intervals[0].Lower[h], fc.Intervals[0].Upper[h]; math.IsNaN(lo) || math.IsNaN(hi) || math.IsInf(lo, 0) || math.IsInf(hi, 0) {
+			t.Errorf("h=%d: bounds [%v, %v]", h+1, lo, hi)
+		}
+	}
+}
+
 // TestHoltWintersZeroSlope: R's multiplicative interval formula divides
 // by the final slope (see HoltWintersFit.Variance). On a constant series
 // that slope is 0, so the variance from step m on is not finite: asking

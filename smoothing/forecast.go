@@ -208,8 +208,13 @@ func (m *Fitted) Variance(H int) ([]float64, error) {
 // is the point forecast of the recursion with zero future errors (the
 // forecast mean for classes 1–3).
 //
+// Simulated paths that leave the model's domain (see Simulate) are left
+// out of the quantiles from the step where they leave it.
+//
 // Special cases: h < 1 wraps almanac.ErrHorizon; a level outside (0, 100)
-// wraps almanac.ErrLevel.
+// wraps almanac.ErrLevel; when every simulated path has left the domain
+// by step h the forecast has no distribution, and asking for levels
+// wraps almanac.ErrNoDistribution rather than giving NaN bounds.
 func (m *Fitted) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
 	if err := m.usable(); err != nil {
 		return almanac.Forecast{}, err
@@ -233,6 +238,20 @@ func (m *Fitted) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
 			return almanac.Forecast{}, err
 		}
 		dist = &almanac.Sample{Paths: paths}
+		// A path that leaves the domain stays NaN, so the last step has
+		// the fewest paths; with none left the bounds would be NaN.
+		alive := 0
+		for _, p := range paths {
+			if !math.IsNaN(p[h-1]) {
+				alive++
+			}
+		}
+		if alive == 0 {
+			if len(levels) > 0 {
+				return almanac.Forecast{}, fmt.Errorf("smoothing: %v: %w: every one of %d simulated paths leaves the model's domain (non-positive level or growth) by step %d", m, almanac.ErrNoDistribution, n, h)
+			}
+			dist = nil
+		}
 	} else {
 		v, err := m.Variance(h)
 		if err != nil {
@@ -344,7 +363,11 @@ func (m *Fitted) Simulate(h, n int, src rand.Source) ([][]float64, error) {
 				j = 0
 			}
 			path[t] = y
-			if math.IsNaN(y) || math.IsInf(y, 0) || (f.multiplicativeLevel() && !(l > 0)) || (f.trend.multiplicative() && !(b > 0)) {
+			if math.IsNaN(y) || math.IsInf(y, 0) {
+				path[t] = math.NaN()
+				dead = true
+			}
+			if (f.multiplicativeLevel() && !(l > 0)) || (f.trend.multiplicative() && !(b > 0)) {
 				dead = true
 			}
 		}
