@@ -193,8 +193,17 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 		}
 		if k > 0 {
 			obj := func(v []float64) float64 { return pr.mlObjective(v, true) }
-			x0, ok := pr.paramsFrom(coef, true)
-			if (!ok || obj(x0) >= badObjective) && method == CSSThenML {
+			// start returns the parameters of coef and the objective there
+			// (evaluated once: a likelihood is the costly step of a fit).
+			start := func() ([]float64, float64, bool) {
+				x0, ok := pr.paramsFrom(coef, true)
+				if !ok {
+					return nil, badObjective, false
+				}
+				return x0, obj(x0), true
+			}
+			x0, f0, ok := start()
+			if (!ok || f0 >= badObjective) && method == CSSThenML {
 				// The CSS estimate is no usable start: estimated ARMA
 				// coefficients start from zero instead.
 				for _, i := range pr.free {
@@ -202,12 +211,12 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 						coef[i] = 0
 					}
 				}
-				x0, ok = pr.paramsFrom(coef, true)
+				x0, f0, ok = start()
 			}
 			if !ok {
 				return nil, fmt.Errorf("arima: %w: %s: starting values not stationary", almanac.ErrNotFitted, lay.orders())
 			}
-			if obj(x0) >= badObjective {
+			if f0 >= badObjective {
 				return nil, fmt.Errorf("arima: %w: %s: likelihood not finite at the starting values", almanac.ErrNotFitted, lay.orders())
 			}
 			xs, _, conv, err := minimize(ctx, obj, x0, o)
