@@ -166,44 +166,40 @@ func checkLLFData(y []float64, lambda float64) error {
 }
 
 // boxCoxLLF evaluates the log-likelihood on data already checked.
-func boxCoxLLF(y []float64, lambda float64) float64 {
-	n, sumLog := 0, 0.0
-	for _, v := range y {
-		if !math.IsNaN(v) {
-			sumLog += math.Log(v)
-			n++
-		}
-	}
-	return llfFromLogs(y, true, n, sumLog, lambda)
-}
+func boxCoxLLF(y []float64, lambda float64) float64 { return llfFromLogs(y, true, lambda) }
 
 // llfFromLogs evaluates the log-likelihood from x, which holds the data
-// (isData) or their logarithms, skipping NaN; n and sumLog are the count
-// and the sum of the logs of the observed values. It does not allocate.
-// The variance of y^λ/λ = exp(λ log y)/λ is taken in two passes (mean,
-// then squared deviations) as numpy.var does.
-func llfFromLogs(x []float64, isData bool, n int, sumLog, lambda float64) float64 {
-	t := func(v float64) float64 {
-		l := v
+// (isData) or their logarithms, skipping NaN. It does not allocate. The
+// variance of y^λ/λ = exp(λ log y)/λ is taken in two passes (mean, then
+// squared deviations) as numpy.var does; the first pass also counts the
+// observed values and sums their logs.
+func llfFromLogs(x []float64, isData bool, lambda float64) float64 {
+	logOf := func(v float64) float64 {
 		if isData {
-			l = math.Log(v)
+			return math.Log(v)
 		}
+		return v
+	}
+	t := func(l float64) float64 {
 		if lambda == 0 {
 			return l
 		}
 		return math.Exp(lambda*l) / lambda
 	}
-	sum := 0.0
+	n, sumLog, sum := 0, 0.0, 0.0
 	for _, v := range x {
 		if !math.IsNaN(v) {
-			sum += t(v)
+			l := logOf(v)
+			sumLog += l
+			sum += t(l)
+			n++
 		}
 	}
 	mean := sum / float64(n)
 	ss := 0.0
 	for _, v := range x {
 		if !math.IsNaN(v) {
-			d := t(v) - mean
+			d := t(logOf(v)) - mean
 			ss += d * d
 		}
 	}
@@ -239,17 +235,13 @@ func LambdaML(y []float64, lower, upper float64) (float64, error) {
 	if err := checkLLFData(y, 1); err != nil {
 		return 0, err
 	}
-	// Take the logs once; each evaluation then needs one exp per value.
+	// Take the logs once; each evaluation then needs no log, two exp per
+	// value.
 	logs := make([]float64, len(y))
-	n, sumLog := 0, 0.0
 	for i, v := range y {
 		logs[i] = math.Log(v) // NaN stays NaN
-		if !math.IsNaN(v) {
-			sumLog += logs[i]
-			n++
-		}
 	}
-	lam, _ := brent.Minimize(func(l float64) float64 { return -llfFromLogs(logs, false, n, sumLog, l) }, lo, hi, lambdaTol, 500)
+	lam, _ := brent.Minimize(func(l float64) float64 { return -llfFromLogs(logs, false, l) }, lo, hi, lambdaTol, 500)
 	return lam, nil
 }
 

@@ -12,6 +12,6 @@ func GuerreroObjective(y []float64, period int) (func(float64) float64, error) {
 
 // MLObjective exposes the log-likelihood evaluated from precomputed logs,
 // the objective of LambdaML, for allocation tests.
-func MLObjective(logs []float64, n int, sumLog float64) func(float64) float64 {
-	return func(l float64) float64 { return llfFromLogs(logs, false, n, sumLog, l) }
+func MLObjective(logs []float64) func(float64) float64 {
+	return func(l float64) float64 { return llfFromLogs(logs, false, l) }
 }
