@@ -40,7 +40,9 @@ func newQuasiNewton(n int) *quasiNewton {
 	}
 }
 
-// grad writes the central-difference gradient of f at b into g.
+// grad writes the finite-difference gradient of f at b (value fb) into
+// g: forward differences when q.forward (the setting newQuasiNewton
+// makes), central ones otherwise.
 func (q *quasiNewton) grad(f func([]float64) float64, b []float64, fb float64, g []float64) {
 	copy(q.xp, b)
 	if q.forward {

@@ -306,8 +306,9 @@ func limit(v, def int) int {
 // Special cases:
 //   - an invalid series (empty, all missing, ±Inf) gives the error of
 //     almanac.Series.Validate; a constant series almanac.ErrConstant;
-//   - too few observations to choose d, or fewer than 4 (3 when no
-//     constant is considered) left after differencing, give
+//   - too few observations to choose d, or fewer than 3 left after
+//     differencing (plus one for a constant when one is considered and
+//     one per regressor), give
 //     almanac.ErrTooShort; a series with no more than two full periods of
 //     observed values is searched without seasonal terms;
 //   - a negative MaxTerms or Period, an unknown Criterion or Likelihood, or a D
