@@ -74,7 +74,10 @@ func (m Naive2) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, erro
 	}
 	f := &Naive2Fit{y: y.Clone(), period: p}
 	v := f.y.Values
-	f.seasonal = p > 1 && seasonal.IsSeasonal(v, p, 1.645)
+	// The test needs n ≥ 3m; checked here as m ≤ n/3 so that a huge
+	// Period cannot overflow 3m (and reach an autocorrelation of that
+	// lag).
+	f.seasonal = p > 1 && p <= n/3 && seasonal.IsSeasonal(v, p, 1.645)
 	adj := make([]float64, n)
 	idx := func(t int) float64 { return 1 }
 	if f.seasonal {
@@ -140,10 +143,10 @@ func (f *Naive2Fit) Residuals() []float64 { return append([]float64(nil), f.resi
 // almanac.ErrHorizon, a level outside (0, 100) almanac.ErrLevel.
 func (f *Naive2Fit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
 	if err := almanac.CheckHorizon(h); err != nil {
-		return almanac.Forecast{}, err
+		return almanac.Forecast{}, fmt.Errorf("accuracy: naive2: %w", err)
 	}
 	if err := almanac.CheckLevels(levels...); err != nil {
-		return almanac.Forecast{}, err
+		return almanac.Forecast{}, fmt.Errorf("accuracy: naive2: %w", err)
 	}
 	n := f.y.Len()
 	mean := make([]float64, h)
@@ -156,7 +159,11 @@ func (f *Naive2Fit) Forecast(h int, levels ...float64) (almanac.Forecast, error)
 		mean[j] = f.last * s
 		sd[j] = f.sigma * math.Sqrt(float64(j+1)) * s
 	}
-	return almanac.NewForecast(f.y.Time(n), f.y.Freq, mean, &almanac.Normal{Mean: mean, SD: sd}, levels...)
+	fc, err := almanac.NewForecast(f.y.Time(n), f.y.Freq, mean, &almanac.Normal{Mean: mean, SD: sd}, levels...)
+	if err != nil {
+		return almanac.Forecast{}, fmt.Errorf("accuracy: naive2: %w", err)
+	}
+	return fc, nil
 }
 
 // OWA returns the overall weighted average of the M4 competition,

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"strings"
 	"testing"
 	"time"
 
@@ -145,8 +146,22 @@ func TestNaive2Errors(t *testing.T) {
 		})
 	}
 	fit, _ := accuracy.Naive2{}.Fit(context.Background(), air)
-	if _, err := fit.Forecast(0); !errors.Is(err, almanac.ErrHorizon) {
+	if _, err := fit.Forecast(0); !errors.Is(err, almanac.ErrHorizon) || !strings.HasPrefix(err.Error(), "accuracy: ") {
 		t.Errorf("h = 0: %v", err)
+	}
+	if _, err := fit.Forecast(3, 100); !errors.Is(err, almanac.ErrLevel) || !strings.HasPrefix(err.Error(), "accuracy: ") {
+		t.Errorf("level 100: %v", err)
+	}
+	// A period too long for the seasonality test (n < 3m) gives the
+	// naive method; a huge one once overflowed 3m and panicked.
+	for _, p := range []int{49, math.MaxInt/3 + 1, math.MaxInt} {
+		fit, err := accuracy.Naive2{Period: p}.Fit(context.Background(), air)
+		if err != nil {
+			t.Fatalf("period %d: %v", p, err)
+		}
+		if fit.(*accuracy.Naive2Fit).Seasonal() {
+			t.Errorf("period %d: seasonal with %d observations", p, air.Len())
+		}
 	}
 }
 
