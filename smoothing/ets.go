@@ -30,18 +30,6 @@ func (f form) String() string {
 	return Spec{Error: f.err, Trend: f.trend, Season: f.season}.String()
 }
 
-// nStates is the length of the state vector (level, trend, m seasonals).
-func (f form) nStates() int {
-	k := 1
-	if f.trend != NoTrend {
-		k++
-	}
-	if f.season != NoSeason {
-		k += f.m
-	}
-	return k
-}
-
 // trace holds optional outputs of one pass of the filter. Nil slices are
 // skipped. level[t], trend[t] are the states after observation t;
 // season[t] the seasonal state written at observation t.

@@ -8,6 +8,18 @@ import (
 	"github.com/almanac-go/almanac/internal/numtest"
 )
 
+// sesSSE returns the sum of squared one-step errors of SES on y started
+// from level l0 (the plain recursion, for the checks below).
+func sesSSE(y []float64, alpha, l0 float64) float64 {
+	level, sse := l0, 0.0
+	for _, v := range y {
+		e := v - level
+		sse += e * e
+		level += alpha * e
+	}
+	return sse
+}
+
 // nistSingle is the single-exponential-smoothing data of the NIST/SEMATECH
 // e-Handbook of Statistical Methods, section 6.4.3.1–2 (printed; as
 // transcribed in /work/shared/reference/published.md).

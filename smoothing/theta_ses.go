@@ -63,18 +63,6 @@ func sesProfile(y []float64, alpha float64) (l0, sse float64) {
 	return l0 + shift, sse
 }
 
-// sesSSE returns the sum of squared one-step errors of SES on y started
-// from level l0.
-func sesSSE(y []float64, alpha, l0 float64) float64 {
-	level, sse := l0, 0.0
-	for _, v := range y {
-		e := v - level
-		sse += e * e
-		level += alpha * e
-	}
-	return sse
-}
-
 // sesFilterTo runs SES on y from level l0 and writes the level before
 // each observation into dst (dst[t] = ℓ_t, the one-step forecast of
 // y[t], for t = 0..n−1) and returns the final level ℓ_n. dst must have
