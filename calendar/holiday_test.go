@@ -289,6 +289,9 @@ func TestCalendarErrors(t *testing.T) {
 	}{
 		{"no name", calendar.Calendar{Holidays: []calendar.Holiday{{Rule: ok}}}},
 		{"no rule", calendar.Calendar{Holidays: []calendar.Holiday{{Name: "a"}}}},
+		// A typed nil pointer used to panic in Validate (nil dereference).
+		{"nil fixed-date pointer", calendar.Calendar{Holidays: []calendar.Holiday{{Name: "a", Rule: (*calendar.FixedDate)(nil)}}}},
+		{"nil Easter pointer", calendar.Calendar{Holidays: []calendar.Holiday{{Name: "a", Rule: (*calendar.EasterOffset)(nil)}}}},
 		{"weekend day 8", calendar.Calendar{Weekend: []time.Weekday{8}}},
 	}
 	for _, tt := range tests {

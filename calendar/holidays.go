@@ -35,14 +35,15 @@ type Occurrence struct {
 }
 
 // Validate returns an error wrapping ErrRule for a holiday without a
-// name or rule, an invalid rule (or ErrSpan for an empty span), or a
+// name or rule (a nil pointer to a FixedDate, NthWeekday, EasterOffset or
+// Span counts as none), an invalid rule (or ErrSpan for an empty span), or a
 // weekend day outside Sunday..Saturday.
 func (c Calendar) Validate() error {
 	for i, h := range c.Holidays {
 		if h.Name == "" {
 			return fmt.Errorf("calendar: %w: holiday %d has no name", ErrRule, i)
 		}
-		if h.Rule == nil {
+		if h.Rule == nil || isNilRule(h.Rule) {
 			return fmt.Errorf("calendar: %w: holiday %q has no rule", ErrRule, h.Name)
 		}
 		if err := h.Rule.Validate(); err != nil {
@@ -55,6 +56,22 @@ func (c Calendar) Validate() error {
 		}
 	}
 	return nil
+}
+
+// isNilRule reports a nil pointer to one of this package's rules held in
+// a non-nil Rule (its value methods would dereference it).
+func isNilRule(r Rule) bool {
+	switch p := r.(type) {
+	case *FixedDate:
+		return p == nil
+	case *NthWeekday:
+		return p == nil
+	case *EasterOffset:
+		return p == nil
+	case *Span:
+		return p == nil
+	}
+	return false
 }
 
 // checkYears returns an error wrapping ErrYear when the range starting on
