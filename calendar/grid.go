@@ -2,6 +2,7 @@ package calendar
 
 import (
 	"fmt"
+	"math"
 	"sort"
 	"time"
 )
@@ -67,8 +68,8 @@ func (g Grid) Len() int { return g.N + g.H }
 func (g Grid) Time(i int) time.Time { return g.Freq.Add(g.Start, i) }
 
 // Validate returns an error wrapping ErrFrequency for an invalid
-// frequency and one wrapping ErrGrid for N < 0, H < 0 or an unknown
-// Stamp.
+// frequency and one wrapping ErrGrid for N < 0, H < 0, an N + H that
+// overflows int, or an unknown Stamp.
 func (g Grid) Validate() error {
 	if err := g.Freq.Validate(); err != nil {
 		return err
@@ -78,6 +79,9 @@ func (g Grid) Validate() error {
 	}
 	if g.N < 0 || g.H < 0 {
 		return fmt.Errorf("calendar: %w: N %d, H %d (need ≥ 0)", ErrGrid, g.N, g.H)
+	}
+	if g.N > math.MaxInt-g.H {
+		return fmt.Errorf("calendar: %w: N %d + H %d overflows", ErrGrid, g.N, g.H)
 	}
 	return nil
 }

@@ -308,6 +308,8 @@ func TestGridErrors(t *testing.T) {
 		{"negative n", calendar.Grid{Start: jan(1), Freq: calendar.Daily, N: -1}, calendar.ErrGrid},
 		{"negative h", calendar.Grid{Start: jan(1), Freq: calendar.Daily, N: 3, H: -2}, calendar.ErrGrid},
 		{"unknown stamp", calendar.Grid{Start: jan(1), Freq: calendar.Daily, N: 3, Stamp: 5}, calendar.ErrGrid},
+		// N + H wrapped to a negative length and panicked in make.
+		{"length overflows", calendar.Grid{Start: jan(1), Freq: calendar.Daily, N: math.MaxInt, H: 1}, calendar.ErrGrid},
 	}
 	for _, tt := range bad {
 		t.Run(tt.name, func(t *testing.T) {
