@@ -196,3 +196,41 @@ func ExampleBacktest_RunBatch() {
 	// seasonal naive  sMAPE 4.155  MASE 1.032  OWA 1.730
 	// naive2          sMAPE 2.406  MASE 0.595  OWA 1.000
 }
+
+// Naive2, the seasonally adjusted naive benchmark, on the invented
+// bus-pass series, and the OWA of a forecast against it.
+func ExampleNaive2() {
+	y := citySeries()
+	train, test, err := y.Split(12) // hold out the last year
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fit, err := accuracy.Naive2{}.Fit(context.Background(), train)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fc, err := fit.Forecast(12, 80)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("%s: first forecasts %.3f %.3f %.3f\n", fit, fc.Mean[0], fc.Mean[1], fc.Mean[2])
+
+	sn, err := almanac.SeasonalNaive{}.Fit(context.Background(), train)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	other, _ := sn.Forecast(12)
+	smape2, _ := accuracy.SMAPE(test.Values, fc.Mean)
+	mase2, _ := accuracy.MASE(test.Values, fc.Mean, train.Values, 12)
+	smape, _ := accuracy.SMAPE(test.Values, other.Mean)
+	mase, _ := accuracy.MASE(test.Values, other.Mean, train.Values, 12)
+	owa, _ := accuracy.OWA(smape, mase, smape2, mase2)
+	fmt.Printf("seasonal naive OWA against Naive2: %.3f\n", owa)
+	// Output:
+	// Naive2[12]: first forecasts 511.859 499.021 514.762
+	// seasonal naive OWA against Naive2: 2.236
+}
