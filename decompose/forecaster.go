@@ -206,6 +206,8 @@ type seasonalDist struct {
 	mul  bool
 }
 
+// Quantile returns the inner quantile at step h moved by the seasonal
+// part of that step.
 func (d *seasonalDist) Quantile(h int, p float64) float64 {
 	q := d.base.Quantile(h, p)
 	if d.mul {

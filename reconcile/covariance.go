@@ -32,6 +32,8 @@ const (
 
 var covNames = [...]string{"auto", "shrinkage", "sample", "diagonal"}
 
+// String returns "auto", "shrinkage", "sample" or "diagonal", or
+// "Covariance(n)" for other values.
 func (k Covariance) String() string {
 	if k >= 0 && int(k) < len(covNames) {
 		return covNames[k]

@@ -45,6 +45,8 @@ const (
 
 var methodNames = [...]string{"auto", "bottom-up", "top-down", "middle-out", "OLS", "WLS (structural)", "WLS (variance)", "MinT (sample)", "MinT (shrinkage)"}
 
+// String returns the method's name as used in messages ("bottom-up",
+// "OLS", "MinT (shrinkage)", ...), or "Method(n)" for other values.
 func (m Method) String() string {
 	if m >= 0 && int(m) < len(methodNames) {
 		return methodNames[m]

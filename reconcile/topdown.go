@@ -30,6 +30,9 @@ const (
 
 var disaggNames = [...]string{"auto", "forecast proportions", "average historical proportions", "proportions of historical averages"}
 
+// String returns "auto", "forecast proportions", "average historical
+// proportions" or "proportions of historical averages", or
+// "Disaggregation(n)" for other values.
 func (d Disaggregation) String() string {
 	if d >= 0 && int(d) < len(disaggNames) {
 		return disaggNames[d]
