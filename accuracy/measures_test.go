@@ -39,6 +39,8 @@ func TestPointMeasures(t *testing.T) {
 		{"sMAPE one zero", accuracy.SMAPE, []float64{0, 2}, []float64{1, 2}, 100, nil, "2·1/(0+1) = 2 and 0; 100·mean = 100"},
 		{"sMAPE both zero", accuracy.SMAPE, []float64{0, 2}, []float64{0, 2}, nan, accuracy.ErrUndefined, "0/0 is undefined, not 0"},
 		{"sMAPE worst", accuracy.SMAPE, []float64{5}, []float64{-5}, 200, nil, "2·10/10 = 2 → 200, the upper limit"},
+		{"sMAPE near the float64 limit", accuracy.SMAPE, []float64{1e308}, []float64{-1e308}, 200, nil, "2·2e308/2e308 = 2 → 200; the difference and sum overflow unless scaled (they once gave a silent NaN)"},
+		{"sMAPE large, same sign", accuracy.SMAPE, []float64{1.5e308}, []float64{1e308}, 40, nil, "2·0.5/2.5 = 0.4 → 40; the sum overflows unless scaled"},
 		{"MdAE odd", accuracy.MdAE, []float64{1, 2, 9}, []float64{0, 0, 0}, 2, nil, "|e| 1, 2, 9; middle 2"},
 		{"MdAE even", accuracy.MdAE, []float64{1, 2, 3, 4}, []float64{0, 0, 0, 0}, 2.5, nil, "middle two 2 and 3; mean 2.5"},
 		{"MdAE ties", accuracy.MdAE, []float64{1, 1, 1, 5}, []float64{0, 0, 0, 0}, 1, nil, "sorted 1, 1, 1, 5; middle two both 1"},

@@ -160,13 +160,31 @@ func SMAPE(actual, forecast []float64) (float64, error) {
 		if !observed(a, f) {
 			continue
 		}
-		d := math.Abs(a) + math.Abs(f)
-		if d == 0 {
+		v, ok := symTerm(a, f)
+		if !ok {
 			return math.NaN(), fmt.Errorf("accuracy: sMAPE: %w: actual and forecast both 0 at index %d", ErrUndefined, i)
 		}
-		s += 2 * math.Abs(a-f) / d
+		s += v
 	}
 	return 100 * s / float64(n), nil
+}
+
+// symTerm is one sMAPE term, 2|a − f| / (|a| + |f|) in [0, 2], and false
+// when a and f are both 0. Finite values near the float64 limit, whose
+// difference or sum would overflow to Inf (and the ratio to NaN), are
+// first divided by max(|a|, |f|).
+func symTerm(a, f float64) (float64, bool) {
+	d := math.Abs(a) + math.Abs(f)
+	if d == 0 {
+		return 0, false
+	}
+	e := math.Abs(a - f)
+	if math.IsInf(d, 0) || math.IsInf(e, 0) {
+		sc := math.Max(math.Abs(a), math.Abs(f))
+		a, f = a/sc, f/sc
+		d, e = math.Abs(a)+math.Abs(f), math.Abs(a-f)
+	}
+	return 2 * e / d, true
 }
 
 // MdAE returns the median absolute error. With an even number of pairs it

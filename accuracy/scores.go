@@ -117,10 +117,10 @@ func (c *cells) summarize(idx []int) Scores {
 		} else {
 			sumPct += ae / math.Abs(a)
 		}
-		if d := math.Abs(a) + math.Abs(f); d == 0 {
-			smapeOK = false
+		if v, ok := symTerm(a, f); ok {
+			sumSym += v
 		} else {
-			sumSym += 2 * ae / d
+			smapeOK = false
 		}
 		if sc, sq := c.scale[i], c.scaleSq[i]; sc > 0 && sq > 0 {
 			sumScaled += ae / sc
