@@ -44,8 +44,28 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 		}
 		x = append(x, col)
 	}
+	// Each regressor column is divided by a power of two near its largest
+	// |value| (exact), so that the regression part of the problem does not
+	// depend on the columns' units: with a mean and a regressor of
+	// magnitude 1e10 the least-squares start and the rotated parameters
+	// were so ill-conditioned that the optimiser stopped at a visibly
+	// lower likelihood. colScale holds the divisor of each regression
+	// coefficient's column (1 for mean and drift); fitted coefficients are
+	// divided by it at the end. f.x keeps the columns as given.
+	xGiven := append([][]float64(nil), x...)
+	colScale := make([]float64, lay.nreg())
+	for j := range colScale {
+		colScale[j] = 1
+	}
 	for _, r := range s.Regressors {
-		x = append(x, append([]float64(nil), r.Values...))
+		col := append([]float64(nil), r.Values...)
+		xGiven = append(xGiven, r.Values)
+		sj := columnScale(col)
+		for i := range col {
+			col[i] /= sj
+		}
+		colScale[len(x)] = sj
+		x = append(x, col)
 	}
 	// Work on y/c with c a power of two near the largest |y| (exact in
 	// floating point), so that neither tiny nor huge data overflow the
@@ -64,7 +84,7 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 	fixed := make(map[string]float64, len(s.Fixed))
 	for name, v := range s.Fixed {
 		if i := lay.index(name); i >= lay.narma() {
-			v /= c
+			v = v / c * colScale[i-lay.narma()]
 		}
 		fixed[name] = v
 	}
@@ -132,7 +152,7 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 
 	f := &Fitted{spec: s, lay: lay, key: y.Key, start: y.Start, freq: y.Freq, n: n, method: method, nUsed: pr.nUsed}
 	f.y = y.Slice()
-	f.x = x
+	f.x = xGiven
 	coef := start
 	var covFn func() *mat.SymDense // the Hessian is computed on first use
 	converged := true
@@ -275,8 +295,24 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 	if method == CSS {
 		f.ncond = pr.ncond
 	}
-	f.rescale(c, na)
+	f.rescale(c, na, colScale)
 	return f, nil
+}
+
+// columnScale returns the power of two 2^(e−1) with the largest |v| in
+// [2^(e−1), 2^e), so that v divided by it has its largest |value| in
+// [1, 2) (1 for an all-zero column, and for one whose largest |value|
+// is in [1, 2) already, such as an indicator).
+func columnScale(v []float64) float64 {
+	m := 0.0
+	for _, x := range v {
+		m = math.Max(m, math.Abs(x))
+	}
+	if m == 0 || math.IsInf(m, 0) || math.IsNaN(m) {
+		return 1
+	}
+	_, e := math.Frexp(m)
+	return math.Ldexp(1, e-1)
 }
 
 // dataScale returns a power of two close to the largest |v| (1 when all
@@ -296,24 +332,26 @@ func dataScale(v []float64) float64 {
 	return math.Ldexp(1, e)
 }
 
-// rescale turns a fit of y/c into the fit of y: regression coefficients
-// (and their standard errors), residuals and the filtered state scale
-// with c, σ² with c², and the log-likelihood gains −n log c (the density
-// of y is that of y/c divided by c per observation).
-func (f *Fitted) rescale(c float64, na int) {
+// rescale turns a fit of y/c on regression columns divided by colScale
+// into the fit of y on the columns as given: regression coefficients (and
+// their standard errors) scale with c/colScale, residuals and the
+// filtered state with c, σ² with c², and the log-likelihood gains
+// −n log c (the density of y is that of y/c divided by c per
+// observation).
+func (f *Fitted) rescale(c float64, na int, colScale []float64) {
 	f.covScale = make([]float64, len(f.free))
 	for a, i := range f.free {
 		f.covScale[a] = 1
 		if i >= na {
-			f.covScale[a] = c
+			f.covScale[a] = c / colScale[i-na]
 		}
+	}
+	for i := na; i < len(f.coef); i++ {
+		f.coef[i] = f.coef[i] / colScale[i-na] * c
 	}
 	f.sigma = math.Sqrt(f.sigma2) * c
 	if c == 1 {
 		return
-	}
-	for i := na; i < len(f.coef); i++ {
-		f.coef[i] *= c
 	}
 	for i := range f.resid {
 		f.resid[i] *= c

@@ -490,12 +490,19 @@ func regressionResiduals(y []float64, regs []Regressor) ([]float64, error) {
 	if len(rows) <= k {
 		return nil, fmt.Errorf("arima: search: %w: %d observed values for a constant and %d regressors", almanac.ErrTooShort, len(rows), len(regs))
 	}
+	// Columns divided by a power of two near their largest |value|
+	// (exact; the residuals do not change), so that the conditioning test
+	// below judges collinearity, not units.
+	sc := make([]float64, len(regs))
+	for j, r := range regs {
+		sc[j] = columnScale(r.Values)
+	}
 	x := mat.NewDense(len(rows), k, nil)
 	yv := mat.NewVecDense(len(rows), nil)
 	for i, t := range rows {
 		x.Set(i, 0, 1)
 		for j, r := range regs {
-			x.Set(i, j+1, r.Values[t])
+			x.Set(i, j+1, r.Values[t]/sc[j])
 		}
 		yv.SetVec(i, y[t])
 	}
