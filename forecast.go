@@ -126,8 +126,8 @@ func CheckHorizon(h int) error {
 // ErrLevel; levels with a nil dist one wrapping ErrNoDistribution; a
 // Normal, Sample or Mapped dist that covers fewer steps than mean (a
 // shorter Mean or SD, a shorter path) one wrapping ErrLength, and a nil
-// *Normal or *Sample, or a Mapped without Base or Map, one wrapping
-// ErrInvalid.
+// *Normal or *Sample, a Sample without paths, or a Mapped without Base or
+// Map, one wrapping ErrInvalid.
 func NewForecast(start time.Time, freq calendar.Frequency, mean []float64, dist Distribution, levels ...float64) (Forecast, error) {
 	if err := CheckLevels(levels...); err != nil {
 		return Forecast{}, err
@@ -188,6 +188,9 @@ func checkDistribution(dist Distribution, h int) error {
 	case *Sample:
 		if d == nil {
 			return fmt.Errorf("almanac: %w: nil *Sample distribution", ErrInvalid)
+		}
+		if len(d.Paths) == 0 && h > 0 {
+			return fmt.Errorf("almanac: %w: sample distribution without paths", ErrInvalid)
 		}
 		for i, p := range d.Paths {
 			if len(p) < h {
