@@ -115,7 +115,10 @@
 // forecast alike (forecasts of c·y are c times those of y; the test covers
 // c = 1e-200 and 3e250). Values of magnitude 2^1023 (about 9e307) or more
 // are rejected (almanac.ErrNonFinite): sums of a few of them, as in the
-// differencing, overflow.
+// differencing, overflow. Each regressor column is likewise divided by a
+// power of two near its largest |value|, so that the fit does not depend
+// on the regressors' units (TestRegressorUnits: units from 1e-100 to
+// 1e100 give the same log-likelihood, and coefficients in proportion).
 //
 // Regressors whose columns are linearly dependent after the model's
 // differencing are rejected (ErrCollinear) with their names.
