@@ -51,8 +51,11 @@
 // would divide by zero: MAPE with an actual value of 0, SMAPE with an
 // actual value and forecast both 0, MASE, RMSSE and MSIS with a constant
 // in-sample part, TrackingSignal with all errors 0, Relative with a
-// perfect benchmark. Summary tables (Scores) hold NaN for such a measure
-// and keep the others.
+// perfect benchmark. Finite data so close to the float64 limit that the
+// result overflows to NaN (errors of +Inf and −Inf summed, Inf/Inf) give
+// an error wrapping almanac.ErrNonFinite; sMAPE terms are scaled so that
+// they never overflow. Summary tables (Scores) hold NaN for such a
+// measure and keep the others.
 //
 // # Numerical notes
 //

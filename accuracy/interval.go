@@ -125,7 +125,7 @@ func MSIS(actual, lower, upper []float64, level float64, insample []float64, m i
 	if scale == 0 {
 		return math.NaN(), fmt.Errorf("accuracy: MSIS: %w: the in-sample lag-%d differences are all 0", ErrUndefined, m)
 	}
-	return is / scale, nil
+	return defined("MSIS", is/scale)
 }
 
 // pinball is the quantile loss of one observation at probability tau.
@@ -169,6 +169,12 @@ func crpsNormal(y, mu, sd float64) float64 {
 		return math.Abs(y - mu)
 	}
 	z := (y - mu) / sd
+	if math.IsInf(z, 0) {
+		// sd so small against y − mu that z overflows: the CRPS is
+		// |y − mu| − sd/√π·(1 − o(1)), which rounds to |y − mu| (and
+		// sd·Inf would give Inf).
+		return math.Abs(y - mu)
+	}
 	return sd * (z*(2*distuv.UnitNormal.CDF(z)-1) + 2*distuv.UnitNormal.Prob(z) - invSqrtPi)
 }
 
@@ -265,5 +271,5 @@ func CRPSSample(actual []float64, paths [][]float64) (float64, error) {
 	if n == 0 {
 		return math.NaN(), fmt.Errorf("accuracy: CRPS: %w: every actual value is missing", almanac.ErrAllMissing)
 	}
-	return s / float64(n), nil
+	return defined("CRPS", s/float64(n))
 }

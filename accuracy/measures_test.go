@@ -54,6 +54,12 @@ func TestPointMeasures(t *testing.T) {
 		{"RMSSE", rmsse1, []float64{6, 4}, []float64{5, 5}, math.Sqrt(3.0 / 14), nil, "scale mean(4, 1, 9) = 14/3; MSE 1; √(3/14)"},
 		{"tracking signal", accuracy.TrackingSignal, []float64{3, 3, 3}, []float64{1, 2, 3}, 3, nil, "Σe = 3, MAE = 1"},
 		{"tracking signal perfect", accuracy.TrackingSignal, []float64{3, 3}, []float64{3, 3}, nan, accuracy.ErrUndefined, "0/0"},
+		// Finite data whose errors overflow: these once returned a silent
+		// NaN with no error.
+		{"ME overflow", accuracy.ME, []float64{1e308, -1e308}, []float64{-1e308, 1e308}, nan, almanac.ErrNonFinite, "errors +Inf and −Inf sum to NaN"},
+		{"tracking signal overflow", accuracy.TrackingSignal, []float64{1e308, 1e308}, []float64{-1e308, -1e308}, nan, almanac.ErrNonFinite, "Inf/Inf"},
+		{"MASE overflow", func(a, f []float64) (float64, error) { return accuracy.MASE(a, f, []float64{1e308, -1e308}, 1) }, []float64{1e308}, []float64{-1e308}, nan, almanac.ErrNonFinite, "MAE Inf over scale Inf"},
+		{"ME large but finite", accuracy.ME, []float64{1e308, -1e308}, []float64{0, 0}, 0, nil, "1e308 − 1e308 = 0, no overflow"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -241,6 +247,15 @@ func TestCRPSNormal(t *testing.T) {
 			t.Fatal(err)
 		}
 		numtest.Scalar(t, "crps", got, 2*(math.Sqrt2-1)/math.Sqrt(math.Pi), 0, 1e-15)
+	})
+	t.Run("sd too small for z", func(t *testing.T) {
+		// z = 2/1e-320 overflows; the CRPS tends to |y − mu| = 2 as sd → 0
+		// (sd·Inf once gave +Inf).
+		got, err := accuracy.CRPSNormal([]float64{3}, []float64{1}, []float64{1e-320})
+		if err != nil {
+			t.Fatal(err)
+		}
+		numtest.Scalar(t, "crps", got, 2, 0, 1e-15)
 	})
 	t.Run("zero sd", func(t *testing.T) {
 		// A point mass: the CRPS is the absolute error |7 − 4| = 3.

@@ -64,7 +64,17 @@ func ME(actual, forecast []float64) (float64, error) {
 			s += a - f
 		}
 	}
-	return s / float64(n), nil
+	return defined("ME", s/float64(n))
+}
+
+// defined passes v on, or, when finite inputs overflowed to a NaN result
+// (for example +Inf and −Inf errors summed, or Inf/Inf), returns an error
+// wrapping almanac.ErrNonFinite instead of a silent NaN.
+func defined(fn string, v float64) (float64, error) {
+	if math.IsNaN(v) {
+		return math.NaN(), fmt.Errorf("accuracy: %s: %w: the result overflows float64 (values near ±1.8e308)", fn, almanac.ErrNonFinite)
+	}
+	return v, nil
 }
 
 // MAE returns the mean absolute error, mean|actual − forecast|. Pairs with
@@ -271,7 +281,7 @@ func MASE(actual, forecast, insample []float64, m int) (float64, error) {
 	if scale == 0 {
 		return math.NaN(), fmt.Errorf("accuracy: MASE: %w: the in-sample lag-%d differences are all 0", ErrUndefined, m)
 	}
-	return mae / scale, nil
+	return defined("MASE", mae/scale)
 }
 
 // RMSSE returns the root mean squared scaled error of the M5 competition:
@@ -291,7 +301,7 @@ func RMSSE(actual, forecast, insample []float64, m int) (float64, error) {
 	if scale == 0 {
 		return math.NaN(), fmt.Errorf("accuracy: RMSSE: %w: the in-sample lag-%d differences are all 0", ErrUndefined, m)
 	}
-	return math.Sqrt(mse / scale), nil
+	return defined("RMSSE", math.Sqrt(mse/scale))
 }
 
 // TrackingSignal returns the cumulative error divided by the mean absolute
@@ -317,7 +327,7 @@ func TrackingSignal(actual, forecast []float64) (float64, error) {
 	if mad == 0 {
 		return math.NaN(), fmt.Errorf("accuracy: tracking signal: %w: every error is 0", ErrUndefined)
 	}
-	return sum / mad, nil
+	return defined("tracking signal", sum/mad)
 }
 
 // PointMeasure is the shape of the two-argument point measures (ME, MAE,
@@ -360,5 +370,5 @@ func Relative(measure PointMeasure, actual, forecast, benchmark []float64) (floa
 	if den == 0 {
 		return math.NaN(), fmt.Errorf("accuracy: relative: %w: the benchmark's measure is 0", ErrUndefined)
 	}
-	return num / den, nil
+	return defined("relative", num/den)
 }
