@@ -867,22 +867,21 @@ const unitRootMargin = 1.001
 // below 1.001 (for a seasonal polynomial in B^s, the corresponding roots
 // in B: |z| = |w|^(1/s)).
 func nearUnitRoot(f *Fitted) error {
-	var ar, ma, sar, sma []float64
 	// The estimates only: Coef would also compute the standard errors
-	// (a Hessian), which the screen does not need.
-	for i, name := range f.lay.names {
-		v := f.coef[i]
-		switch {
-		case coefOf(name, "sar"):
-			sar = append(sar, -v)
-		case coefOf(name, "sma"):
-			sma = append(sma, v)
-		case coefOf(name, "ar"):
-			ar = append(ar, -v)
-		case coefOf(name, "ma"):
-			ma = append(ma, v)
+	// (a Hessian), which the screen does not need. AR polynomials are
+	// 1 − φ₁z − …, MA ones 1 + θ₁z + ….
+	l := f.lay
+	neg := func(v []float64) []float64 {
+		out := make([]float64, len(v))
+		for i, x := range v {
+			out[i] = -x
 		}
+		return out
 	}
+	ar := neg(f.coef[l.arOff() : l.arOff()+l.p])
+	ma := f.coef[l.maOff() : l.maOff()+l.q]
+	sar := neg(f.coef[l.sarOff() : l.sarOff()+l.sp])
+	sma := f.coef[l.smaOff() : l.smaOff()+l.sq]
 	s := max(f.Period(), 1)
 	for _, b := range []struct {
 		name  string
@@ -895,21 +894,6 @@ func nearUnitRoot(f *Fitted) error {
 		}
 	}
 	return nil
-}
-
-// coefOf reports whether name is prefix followed by a lag number (so a
-// regressor called "market" is not taken for an MA coefficient).
-func coefOf(name, prefix string) bool {
-	rest, ok := strings.CutPrefix(name, prefix)
-	if !ok || rest == "" {
-		return false
-	}
-	for _, r := range rest {
-		if r < '0' || r > '9' {
-			return false
-		}
-	}
-	return true
 }
 
 // minRootModulus returns the smallest modulus of the roots of

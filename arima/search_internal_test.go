@@ -32,26 +32,6 @@ func TestMinRootModulus(t *testing.T) {
 	}
 }
 
-func TestCoefOf(t *testing.T) {
-	tests := []struct {
-		name, coef, prefix string
-		want               bool
-	}{
-		{"ma1", "ma1", "ma", true},
-		{"ma12", "ma12", "ma", true},
-		{"market is a regressor", "market", "ma", false},
-		{"ma alone", "ma", "ma", false},
-		{"sma1 is not ma", "sma1", "ma", false},
-	}
-	for _, tc := range tests {
-		t.Run(tc.name, func(t *testing.T) {
-			if got := coefOf(tc.coef, tc.prefix); got != tc.want {
-				t.Errorf("coefOf(%q, %q) = %v", tc.coef, tc.prefix, got)
-			}
-		})
-	}
-}
-
 // TestSearchStoppingRules checks the looser stopping rules a Search
 // ranks its candidates with (searchOpt, confirmMargin) on four R datasets
 // (the inputs of the reference fixtures), stepwise and exhaustive: the
