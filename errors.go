@@ -53,6 +53,8 @@ type SeriesError struct {
 	Err   error  // sentinel, e.g. ErrNonFinite
 }
 
+// Error returns "almanac: series KEY: MESSAGE", with " at index I" when
+// the error is about one observation.
 func (e *SeriesError) Error() string {
 	key := e.Key
 	if key == "" {
@@ -64,6 +66,7 @@ func (e *SeriesError) Error() string {
 	return fmt.Sprintf("almanac: series %s: %v at index %d", key, e.Err, e.Index)
 }
 
+// Unwrap returns the sentinel, for errors.Is.
 func (e *SeriesError) Unwrap() error { return e.Err }
 
 // Errors of the CSV reader, carried inside a *CSVError that names the line
@@ -98,6 +101,8 @@ type CSVError struct {
 	Err    error
 }
 
+// Error returns "almanac: csv line L, column "C": MESSAGE", leaving out
+// the line or the column when not known.
 func (e *CSVError) Error() string {
 	switch {
 	case e.Line > 0 && e.Column != "":
@@ -108,4 +113,5 @@ func (e *CSVError) Error() string {
 	return fmt.Sprintf("almanac: csv: %v", e.Err)
 }
 
+// Unwrap returns the wrapped error, for errors.Is and errors.As.
 func (e *CSVError) Unwrap() error { return e.Err }
