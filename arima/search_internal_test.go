@@ -2,6 +2,7 @@ package arima
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"testing"
@@ -91,5 +92,36 @@ func TestSearchStoppingRules(t *testing.T) {
 				}
 			})
 		}
+	}
+}
+
+// TestNearUnitRoot checks the root screen of Search on fitted models
+// whose ARMA coefficients are fixed, so that the roots are known in
+// closed form (elementary algebra): 1 − φz has the root 1/φ, 1 + θz the
+// root −1/θ, and a seasonal factor 1 + Θz^s roots of modulus |Θ|^(−1/s).
+// The bar is 1.001 (Hyndman & Khandakar 2008).
+func TestNearUnitRoot(t *testing.T) {
+	_, lh := fixtureData(t, "lh_ar1")
+	tests := []struct {
+		name   string
+		spec   Spec
+		reject bool
+	}{
+		{"AR root 1.0005", Spec{P: 1, Fixed: map[string]float64{"ar1": 0.9995}}, true},
+		{"AR root 1.0101", Spec{P: 1, Fixed: map[string]float64{"ar1": 0.99}}, false},
+		{"MA root 1.0005", Spec{Q: 1, Fixed: map[string]float64{"ma1": -0.9995}}, true},
+		{"MA root 1.0101", Spec{Q: 1, Fixed: map[string]float64{"ma1": -0.99}}, false},
+		{"seasonal MA roots 1.00025", Spec{SQ: 1, Period: 4, Fixed: map[string]float64{"sma1": -0.999}}, true},
+		{"seasonal MA roots 1.0025", Spec{SQ: 1, Period: 4, Fixed: map[string]float64{"sma1": -0.99}}, false},
+		{"seasonal AR roots 1.00025", Spec{SP: 1, Period: 4, Fixed: map[string]float64{"sar1": 0.999}}, true},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			f := mustFit(t, tc.spec, lh)
+			err := nearUnitRoot(f)
+			if got := errors.Is(err, ErrNearUnitRoot); got != tc.reject {
+				t.Errorf("nearUnitRoot = %v, want rejection %v", err, tc.reject)
+			}
+		})
 	}
 }
