@@ -126,8 +126,8 @@ func CheckHorizon(h int) error {
 // ErrLevel; levels with a nil dist one wrapping ErrNoDistribution; a
 // Normal, Sample or Mapped dist that covers fewer steps than mean (a
 // shorter Mean or SD, a shorter path) one wrapping ErrLength, and a nil
-// *Normal or *Sample, a Sample without paths, or a Mapped without Base or
-// Map, one wrapping ErrInvalid.
+// *Normal or *Sample, a negative standard deviation, a Sample without
+// paths, or a Mapped without Base or Map, one wrapping ErrInvalid.
 func NewForecast(start time.Time, freq calendar.Frequency, mean []float64, dist Distribution, levels ...float64) (Forecast, error) {
 	if err := CheckLevels(levels...); err != nil {
 		return Forecast{}, err
@@ -184,6 +184,11 @@ func checkDistribution(dist Distribution, h int) error {
 		}
 		if len(d.Mean) < h || len(d.SD) < h {
 			return fmt.Errorf("almanac: %w: normal distribution with %d means and %d standard deviations for %d steps", ErrLength, len(d.Mean), len(d.SD), h)
+		}
+		for i, sd := range d.SD[:h] {
+			if sd < 0 {
+				return fmt.Errorf("almanac: %w: negative standard deviation %v at step %d", ErrInvalid, sd, i+1)
+			}
 		}
 	case *Sample:
 		if d == nil {

@@ -93,6 +93,11 @@ func TestForecastErrors(t *testing.T) {
 			_, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{1}, &almanac.Mapped{Base: &almanac.Normal{Mean: []float64{1}, SD: []float64{1}}}, 80)
 			return err
 		}(), almanac.ErrInvalid},
+		{"new forecast negative sd", func() error {
+			// Bounds would come out reversed (lower above upper).
+			_, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{1}, &almanac.Normal{Mean: []float64{1}, SD: []float64{-2}}, 80)
+			return err
+		}(), almanac.ErrInvalid},
 		{"new forecast sample without paths", func() error {
 			_, err := almanac.NewForecast(utc(2024, 1, 1), calendar.Monthly, []float64{1}, &almanac.Sample{}, 80)
 			return err
