@@ -291,8 +291,8 @@ func checkARIMAFixture(t *testing.T, f *reftest.Fixture) {
 	a, r = tol(t, f, "residuals")
 	numtest.Slice(t, "residuals", fit.Residuals(), f.Floats(t, "expect.residuals"), a, r)
 	fc := forecastOf(t, fit, h, future)
-	// The fixture allows 1e-3 (mean) and 1e-2 (se) relative; the
-	// assignment asks for 1e-4 relative for both, which is tighter and is
+	// The fixture allows 1e-3 (mean) and 1e-2 (se) relative; the package
+	// holds itself to 1e-4 relative for both, which is tighter and is
 	// what is checked.
 	a, r = tol(t, f, "forecast.mean")
 	numtest.Slice(t, "forecast.mean", fc.Mean, f.Floats(t, "expect.forecast.mean"), a, min(r, 1e-4))

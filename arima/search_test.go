@@ -247,7 +247,8 @@ func TestSearchConcurrentFits(t *testing.T) {
 // TestSearchScaleInvariance: forecasts of c·y are c times the forecasts of
 // y (DESIGN.md), with the same model chosen. The tolerance 1e-4 relative
 // allows for the optimiser stopping at slightly different points on the
-// two scales (the fixtures' own tolerance for estimated forecasts).
+// two scales (the tolerance the reference test applies to estimated
+// forecasts, tighter than the fixtures' 1e-3).
 func TestSearchScaleInvariance(t *testing.T) {
 	tests := []struct {
 		name string
