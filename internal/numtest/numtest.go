@@ -1,6 +1,3 @@
-// Package numtest holds the one floating-point comparison rule used by
-// almanac's tests: |got − want| ≤ abs + rel·|want|, with NaN equal to NaN
-// (both missing) and infinities equal only to themselves.
 package numtest
 
 import (

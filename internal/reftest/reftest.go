@@ -1,7 +1,3 @@
-// Package reftest loads the reference fixtures kept in each package's
-// testdata/reference/*.json (format: the shared reference README) and runs
-// one subtest per fixture, dispatched on its "kind". A fixture of a kind
-// with no handler fails; nothing is skipped silently.
 package reftest
 
 import (
