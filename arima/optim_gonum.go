@@ -11,7 +11,7 @@ import (
 // useGonum selects gonum's optimize.BFGS (the default) for every
 // minimisation, ML and CSS; false selects quasiNewton (optim.go), kept as
 // a cross-check: the reference fixtures are run with both
-// (TestReferenceQuasiNewton) and BenchmarkOptimizer compares them.
+// (TestReference) and BenchmarkOptimizer compares them.
 var useGonum = true
 
 // gonumMinimize minimises f from x0 with optimize.Minimize and

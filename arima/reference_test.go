@@ -22,11 +22,22 @@ var handlers = map[string]reftest.Handler{
 	"arima_css": checkARIMAFixture,
 }
 
-// TestReference runs every fixture in testdata/reference (copied
-// unchanged from the shared reference set) through its handler; a
-// fixture of an unknown kind fails.
+// TestReference, the package's one data-driven reference test, runs
+// every fixture in testdata/reference (copied unchanged from the shared
+// reference set) through its handler; a fixture of an unknown kind
+// fails. It runs them twice: with gonum's optimize.BFGS, the minimiser
+// fits use, and with the package's own quasi-Newton minimiser (optim.go,
+// useGonum false) as a cross-check, against the same R values and
+// tolerances: both must reach R's optimum.
 func TestReference(t *testing.T) {
-	reftest.Run(t, "testdata/reference", handlers)
+	t.Run("gonum BFGS", func(t *testing.T) {
+		reftest.Run(t, "testdata/reference", handlers)
+	})
+	t.Run("own quasi-Newton", func(t *testing.T) {
+		defer func(old bool) { useGonum = old }(useGonum)
+		useGonum = false
+		reftest.Run(t, "testdata/reference", handlers)
+	})
 }
 
 // fixtureSeries builds the series of a fixture from its input and its
@@ -298,14 +309,4 @@ func checkARIMAFixture(t *testing.T, f *reftest.Fixture) {
 	numtest.Slice(t, "forecast.mean", fc.Mean, f.Floats(t, "expect.forecast.mean"), a, min(r, 1e-4))
 	a, r = tol(t, f, "forecast.se")
 	numtest.Slice(t, "forecast.se", sdOf(fc), f.Floats(t, "expect.forecast.se"), a, min(r, 1e-4))
-}
-
-// TestReferenceQuasiNewton runs every fixture again with the package's
-// own quasi-Newton minimiser (optim.go) in place of gonum's optimize.BFGS
-// (useGonum false), against the same R values and tolerances: both must
-// reach R's optimum.
-func TestReferenceQuasiNewton(t *testing.T) {
-	defer func(old bool) { useGonum = old }(useGonum)
-	useGonum = false
-	reftest.Run(t, "testdata/reference", handlers)
 }
