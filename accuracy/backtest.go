@@ -292,7 +292,7 @@ func (b Backtest) layout(y almanac.Series) (*plan, error) {
 	count := (n-p.h-first)/step + 1
 	if b.Origins > 0 {
 		if b.Origins > count {
-			return nil, fmt.Errorf("accuracy: backtest: series %q: %w: %d origins of %d steps every %d from %d need %d observations, have %d", y.Key, almanac.ErrTooShort, b.Origins, p.h, step, first, first+(b.Origins-1)*step+p.h, n)
+			return nil, fmt.Errorf("accuracy: backtest: series %q: %w: %d observations hold at most %d origins of %d steps every %d from %d, not %d", y.Key, almanac.ErrTooShort, n, count, p.h, step, first, b.Origins)
 		}
 		count = b.Origins
 	}

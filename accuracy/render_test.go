@@ -33,8 +33,9 @@ func TestUndefinedIsNaNInScores(t *testing.T) {
 	if math.IsNaN(s.MAE) || math.IsNaN(s.SMAPE) || math.IsNaN(s.MASE) {
 		t.Errorf("defined measures lost: %+v", s)
 	}
-	// The step whose cells avoid the zero keeps its MAPE: origins 40..46,
-	// the zero (index 45) is step 1 at origin 45 and step 2 at origin 44.
+	// No step avoids the zero: the origins are 40..46 and the zero (index
+	// 45) is step 1 at origin 45 and step 2 at origin 44, so every step's
+	// MAPE is undefined too.
 	for h, st := range c.Runs[0].ByStep {
 		if !math.IsNaN(st.MAPE) {
 			t.Errorf("step %d MAPE %v, want NaN (the zero is in every step)", h+1, st.MAPE)
