@@ -164,7 +164,9 @@ func (f *Fitted) Period() int { return f.lay.s }
 
 // Residuals returns the standardised one-step innovations v_t/√F_t of
 // the Kalman filter (on the scale of σ; NaN where y is missing). The first
-// d + s·D of them are divided by a very large √F_t and close to zero. For
+// d + s·D of them are divided by a very large √F_t and close to zero
+// (NaN with DiffusePrior, where those observations only fix the
+// differencing states). For
 // Method CSS they are the conditional residuals (zero for the first
 // d + s·D + p + s·P).
 func (f *Fitted) Residuals() []float64 { return append([]float64(nil), f.resid...) }
