@@ -59,7 +59,8 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 	}
 	for _, r := range s.Regressors {
 		col := append([]float64(nil), r.Values...)
-		xGiven = append(xGiven, r.Values)
+		// A copy: Spec promises not to keep the caller's slices.
+		xGiven = append(xGiven, append([]float64(nil), r.Values...))
 		sj := columnScale(col)
 		for i := range col {
 			col[i] /= sj
