@@ -18,12 +18,18 @@ func floats(b []byte, n int) []float64 {
 	return out
 }
 
-// FuzzMeasures: no input makes a measure panic, and an error always comes
-// with NaN, never with a number.
+// FuzzMeasures: no input makes a measure panic, an error always comes
+// with NaN, never with a number, and NaN never comes without an error.
 func FuzzMeasures(f *testing.F) {
 	f.Add([]byte{}, uint8(1), 0.5)
 	f.Add(make([]byte, 64), uint8(2), 0.9)
 	f.Add([]byte("0123456789abcdef0123456789abcdef0123456789abcdef"), uint8(12), 0.1)
+	// Values near the float64 limit, whose errors overflow.
+	var big []byte
+	for _, v := range []float64{1e308, -1e308, -1e308, 1e308, 1e308, -1e308} {
+		big = binary.LittleEndian.AppendUint64(big, math.Float64bits(v))
+	}
+	f.Add(big, uint8(1), 0.5)
 	f.Fuzz(func(t *testing.T, data []byte, m uint8, tau float64) {
 		x := floats(data, 64)
 		k := len(x) / 3
@@ -36,6 +42,9 @@ func FuzzMeasures(f *testing.F) {
 		check := func(name string, v float64, err error) {
 			if err != nil && !math.IsNaN(v) {
 				t.Errorf("%s: %v alongside error %v", name, v, err)
+			}
+			if err == nil && math.IsNaN(v) {
+				t.Errorf("%s: silent NaN without an error", name)
 			}
 		}
 		for name, fn := range map[string]accuracy.PointMeasure{
