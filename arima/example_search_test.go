@@ -77,7 +77,7 @@ func ExampleSearch_exhaustive() {
 	// chosen: ARIMA(1,0,1)(1,1,0)[12]
 	// grid size: 32
 	// ARIMA(1,0,1)(1,1,0)[12]              BIC 711.5
-	// ARIMA(1,0,1)(1,1,0)[12] with drift   BIC 715.6
+	// ARIMA(1,0,1)(1,1,0)[12] + drift      BIC 715.6
 	// ARIMA(1,0,0)(0,1,1)[12]              BIC 722.2
 }
 
@@ -121,7 +121,7 @@ func ExampleSearch_regressors() {
 		fmt.Printf("week %d: %.0f\n", h+1, m)
 	}
 	// Output:
-	// chosen: ARIMA(1,0,0) with mean, with regressors (promotion)
+	// chosen: ARIMA(1,0,0) + mean + regressors(promotion)
 	// promotion effect 39.8 (s.e. 2.3)
 	// week 1: 203
 	// week 2: 241

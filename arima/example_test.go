@@ -104,7 +104,7 @@ func ExampleSpec_regressors() {
 		fmt.Printf("step %d: %.3f\n", h+1, fc.Mean[h])
 	}
 	// Output:
-	// ARIMA(1,0,0) with mean, with regressors (promotion)
+	// ARIMA(1,0,0) + mean + regressors(promotion)
 	// ar1 0.570
 	// mean 199.932
 	// promotion 33.706

@@ -192,27 +192,22 @@ func (f *Fitted) FittedValues() []float64 {
 	return out
 }
 
-// String returns the model in the usual notation: "ARIMA(0,1,1)(0,1,1)[12]",
-// followed by " with mean" or " with drift" when present and " with
-// regressors (name, ...)" when regressors were used.
+// String returns the model in the usual notation, "ARIMA(0,1,1)(0,1,1)[12]",
+// with the deterministic and regression terms appended in our own form:
+// " + mean" or " + drift" when present and " + regressors(name, ...)"
+// when regressors were used, e.g.
+// "ARIMA(2,0,0) + mean + regressors(year)".
 func (f *Fitted) String() string {
 	var b strings.Builder
 	b.WriteString(f.lay.orders())
-	var terms []string
 	if f.lay.mean {
-		terms = append(terms, "mean")
+		b.WriteString(" + mean")
 	}
 	if f.lay.drift {
-		terms = append(terms, "drift")
-	}
-	if len(terms) > 0 {
-		b.WriteString(" with " + strings.Join(terms, " and "))
+		b.WriteString(" + drift")
 	}
 	if len(f.lay.regNames) > 0 {
-		if len(terms) > 0 {
-			b.WriteString(",")
-		}
-		b.WriteString(" with regressors (" + strings.Join(f.lay.regNames, ", ") + ")")
+		b.WriteString(" + regressors(" + strings.Join(f.lay.regNames, ", ") + ")")
 	}
 	return b.String()
 }

@@ -218,15 +218,15 @@ type Candidate struct {
 }
 
 // String returns the candidate in the notation of Fitted.String:
-// "ARIMA(1,1,0)(0,1,1)[12]", with " with mean" or " with drift" when it
-// has a constant.
+// "ARIMA(1,1,0)(0,1,1)[12]", with " + mean" or " + drift" when it has a
+// constant.
 func (c Candidate) String() string {
 	str := c.Spec.String()
 	if c.Spec.Constant == ConstantInclude {
 		if c.Spec.D+c.Spec.SD == 0 {
-			str += " with mean"
+			str += " + mean"
 		} else {
-			str += " with drift"
+			str += " + drift"
 		}
 	}
 	return str

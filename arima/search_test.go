@@ -104,8 +104,8 @@ func TestSearchSeriesF(t *testing.T) {
 	want := map[string]float64{"ar1": -0.3407, "ar2": 0.1873, "mean": 51.2266}
 	for _, s := range []arima.Search{{}, {Exhaustive: true}} {
 		r := searchFit(t, s, yearly("Series F", selSeriesF))
-		if got := r.String(); got != "ARIMA(2,0,0) with mean" {
-			t.Fatalf("exhaustive %v: chose %s, want ARIMA(2,0,0) with mean", s.Exhaustive, got)
+		if got := r.String(); got != "ARIMA(2,0,0) + mean" {
+			t.Fatalf("exhaustive %v: chose %s, want ARIMA(2,0,0) + mean", s.Exhaustive, got)
 		}
 		for _, c := range r.Coef() {
 			numtest.Scalar(t, c.Name, c.Value, want[c.Name], 2e-3, 0)
@@ -461,8 +461,8 @@ func TestSearchEnumStrings(t *testing.T) {
 		{"likelihood auto", arima.LikelihoodAuto.String(), "auto"},
 		{"likelihood CSS", arima.LikelihoodCSS.String(), "CSS"},
 		{"unknown likelihood", arima.SearchLikelihood(5).String(), "SearchLikelihood(5)"},
-		{"candidate with drift", arima.Candidate{Spec: arima.Spec{D: 1, Q: 1, Constant: arima.ConstantInclude}}.String(), "ARIMA(0,1,1) with drift"},
-		{"candidate with mean", arima.Candidate{Spec: arima.Spec{P: 1, Constant: arima.ConstantInclude}}.String(), "ARIMA(1,0,0) with mean"},
+		{"candidate with drift", arima.Candidate{Spec: arima.Spec{D: 1, Q: 1, Constant: arima.ConstantInclude}}.String(), "ARIMA(0,1,1) + drift"},
+		{"candidate with mean", arima.Candidate{Spec: arima.Spec{P: 1, Constant: arima.ConstantInclude}}.String(), "ARIMA(1,0,0) + mean"},
 		{"candidate without constant", arima.Candidate{Spec: arima.Spec{P: 1, Constant: arima.ConstantNone}}.String(), "ARIMA(1,0,0)"},
 	}
 	for _, tc := range tests {

@@ -142,7 +142,7 @@ func TestForecastArguments(t *testing.T) {
 	f, huron := fixtureData(t, "lakehuron_ar2_trend")
 	year := f.Floats(t, "spec.xreg.columns.year")
 	fit := mustFit(t, Spec{P: 2, Regressors: []Regressor{{Name: "year", Values: year}}}, huron)
-	if got, want := fit.String(), "ARIMA(2,0,0) with mean, with regressors (year)"; got != want {
+	if got, want := fit.String(), "ARIMA(2,0,0) + mean + regressors(year)"; got != want {
 		t.Errorf("String() = %q, want %q", got, want)
 	}
 	future := []float64{1973, 1974, 1975}
@@ -191,7 +191,7 @@ func TestForecastArguments(t *testing.T) {
 func TestDrift(t *testing.T) {
 	y := logAirPassengers(t)
 	fit := mustFit(t, Spec{D: 1, Constant: ConstantInclude}, y)
-	if got, want := fit.String(), "ARIMA(0,1,0) with drift"; got != want {
+	if got, want := fit.String(), "ARIMA(0,1,0) + drift"; got != want {
 		t.Errorf("String() = %q, want %q", got, want)
 	}
 	v := y.Values
@@ -543,7 +543,7 @@ func TestRegressorUnits(t *testing.T) {
 	if err != nil {
 		t.Fatalf("search with a regressor of magnitude 1e18: %v", err)
 	}
-	if got := r.String(); !strings.Contains(got, "with regressors (z)") {
+	if got := r.String(); !strings.Contains(got, "+ regressors(z)") {
 		t.Errorf("search chose %s", got)
 	}
 }
