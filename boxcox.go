@@ -353,25 +353,25 @@ func guerreroSubseries(y []float64, period int) (*guerreroData, error) {
 	return g, nil
 }
 
-// LambdaMethod says how BoxCox chooses λ. The zero value is LambdaAuto.
+// LambdaMethod says how BoxCox chooses λ. The zero value is LambdaByGuerrero.
 // Programs should not rely on the numeric values of the constants.
 type LambdaMethod int
 
 const (
-	// LambdaAuto chooses λ by Guerrero's method (LambdaGuerrero).
-	LambdaAuto LambdaMethod = iota
+	// LambdaByGuerrero chooses λ by Guerrero's method (LambdaGuerrero).
+	LambdaByGuerrero LambdaMethod = iota
 	// LambdaMaxLikelihood chooses λ by maximum likelihood (LambdaML).
 	LambdaMaxLikelihood
 	// LambdaFixed uses BoxCox.Lambda as given (0 is the log transform).
 	LambdaFixed
 )
 
-// String returns "auto", "max-likelihood" or "fixed", and
+// String returns "guerrero", "max-likelihood" or "fixed", and
 // "LambdaMethod(n)" for an unknown value.
 func (m LambdaMethod) String() string {
 	switch m {
-	case LambdaAuto:
-		return "auto"
+	case LambdaByGuerrero:
+		return "guerrero"
 	case LambdaMaxLikelihood:
 		return "max-likelihood"
 	case LambdaFixed:
@@ -406,7 +406,7 @@ func (m LambdaMethod) String() string {
 type BoxCox struct {
 	// Model is fitted on the transformed scale. Required.
 	Model Model
-	// Method chooses λ; the zero value LambdaAuto is Guerrero's method.
+	// Method chooses λ; the zero value LambdaByGuerrero is Guerrero's method.
 	Method LambdaMethod
 	// Lambda is the parameter used with LambdaFixed (ignored otherwise).
 	Lambda float64
@@ -455,7 +455,7 @@ func (b BoxCox) Fit(ctx context.Context, y Series) (Fitted, error) {
 	var lam float64
 	var err error
 	switch b.Method {
-	case LambdaAuto:
+	case LambdaByGuerrero:
 		p := b.Period
 		if p == 0 {
 			p = y.Period()

@@ -402,7 +402,7 @@ func TestLambdaMethodString(t *testing.T) {
 	for _, tt := range []struct {
 		m    almanac.LambdaMethod
 		want string
-	}{{almanac.LambdaAuto, "auto"}, {almanac.LambdaMaxLikelihood, "max-likelihood"}, {almanac.LambdaFixed, "fixed"}, {almanac.LambdaMethod(9), "LambdaMethod(9)"}} {
+	}{{almanac.LambdaByGuerrero, "guerrero"}, {almanac.LambdaMaxLikelihood, "max-likelihood"}, {almanac.LambdaFixed, "fixed"}, {almanac.LambdaMethod(9), "LambdaMethod(9)"}} {
 		t.Run(tt.want, func(t *testing.T) {
 			if got := tt.m.String(); got != tt.want {
 				t.Errorf("String() = %q, want %q", got, tt.want)
