@@ -109,10 +109,19 @@ func CheckLevels(levels ...float64) error {
 	return nil
 }
 
-// CheckHorizon returns an error wrapping ErrHorizon when h < 1.
+// MaxHorizon is the largest forecast horizon the models accept: about a
+// million steps, far beyond any useful forecast, and small enough that
+// the forecast arrays can always be allocated.
+const MaxHorizon = 1 << 20
+
+// CheckHorizon returns an error wrapping ErrHorizon when h < 1 or
+// h > MaxHorizon.
 func CheckHorizon(h int) error {
 	if h < 1 {
 		return fmt.Errorf("almanac: %w: horizon %d, need at least 1", ErrHorizon, h)
+	}
+	if h > MaxHorizon {
+		return fmt.Errorf("almanac: %w: horizon %d, at most %d", ErrHorizon, h, MaxHorizon)
 	}
 	return nil
 }

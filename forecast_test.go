@@ -1,6 +1,7 @@
 package almanac_test
 
 import (
+	"context"
 	"errors"
 	"math"
 	"testing"
@@ -112,6 +113,15 @@ func TestForecastErrors(t *testing.T) {
 			return err
 		}(), almanac.ErrLength},
 		{"check horizon", almanac.CheckHorizon(0), almanac.ErrHorizon},
+		{"check horizon too long", almanac.CheckHorizon(almanac.MaxHorizon + 1), almanac.ErrHorizon},
+		{"naive forecast beyond the maximum horizon", func() error {
+			fit, err := almanac.Naive{}.Fit(context.Background(), almanac.Series{Key: "k", Start: utc(2024, 1, 1), Freq: calendar.Monthly, Values: []float64{1, 2, 3}})
+			if err != nil {
+				return err
+			}
+			_, err = fit.Forecast(math.MaxInt, 80)
+			return err
+		}(), almanac.ErrHorizon},
 		{"check levels", almanac.CheckLevels(80, -1), almanac.ErrLevel},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
