@@ -69,10 +69,10 @@ func main() {
 	}
 }
 
-// model returns the calendar model of a route.
-func model(rt route) calendarARIMA {
+// model returns the calendar model of a region's routes.
+func model(reg region) calendarARIMA {
 	return calendarARIMA{
-		Cal: rt.Cal, Events: rt.Events, Harmonics: harmonics, MaxHorizon: horizon,
+		Cal: reg.Cal, Events: reg.Events, Harmonics: harmonics, MaxHorizon: horizon,
 		// The annual cycle is in the Fourier terms: no seasonal ARIMA
 		// part (a 52-week seasonal state would be slow and is not needed).
 		Search: arima.Search{MaxP: 3, MaxQ: 3, MaxSP: -1, MaxSQ: -1, SD: arima.NoDifferencing},
@@ -89,6 +89,7 @@ var plain = decompose.Forecaster{
 
 // result is what run produces, kept for the test.
 type result struct {
+	regions   []region
 	routes    []route
 	series    []almanac.Series
 	fits      []*calendarFit
@@ -101,8 +102,8 @@ type result struct {
 }
 
 func run(ctx context.Context, w io.Writer) (*result, error) {
-	rs := routes()
-	ys, err := generate(rs)
+	regs, rs := regions(), routes()
+	ys, err := generate(regs, rs)
 	if err != nil {
 		return nil, err
 	}
@@ -110,26 +111,44 @@ func run(ctx context.Context, w io.Writer) (*result, error) {
 		len(ys), ys[0].Len(), isoWeek(ys[0].Start), isoWeek(ys[0].End()))
 
 	// 1. The calendars and the regressors of the plan period.
-	if err := printCalendars(w); err != nil {
+	if err := printCalendars(w, regs); err != nil {
 		return nil, err
 	}
 
-	// 2. Fit the calendar model on all the history and show what it found.
-	res := &result{routes: rs, series: ys}
+	// 2. Fit the calendar model on all the history, one region's routes
+	// at a time with BatchFit (they share the model), and show what it
+	// found.
+	res := &result{regions: regs, routes: rs, series: ys, fits: make([]*calendarFit, len(rs))}
+	for g, reg := range regs {
+		var idx []int
+		var batch []almanac.Series
+		for r, rt := range rs {
+			if rt.Region == g {
+				idx = append(idx, r)
+				batch = append(batch, ys[r])
+			}
+		}
+		out, err := almanac.BatchFit(ctx, model(reg), batch, almanac.BatchOptions{})
+		if err != nil {
+			return nil, fmt.Errorf("fitting %s: %w", reg.Name, err)
+		}
+		for k, b := range out {
+			if b.Err != nil {
+				return nil, fmt.Errorf("fitting %s: %w", b.Key, b.Err)
+			}
+			cf, ok := b.Fitted.(*calendarFit)
+			if !ok {
+				return nil, fmt.Errorf("fitting %s: unexpected %T", b.Key, b.Fitted)
+			}
+			res.fits[idx[k]] = cf
+		}
+	}
 	fmt.Fprintln(w, "What the calendar explains (per week, in the route's unit; ± one standard error)")
 	for r, rt := range rs {
-		fit, err := model(rt).Fit(ctx, ys[r])
-		if err != nil {
-			return nil, fmt.Errorf("fitting %s: %w", rt.Key, err)
-		}
-		cf, ok := fit.(*calendarFit)
-		if !ok {
-			return nil, fmt.Errorf("fitting %s: unexpected %T", rt.Key, fit)
-		}
-		res.fits = append(res.fits, cf)
+		cf := res.fits[r]
 		fmt.Fprintf(w, "  %s %-19s %s\n", rt.Key, rt.Name, shortModel(cf))
 		names := []string{holidayColumn}
-		for _, e := range rt.Events {
+		for _, e := range regs[rt.Region].Events {
 			names = append(names, e.Name)
 		}
 		for _, name := range names {
@@ -147,7 +166,7 @@ func run(ctx context.Context, w io.Writer) (*result, error) {
 	bt := accuracy.Backtest{Horizon: horizon, Origins: 3, Step: horizon, Levels: []float64{level}}
 	for r, rt := range rs {
 		c, err := bt.Run(ctx, ys[r],
-			accuracy.Candidate{Name: "calendar ARIMA", Model: model(rt)},
+			accuracy.Candidate{Name: "calendar ARIMA", Model: model(regs[rt.Region])},
 			accuracy.Candidate{Name: "STL + ETS", Model: plain},
 		)
 		if err != nil {
@@ -189,7 +208,7 @@ func run(ctx context.Context, w io.Writer) (*result, error) {
 		if rt.Unit == "boardings" {
 			continue
 		}
-		d, err := scaleCheck(ctx, rt, ys[r], res.forecasts[r])
+		d, err := scaleCheck(ctx, model(regs[rt.Region]), ys[r], res.forecasts[r])
 		if err != nil {
 			return nil, err
 		}
@@ -206,10 +225,10 @@ func run(ctx context.Context, w io.Writer) (*result, error) {
 	return res, nil
 }
 
-// scaleCheck fits rt's model on y divided by its mean over 100 and returns
-// the largest relative difference between the rescaled forecasts (points
-// and bounds) and fc.
-func scaleCheck(ctx context.Context, rt route, y almanac.Series, fc almanac.Forecast) (float64, error) {
+// scaleCheck fits m on y divided by its mean over 100 and returns the
+// largest relative difference between the rescaled forecasts (points and
+// bounds) and fc, m's forecasts fitted on y itself.
+func scaleCheck(ctx context.Context, m almanac.Model, y almanac.Series, fc almanac.Forecast) (float64, error) {
 	mean := 0.0
 	for _, v := range y.Values {
 		mean += v
@@ -220,13 +239,13 @@ func scaleCheck(ctx context.Context, rt route, y almanac.Series, fc almanac.Fore
 	for i := range idx.Values {
 		idx.Values[i] /= k
 	}
-	fit, err := model(rt).Fit(ctx, idx)
+	fit, err := m.Fit(ctx, idx)
 	if err != nil {
-		return 0, fmt.Errorf("fitting %s as an index: %w", rt.Key, err)
+		return 0, fmt.Errorf("fitting %s as an index: %w", y.Key, err)
 	}
 	fi, err := fit.Forecast(horizon, level)
 	if err != nil {
-		return 0, fmt.Errorf("forecasting %s as an index: %w", rt.Key, err)
+		return 0, fmt.Errorf("forecasting %s as an index: %w", y.Key, err)
 	}
 	lo, hi, err := fc.Bounds(level)
 	if err != nil {
@@ -247,15 +266,12 @@ func scaleCheck(ctx context.Context, rt route, y almanac.Series, fc almanac.Fore
 }
 
 // printCalendars lists each region's holidays in the plan period.
-func printCalendars(w io.Writer) error {
+func printCalendars(w io.Writer, regs []region) error {
 	from := calendar.Weekly.Add(lastWeek, 1)
 	to := calendar.Weekly.Add(lastWeek, horizon).AddDate(0, 0, 6)
 	fmt.Fprintf(w, "Holidays in the plan period (%s to %s)\n", from.Format("2 Jan"), to.Format("2 Jan 2006"))
-	for _, reg := range []struct {
-		name string
-		cal  calendar.Calendar
-	}{{"Northreach", northreach}, {"Southholm", southholm}} {
-		occ, err := reg.cal.Occurrences(from, to)
+	for _, reg := range regs {
+		occ, err := reg.Cal.Occurrences(from, to)
 		if err != nil {
 			return err
 		}
@@ -263,7 +279,7 @@ func printCalendars(w io.Writer) error {
 		for _, o := range occ {
 			parts = append(parts, fmt.Sprintf("%s %s", o.Name, o.Date.Format("Mon 2 Jan")))
 		}
-		fmt.Fprintf(w, "  %-11s %s\n", reg.name, strings.Join(parts, "; "))
+		fmt.Fprintf(w, "  %-11s %s\n", reg.Name, strings.Join(parts, "; "))
 	}
 	fmt.Fprintln(w)
 	return nil
@@ -272,25 +288,24 @@ func printCalendars(w io.Writer) error {
 // printPlan writes the 13-week plan: one row per week, one column per
 // route with the point forecast and its band, and the holidays of the week.
 func printPlan(w io.Writer, res *result) error {
-	rs := res.routes
+	rs, regs := res.routes, res.regions
 	fmt.Fprintf(w, "Plan for the next %d weeks: point forecast and %.0f%% band per route (S2 in %s);\n", horizon, level, rs[3].Unit)
 	fmt.Fprintln(w, "a * marks a route whose region has a holiday that week")
 	fmt.Fprintf(w, "%-8s %-6s", "week", "Monday")
 	for _, rt := range rs {
-		fmt.Fprintf(w, " | %-20s", rt.Key+" "+rt.Name)
+		fmt.Fprintf(w, " | %-21s", rt.Key+" "+rt.Name)
 	}
 	fmt.Fprintln(w, " | holidays")
-	regionHol := map[string][]float64{}
-	for _, reg := range []struct {
-		name string
-		cal  calendar.Calendar
-	}{{"Northreach", northreach}, {"Southholm", southholm}} {
-		g := calendar.Grid{Start: calendar.Weekly.Add(lastWeek, 1), Freq: calendar.Weekly, H: horizon}
-		hol, err := g.Holidays(reg.cal)
+	// Holiday days per future week and region, on a grid of no history
+	// and the plan's weeks.
+	regionHol := make([][]float64, len(regs))
+	for g, reg := range regs {
+		grid := calendar.Grid{Start: calendar.Weekly.Add(lastWeek, 1), Freq: calendar.Weekly, H: horizon}
+		hol, err := grid.Holidays(reg.Cal)
 		if err != nil {
 			return err
 		}
-		regionHol[reg.name] = hol
+		regionHol[g] = hol
 	}
 	bands := make([][2][]float64, len(rs))
 	for r := range rs {
@@ -309,22 +324,19 @@ func printPlan(w io.Writer, res *result) error {
 				flag = "*"
 			}
 			cell := fmt.Sprintf("%6.0f%s %5.0f-%-5.0f", res.forecasts[r].Mean[h], flag, bands[r][0][h], bands[r][1][h])
-			fmt.Fprintf(w, " | %-20s", cell)
+			fmt.Fprintf(w, " | %-21s", cell)
 		}
 		var names []string
-		for _, reg := range []struct {
-			tag string
-			cal calendar.Calendar
-		}{{"N", northreach}, {"S", southholm}} {
-			occ, err := reg.cal.Occurrences(monday, monday.AddDate(0, 0, 6))
+		for _, reg := range regs {
+			occ, err := reg.Cal.Occurrences(monday, monday.AddDate(0, 0, 6))
 			if err != nil {
 				return err
 			}
 			for _, o := range occ {
-				names = append(names, reg.tag+": "+o.Name)
+				names = append(names, reg.Tag+": "+o.Name)
 			}
 		}
-		fmt.Fprintf(w, " | %s\n", strings.Join(names, ", "))
+		fmt.Fprintln(w, strings.TrimRight(" | "+strings.Join(names, ", "), " "))
 	}
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, "The bands carry the uncertainty of the ARIMA errors given the calendar; they")
@@ -334,7 +346,7 @@ func printPlan(w io.Writer, res *result) error {
 
 // isoWeek formats the ISO week of t, e.g. "2026-W10".
 func isoWeek(t time.Time) string {
-	y, wk := t.ISOWeek()
+	y, wk := calendar.ISOWeek(t)
 	return fmt.Sprintf("%d-W%02d", y, wk)
 }
 

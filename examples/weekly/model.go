@@ -128,6 +128,9 @@ func (m calendarARIMA) columns(g calendar.Grid) ([]calendar.Column, error) {
 // eventColumn is the regressor of e on g; an event wholly outside g gives
 // zeros, and a shift that began before g starts at g's first week.
 func eventColumn(g calendar.Grid, e event) ([]float64, error) {
+	if e.Kind != pulse && e.Kind != shift {
+		return nil, fmt.Errorf("%w: event %q has kind %s", almanac.ErrInvalid, e.Name, e.Kind)
+	}
 	first := g.Time(0)
 	end := g.Time(g.Len()) // the Monday after the last week
 	last := e.Through
@@ -137,17 +140,14 @@ func eventColumn(g calendar.Grid, e event) ([]float64, error) {
 	if last.Before(first) || !e.From.Before(end) {
 		return make([]float64, g.Len()), nil
 	}
-	switch e.Kind {
-	case pulse:
+	if e.Kind == pulse {
 		return g.Pulse(e.From)
-	case shift:
-		from := e.From
-		if from.Before(first) {
-			from = first
-		}
-		return g.Shift(from, e.Through)
 	}
-	return nil, fmt.Errorf("%w: event %q has kind %s", almanac.ErrInvalid, e.Name, e.Kind)
+	from := e.From
+	if from.Before(first) {
+		from = first
+	}
+	return g.Shift(from, e.Through)
 }
 
 func constant(xs []float64) bool {

@@ -73,12 +73,35 @@ type event struct {
 	Through time.Time // last day of a shift; ignored for a pulse
 }
 
+// region is one of the operator's two regions: its holiday calendar and
+// the one-off events that happened there. Every route of a region is
+// modelled with all of the region's events; where an event did not touch
+// a route its estimated effect should come out near zero.
+type region struct {
+	Name   string
+	Tag    string // one-letter tag used in the plan
+	Cal    calendar.Calendar
+	Events []event
+}
+
+var (
+	gullPoint = event{Name: "Gull Point counted under N2", Kind: shift, From: day(2024, time.March, 4), Through: day(2024, time.July, 28)}
+	quayWorks = event{Name: "Tidewater quay works", Kind: shift, From: day(2023, time.October, 2), Through: day(2023, time.November, 5)}
+	lanterns  = event{Name: "lantern festival", Kind: pulse, From: day(2024, time.August, 14)}
+)
+
+// regions returns the scenario's two regions.
+func regions() []region {
+	return []region{
+		{Name: "Northreach", Tag: "N", Cal: northreach, Events: []event{gullPoint}},
+		{Name: "Southholm", Tag: "S", Cal: southholm, Events: []event{quayWorks, lanterns}},
+	}
+}
+
 // route is one series of the scenario, with the effects planted in it.
 type route struct {
 	Key, Name  string
-	Region     string
-	Cal        calendar.Calendar
-	Events     []event
+	Region     int     // index in regions()
 	Unit       string  // unit the data arrive in
 	UnitFactor float64 // planted, unknown to the program: delivered = boardings × UnitFactor
 
@@ -87,27 +110,25 @@ type route struct {
 	base, growth, amplitude float64 // level in March 2021, growth per year, annual swing
 	peak                    int     // day of the year of the summer peak
 	holidayEffect           float64 // per holiday day in the week
-	eventEffect             []float64
+	eventEffect             map[string]float64
 	noise                   float64 // sd of the AR(1) innovations
 }
-
-var (
-	gullPoint = event{Name: "Gull Point counted under N2", Kind: shift, From: day(2024, time.March, 4), Through: day(2024, time.July, 28)}
-	quayWorks = event{Name: "quay works", Kind: shift, From: day(2023, time.October, 2), Through: day(2023, time.November, 5)}
-	lanterns  = event{Name: "lantern festival", Kind: pulse, From: day(2024, time.August, 14)}
-)
 
 // routes returns the scenario's four routes.
 func routes() []route {
 	return []route{
-		{Key: "N1", Name: "Harbour Loop", Region: "Northreach", Cal: northreach, Events: []event{gullPoint}, Unit: "boardings", UnitFactor: 1,
-			base: 5200, growth: 0.03, amplitude: 900, peak: 196, holidayEffect: -260, eventEffect: []float64{-450}, noise: 170},
-		{Key: "N2", Name: "Skerry Run", Region: "Northreach", Cal: northreach, Events: []event{gullPoint}, Unit: "boardings", UnitFactor: 1,
-			base: 1800, growth: 0.05, amplitude: 1100, peak: 206, holidayEffect: 210, eventEffect: []float64{450}, noise: 120},
-		{Key: "S1", Name: "Tidewater Crossing", Region: "Southholm", Cal: southholm, Events: []event{quayWorks}, Unit: "boardings", UnitFactor: 1,
-			base: 3900, growth: 0.02, amplitude: 500, peak: 213, holidayEffect: -190, eventEffect: []float64{-2600}, noise: 150},
-		{Key: "S2", Name: "Lantern Bay", Region: "Southholm", Cal: southholm, Events: []event{lanterns}, Unit: "seat-km", UnitFactor: 7.4,
-			base: 1500, growth: 0.04, amplitude: 800, peak: 201, holidayEffect: 160, eventEffect: []float64{1400}, noise: 110},
+		{Key: "N1", Name: "Harbour Loop", Region: 0, Unit: "boardings", UnitFactor: 1,
+			base: 5200, growth: 0.03, amplitude: 900, peak: 196, holidayEffect: -260, noise: 170,
+			eventEffect: map[string]float64{gullPoint.Name: -450}},
+		{Key: "N2", Name: "Skerry Run", Region: 0, Unit: "boardings", UnitFactor: 1,
+			base: 1800, growth: 0.05, amplitude: 1100, peak: 206, holidayEffect: 210, noise: 120,
+			eventEffect: map[string]float64{gullPoint.Name: 450}},
+		{Key: "S1", Name: "Tidewater Crossing", Region: 1, Unit: "boardings", UnitFactor: 1,
+			base: 3900, growth: 0.02, amplitude: 500, peak: 213, holidayEffect: -190, noise: 150,
+			eventEffect: map[string]float64{quayWorks.Name: -2600}},
+		{Key: "S2", Name: "Lantern Bay", Region: 1, Unit: "seat-km", UnitFactor: 7.4,
+			base: 1500, growth: 0.04, amplitude: 800, peak: 201, holidayEffect: 160, noise: 110,
+			eventEffect: map[string]float64{lanterns.Name: 1400}},
 	}
 }
 
@@ -116,7 +137,7 @@ func routes() []route {
 // AR(1) noise, from a fixed seed, so every run sees the same data. The
 // holiday days are counted day by day with Calendar.IsHoliday, a different
 // path from the Grid.Holidays regressor the model uses.
-func generate(rs []route) ([]almanac.Series, error) {
+func generate(regs []region, rs []route) ([]almanac.Series, error) {
 	n, err := calendar.Weekly.Between(firstWeek, lastWeek)
 	if err != nil {
 		return nil, fmt.Errorf("weekly: history span: %w", err)
@@ -124,9 +145,10 @@ func generate(rs []route) ([]almanac.Series, error) {
 	n++
 	out := make([]almanac.Series, len(rs))
 	for r, rt := range rs {
-		if len(rt.eventEffect) != len(rt.Events) {
-			return nil, errors.New("weekly: scenario: one planted effect per event needed")
+		if rt.Region < 0 || rt.Region >= len(regs) {
+			return nil, errors.New("weekly: scenario: route in an unknown region")
 		}
+		reg := regs[rt.Region]
 		rng := rand.New(rand.NewPCG(20261201, uint64(r)))
 		vals := make([]float64, n)
 		ar := 0.0
@@ -138,19 +160,19 @@ func generate(rs []route) ([]almanac.Series, error) {
 			v := rt.base*(1+rt.growth*years) + rt.amplitude*(0.75*math.Cos(phase)+0.25*math.Cos(2*phase))
 			hol := 0
 			for d := range 7 {
-				if rt.Cal.IsHoliday(monday.AddDate(0, 0, d)) {
+				if reg.Cal.IsHoliday(monday.AddDate(0, 0, d)) {
 					hol++
 				}
 			}
 			v += rt.holidayEffect * float64(hol)
 			sunday := monday.AddDate(0, 0, 6)
-			for j, e := range rt.Events {
+			for _, e := range reg.Events {
 				last := e.Through
 				if e.Kind == pulse {
 					last = e.From
 				}
 				if !sunday.Before(e.From) && !monday.After(last) {
-					v += rt.eventEffect[j]
+					v += rt.eventEffect[e.Name] // zero where not planted
 				}
 			}
 			ar = 0.5*ar + rt.noise*rng.NormFloat64()

@@ -1,0 +1,281 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"math"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
+)
+
+// TestWeekly runs the whole demo and checks what it promises. The planted
+// effects are those of scenario.go (invented data); the tolerances are
+// this test's own choice.
+func TestWeekly(t *testing.T) {
+	var out bytes.Buffer
+	res, err := run(context.Background(), &out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := out.String()
+
+	// The calendar effects come back with the planted sign and size:
+	// within three standard errors of the planted value (zero where the
+	// event did not touch the route), and the large event effects within
+	// 30% as well.
+	for r, rt := range res.routes {
+		fit := res.fits[r]
+		names := []string{holidayColumn}
+		planted := []float64{rt.holidayEffect * rt.UnitFactor}
+		for _, e := range res.regions[rt.Region].Events {
+			names = append(names, e.Name)
+			planted = append(planted, rt.eventEffect[e.Name]*rt.UnitFactor)
+		}
+		for i, name := range names {
+			want := planted[i]
+			t.Run(rt.Key+"/"+name, func(t *testing.T) {
+				got, se, ok := fit.effect(name)
+				if !ok {
+					t.Fatalf("no coefficient %q in %s", name, fit)
+				}
+				if !(se > 0) {
+					t.Fatalf("standard error %v", se)
+				}
+				if math.Abs(got-want) > 3*se {
+					t.Errorf("effect %.1f ± %.1f, planted %.1f: more than three standard errors off", got, se, want)
+				}
+				if want != 0 && math.Signbit(got) != math.Signbit(want) {
+					t.Errorf("effect %.1f has the wrong sign (planted %.1f)", got, want)
+				}
+				if math.Abs(want) > 1000 && math.Abs(got-want) > 0.3*math.Abs(want) {
+					t.Errorf("effect %.1f, planted %.1f: off by more than 30%%", got, want)
+				}
+			})
+		}
+	}
+
+	// The unit of S2 does not matter: forecasts equal up to rounding.
+	if !(res.scaleDiff < 1e-6) {
+		t.Errorf("forecasts in the delivered unit and on an index differ by %.3g (relative)", res.scaleDiff)
+	}
+
+	// Coherent plan: 13 weeks from the week after the history, finite,
+	// inside their bands, positive.
+	start := calendar.Weekly.Add(lastWeek, 1)
+	for r, fc := range res.forecasts {
+		key := res.routes[r].Key
+		if fc.Horizon() != horizon || !fc.Start.Equal(start) || !fc.Freq.Equal(calendar.Weekly) {
+			t.Errorf("%s: forecast of %d steps from %s (%s), want %d from %s", key, fc.Horizon(), fc.Start, fc.Freq, horizon, start)
+		}
+		lo, hi, err := fc.Bounds(level)
+		if err != nil {
+			t.Fatalf("%s: %v", key, err)
+		}
+		for h, m := range fc.Mean {
+			if math.IsNaN(m) || math.IsInf(m, 0) || !(lo[h] < m && m < hi[h]) || !(lo[h] > 0) {
+				t.Errorf("%s step %d: forecast %v, band %v to %v", key, h+1, m, lo[h], hi[h])
+			}
+		}
+	}
+
+	// Holiday weeks move the forecasts the way the routes react: the
+	// commuter route N1 loses and the leisure route N2 gains, against
+	// the week before, in the week of Spring Friday (week 5 of the plan:
+	// Easter Sunday 2026 is 5 April, recalled from memory).
+	n1, n2 := res.forecasts[0].Mean, res.forecasts[1].Mean
+	if !(n1[4] < n1[3]) || !(n2[4] > n2[3]) {
+		t.Errorf("Spring Friday week: N1 %.0f -> %.0f, N2 %.0f -> %.0f; want a fall and a rise", n1[3], n1[4], n2[3], n2[4])
+	}
+
+	for r, w := range res.winners {
+		if w == "" {
+			t.Errorf("%s: no winner", res.routes[r].Key)
+		}
+	}
+	for _, want := range []string{
+		"What the calendar explains", "Backtest of N1 Harbour Loop", "Winner per route",
+		"Lantern Bay", "seat-km", "Spring Friday", "Boat Day",
+	} {
+		if !strings.Contains(text, want) {
+			t.Errorf("output lacks %q", want)
+		}
+	}
+	for _, line := range strings.Split(text, "\n") {
+		if strings.HasPrefix(line, "2026-W14") && strings.Count(line, "*") != 4 {
+			t.Errorf("holiday week not flagged on every route: %q", line)
+		}
+		if strings.HasPrefix(line, "2026-W12") && strings.Contains(line, "*") {
+			t.Errorf("week without holidays flagged: %q", line)
+		}
+	}
+}
+
+// TestCalendarModelAnyOrigin fits the model on windows that start or end
+// around the events, as a backtest or a sliding window would, and checks
+// that an event outside the history is left out rather than failing.
+func TestCalendarModelAnyOrigin(t *testing.T) {
+	regs, rs := regions(), routes()
+	ys, err := generate(regs, rs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	at := func(y almanac.Series, d time.Time) int {
+		i, err := y.Index(d)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return i
+	}
+	tests := []struct {
+		name        string
+		route       int
+		from, to    int
+		wantDropped string // "" = every event estimable
+	}{
+		{"N1 before the reclassification", 0, 0, at(ys[0], day(2024, time.January, 1)), "Gull Point"},
+		{"N1 ending inside the reclassification", 0, 0, at(ys[0], day(2024, time.May, 6)), ""},
+		{"S1 starting inside the quay works", 2, at(ys[2], day(2023, time.October, 16)), ys[2].Len(), ""},
+		{"S2 after both events", 3, at(ys[3], day(2024, time.September, 2)), ys[3].Len(), "Tidewater quay works, lantern festival"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			y := ys[tt.route].Window(tt.from, tt.to)
+			fit, err := model(regs[rs[tt.route].Region]).Fit(context.Background(), y)
+			if err != nil {
+				t.Fatal(err)
+			}
+			s := fit.String()
+			if tt.wantDropped == "" && strings.Contains(s, "not estimable") {
+				t.Errorf("%s: an event was left out", s)
+			}
+			if tt.wantDropped != "" && !strings.Contains(s, "not estimable here: "+tt.wantDropped) {
+				t.Errorf("%s: want %q left out", s, tt.wantDropped)
+			}
+			fc, err := fit.Forecast(horizon, level)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if want := y.Time(y.Len()); !fc.Start.Equal(want) || fc.Horizon() != horizon {
+				t.Errorf("forecast of %d from %s, want %d from %s", fc.Horizon(), fc.Start, horizon, want)
+			}
+			for _, h := range []int{0, horizon + 1} {
+				if _, err := fit.Forecast(h); !errors.Is(err, almanac.ErrHorizon) {
+					t.Errorf("Forecast(%d): %v, want ErrHorizon", h, err)
+				}
+			}
+		})
+	}
+}
+
+// TestEventColumn checks the event regressors at the edges of a grid.
+func TestEventColumn(t *testing.T) {
+	// Ten weeks from Monday 6 January 2025 plus three future weeks.
+	g := calendar.Grid{Start: day(2025, time.January, 6), Freq: calendar.Weekly, N: 10, H: 3}
+	tests := []struct {
+		name string
+		e    event
+		want []float64
+	}{
+		{"shift before the grid", event{Name: "x", Kind: shift, From: day(2024, time.June, 3), Through: day(2024, time.July, 1)}, nil},
+		{"shift into the grid", event{Name: "x", Kind: shift, From: day(2024, time.December, 2), Through: day(2025, time.January, 15)}, []float64{1, 1}},
+		{"shift past the horizon", event{Name: "x", Kind: shift, From: day(2025, time.March, 19), Through: day(2025, time.June, 1)}, []float64{0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 1, 1, 1}},
+		{"pulse in the future", event{Name: "x", Kind: pulse, From: day(2025, time.March, 27)}, []float64{0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 1, 0}},
+		{"pulse after the horizon", event{Name: "x", Kind: pulse, From: day(2025, time.April, 7)}, nil},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			got, err := eventColumn(g, tt.e)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := make([]float64, g.Len())
+			copy(want, tt.want)
+			if len(got) != len(want) {
+				t.Fatalf("%d values, want %d", len(got), len(want))
+			}
+			for i := range want {
+				if got[i] != want[i] {
+					t.Fatalf("got %v, want %v", got, want)
+				}
+			}
+		})
+	}
+	if _, err := eventColumn(g, event{Name: "x", From: day(2025, time.January, 8)}); !errors.Is(err, almanac.ErrInvalid) {
+		t.Errorf("unknown kind: %v, want ErrInvalid", err)
+	}
+}
+
+// TestCalendarModelBadInput: input the model cannot take gives an error
+// wrapping a root sentinel, never a panic.
+func TestCalendarModelBadInput(t *testing.T) {
+	regs := regions()
+	good := model(regs[0])
+	weekly := func(vals ...float64) almanac.Series {
+		return almanac.Series{Key: "x", Start: firstWeek, Freq: calendar.Weekly, Values: vals}
+	}
+	long := make([]float64, 120)
+	for i := range long {
+		long[i] = 100 + float64(i%7)
+	}
+	noHorizon := good
+	noHorizon.MaxHorizon = 0
+	tests := []struct {
+		name string
+		m    calendarARIMA
+		y    almanac.Series
+		want error
+	}{
+		{"empty", good, weekly(), almanac.ErrEmpty},
+		{"monthly data", good, almanac.Series{Key: "x", Start: firstWeek, Freq: calendar.Monthly, Values: long}, almanac.ErrFrequency},
+		{"infinite value", good, weekly(append([]float64{math.Inf(1)}, long...)...), almanac.ErrNonFinite},
+		{"no horizon", noHorizon, weekly(long...), almanac.ErrInvalid},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			_, err := tt.m.Fit(context.Background(), tt.y)
+			if !errors.Is(err, tt.want) {
+				t.Errorf("got %v, want an error wrapping %v", err, tt.want)
+			}
+		})
+	}
+}
+
+// TestBatchFitDeterministic: the model gives bit-identical forecasts
+// whatever the number of BatchFit workers.
+func TestBatchFitDeterministic(t *testing.T) {
+	regs, rs := regions(), routes()
+	ys, err := generate(regs, rs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	north := ys[:2]
+	var runs [2][]almanac.Forecast
+	for k, workers := range []int{1, 2} {
+		out, err := almanac.BatchFit(context.Background(), model(regs[0]), north, almanac.BatchOptions{Workers: workers})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, b := range out {
+			if b.Err != nil {
+				t.Fatal(b.Err)
+			}
+			fc, err := b.Fitted.Forecast(horizon, level)
+			if err != nil {
+				t.Fatal(err)
+			}
+			runs[k] = append(runs[k], fc)
+		}
+	}
+	for i := range runs[0] {
+		for h := range runs[0][i].Mean {
+			if runs[0][i].Mean[h] != runs[1][i].Mean[h] {
+				t.Fatalf("%s step %d: %v with one worker, %v with two", north[i].Key, h+1, runs[0][i].Mean[h], runs[1][i].Mean[h])
+			}
+		}
+	}
+}
