@@ -9,8 +9,9 @@
 // to February 2026) are generated deterministically from a fixed seed
 // (scenario.go), with:
 //
-//   - holidays: fixed dates moved off weekends, Easter-relative days and
-//     nth-weekday days, which cut commuter traffic and lift leisure traffic;
+//   - holidays: fixed dates moved off weekends, Easter-relative days,
+//     nth-weekday days and a one-off span (two days off for a bridge
+//     opening), which cut commuter traffic and lift leisure traffic;
 //   - a summer season;
 //   - quay works that stopped most S1 sailings for five weeks in autumn 2023;
 //   - a one-week lantern festival on S2 in August 2024;

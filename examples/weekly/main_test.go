@@ -5,6 +5,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"math/rand/v2"
 	"strings"
 	"testing"
 	"time"
@@ -166,6 +167,31 @@ func TestCalendarModelAnyOrigin(t *testing.T) {
 			for _, h := range []int{0, horizon + 1} {
 				if _, err := fit.Forecast(h); !errors.Is(err, almanac.ErrHorizon) {
 					t.Errorf("Forecast(%d): %v, want ErrHorizon", h, err)
+				}
+				if _, err := fit.(almanac.Simulator).Simulate(h, 10, rand.NewPCG(1, 2)); !errors.Is(err, almanac.ErrHorizon) {
+					t.Errorf("Simulate(%d): %v, want ErrHorizon", h, err)
+				}
+			}
+			// Sample paths use the future regressors too: their mean
+			// is close to the point forecast (within 4 standard errors
+			// of a mean of 400 draws, this test's own bound).
+			paths, err := fit.(almanac.Simulator).Simulate(horizon, 400, rand.NewPCG(20261201, 7))
+			if err != nil {
+				t.Fatal(err)
+			}
+			lo, hi, err := fc.Bounds(level)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for h := range horizon {
+				mean := 0.0
+				for _, p := range paths {
+					mean += p[h]
+				}
+				mean /= float64(len(paths))
+				sd := (hi[h] - lo[h]) / (2 * 1.2815515655446004) // the 80% band of a normal forecast is ±1.2816 sd (common practice)
+				if math.Abs(mean-fc.Mean[h]) > 4*sd/math.Sqrt(float64(len(paths))) {
+					t.Errorf("step %d: mean of the paths %.1f, forecast %.1f (sd %.1f)", h+1, mean, fc.Mean[h], sd)
 				}
 			}
 		})

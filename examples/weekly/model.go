@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"fmt"
+	"math/rand/v2"
 	"strings"
 	"time"
 
@@ -35,7 +36,10 @@ type calendarARIMA struct {
 	Search arima.Search
 }
 
-var _ almanac.Model = calendarARIMA{}
+var (
+	_ almanac.Model     = calendarARIMA{}
+	_ almanac.Simulator = (*calendarFit)(nil)
+)
 
 // epoch anchors the Fourier terms to the calendar (the Monday of ISO week
 // 2000-W01), so a window starting at any week gets the same season.
@@ -170,17 +174,37 @@ type calendarFit struct {
 // Forecast forecasts h ≤ MaxHorizon weeks with the calendar's future
 // regressors.
 func (f *calendarFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
-	if err := almanac.CheckHorizon(h); err != nil {
+	fut, err := f.futureFor(h)
+	if err != nil {
 		return almanac.Forecast{}, err
 	}
+	return f.ForecastWith(h, fut, levels...)
+}
+
+// Simulate draws n sample paths of h ≤ MaxHorizon weeks with the
+// calendar's future regressors (the embedded model's own Simulate would
+// lack them).
+func (f *calendarFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
+	fut, err := f.futureFor(h)
+	if err != nil {
+		return nil, err
+	}
+	return f.SimulateWith(h, n, fut, src)
+}
+
+// futureFor returns the first h future values of every regressor.
+func (f *calendarFit) futureFor(h int) ([][]float64, error) {
+	if err := almanac.CheckHorizon(h); err != nil {
+		return nil, err
+	}
 	if len(f.future) > 0 && h > len(f.future[0]) {
-		return almanac.Forecast{}, fmt.Errorf("weekly: %w: horizon %d beyond the %d weeks of future regressors built at Fit", almanac.ErrHorizon, h, len(f.future[0]))
+		return nil, fmt.Errorf("weekly: %w: horizon %d beyond the %d weeks of future regressors built at Fit", almanac.ErrHorizon, h, len(f.future[0]))
 	}
 	fut := make([][]float64, len(f.future))
 	for j, c := range f.future {
 		fut[j] = c[:h]
 	}
-	return f.ForecastWith(h, fut, levels...)
+	return fut, nil
 }
 
 // String names the ARIMA model with its regressors.

@@ -31,6 +31,8 @@ var (
 		{Name: "Spring Monday", Rule: calendar.EasterOffset{Days: 1}},
 		{Name: "Founders' Day", Rule: calendar.FixedDate{Month: time.June, Day: 14, Observed: calendar.FollowingMonday}},
 		{Name: "Harvest Monday", Rule: calendar.NthWeekday{Month: time.September, Weekday: time.Monday, N: 1}},
+		// A one-off: two days off for the opening of the Skerry bridge.
+		{Name: "Bridge Days", Rule: calendar.Span{First: day(2023, time.May, 15), Last: day(2023, time.May, 16)}},
 		{Name: "Midwinter", Rule: calendar.FixedDate{Month: time.December, Day: 25, Observed: calendar.NearestWeekday}},
 		{Name: "Second Midwinter", Rule: calendar.FixedDate{Month: time.December, Day: 26, Observed: calendar.FollowingMonday}},
 	}}
