@@ -14,43 +14,16 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// Criterion is the information criterion that ranks candidate models in
-// a Search. Programs should not rely on the numeric values of the
-// constants.
-type Criterion int
+// Criterion is the information criterion used to rank candidates; the
+// zero value is AICc. It is the root package's almanac.Criterion.
+type Criterion = almanac.Criterion
 
+// The criteria, as in the root package.
 const (
-	// AICc (the zero value): Akaike's criterion with the small-sample
-	// correction (Hurvich & Tsai 1989), Fitted.AICc.
-	AICc Criterion = iota
-	// AIC: Akaike's criterion, Fitted.AIC.
-	AIC
-	// BIC: Schwarz's Bayesian criterion, Fitted.BIC.
-	BIC
+	AICc = almanac.AICc
+	AIC  = almanac.AIC
+	BIC  = almanac.BIC
 )
-
-// String returns "AICc", "AIC" or "BIC", or "Criterion(n)".
-func (c Criterion) String() string {
-	switch c {
-	case AICc:
-		return "AICc"
-	case AIC:
-		return "AIC"
-	case BIC:
-		return "BIC"
-	}
-	return fmt.Sprintf("Criterion(%d)", int(c))
-}
-
-func (c Criterion) of(f *Fitted) float64 {
-	switch c {
-	case AIC:
-		return f.AIC()
-	case BIC:
-		return f.BIC()
-	}
-	return f.AICc()
-}
 
 // SearchLikelihood says which likelihood ranks the candidates of a
 // Search. Programs should not rely on the numeric values of the
@@ -338,7 +311,7 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 		return nil, fmt.Errorf("arima: search: %w: MaxTerms %d is negative", almanac.ErrInvalid, s.MaxTerms)
 	case s.D < NoDifferencing || s.SD < NoDifferencing:
 		return nil, fmt.Errorf("arima: search: %w: D = %d, SD = %d (use NoDifferencing for none)", almanac.ErrInvalid, s.D, s.SD)
-	case s.Criterion < AICc || s.Criterion > BIC:
+	case !s.Criterion.Valid():
 		return nil, fmt.Errorf("arima: search: %w: unknown Criterion %v", almanac.ErrInvalid, s.Criterion)
 	case s.Likelihood < LikelihoodAuto || s.Likelihood > LikelihoodCSS:
 		return nil, fmt.Errorf("arima: search: %w: unknown Likelihood %v", almanac.ErrInvalid, s.Likelihood)
@@ -550,7 +523,7 @@ func (pl *searchPlan) evaluate(ctx context.Context, y almanac.Series, sp Spec) (
 		c.Err = err
 		return c, nil
 	}
-	score := pl.crit.of(f)
+	score := pl.crit.Choose(f.AICc(), f.AIC(), f.BIC())
 	if math.IsNaN(score) || math.IsInf(score, 0) {
 		c.Err = fmt.Errorf("arima: %w: %s: %v is %v", almanac.ErrNotFitted, sp, pl.crit, score)
 		return c, nil
@@ -580,7 +553,7 @@ func (pl *searchPlan) confirm(ctx context.Context, y almanac.Series, c *Candidat
 	}
 	score := math.Inf(1)
 	if err == nil {
-		if score = pl.crit.of(f); math.IsNaN(score) || math.IsInf(score, 0) {
+		if score = pl.crit.Choose(f.AICc(), f.AIC(), f.BIC()); math.IsNaN(score) || math.IsInf(score, 0) {
 			err = fmt.Errorf("arima: %w: %s: %v is %v", almanac.ErrNotFitted, c.Spec, pl.crit, score)
 		}
 	}

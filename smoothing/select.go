@@ -14,39 +14,16 @@ import (
 
 var _ almanac.Model = Select{}
 
-// Criterion is the information criterion Select minimises. The zero value
-// is AICc.
-type Criterion int
+// Criterion is the information criterion used to rank candidates; the
+// zero value is AICc. It is the root package's almanac.Criterion.
+type Criterion = almanac.Criterion
 
-// Criteria.
+// The criteria, as in the root package.
 const (
-	AICc Criterion = iota
-	AIC
-	BIC
+	AICc = almanac.AICc
+	AIC  = almanac.AIC
+	BIC  = almanac.BIC
 )
-
-// String returns "AICc", "AIC", "BIC", or "Criterion(n)".
-func (c Criterion) String() string {
-	switch c {
-	case AICc:
-		return "AICc"
-	case AIC:
-		return "AIC"
-	case BIC:
-		return "BIC"
-	}
-	return fmt.Sprintf("Criterion(%d)", int(c))
-}
-
-func (c Criterion) of(f *Fitted) float64 {
-	switch c {
-	case AIC:
-		return f.AIC
-	case BIC:
-		return f.BIC
-	}
-	return f.AICc
-}
 
 // Select fits every admissible ETS model to a series and keeps the one
 // with the lowest information criterion. It implements almanac.Model; Fit
@@ -133,7 +110,7 @@ func (s Select) Compare(ctx context.Context, y almanac.Series) ([]Candidate, int
 
 // check validates the options that do not depend on the data.
 func (s Select) check() error {
-	if s.Criterion < AICc || s.Criterion > BIC {
+	if !s.Criterion.Valid() {
 		return fmt.Errorf("smoothing: select: %w: criterion %v", errInvalid, s.Criterion)
 	}
 	if s.Period < 0 || s.Workers < 0 || s.Paths < 0 {
@@ -269,7 +246,7 @@ func (s Select) search(ctx context.Context, y almanac.Series) (*Fitted, []Candid
 				f, err := specs[i].fit(ctx, y)
 				c := Candidate{Spec: specs[i], Fit: f, Err: err, Score: math.Inf(1)}
 				if err == nil {
-					c.Score = s.Criterion.of(f)
+					c.Score = s.Criterion.Choose(f.AICc, f.AIC, f.BIC)
 				}
 				cands[i] = c
 			}
