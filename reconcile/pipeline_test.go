@@ -109,7 +109,7 @@ func TestPipelineLungDeaths(t *testing.T) {
 	for i, fit := range fits {
 		sim, ok := fit.(almanac.Simulator)
 		if !ok {
-			t.Skip("seasonal naive fit does not simulate")
+			t.Fatalf("%s does not implement almanac.Simulator; the path check would be lost", fit)
 		}
 		paths, err := sim.Simulate(12, 200, rand.NewPCG(uint64(i), 7))
 		if err != nil {
