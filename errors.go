@@ -3,6 +3,8 @@ package almanac
 import (
 	"errors"
 	"fmt"
+
+	"github.com/almanac-go/almanac/calendar"
 )
 
 // Sentinel errors. Every error returned by this module for bad input wraps
@@ -29,7 +31,7 @@ var (
 	ErrLength = errors.New("mismatched lengths")
 	// ErrFrequency: an unset or unknown frequency (same value as
 	// calendar.ErrFrequency).
-	ErrFrequency = calendarErrFrequency
+	ErrFrequency = calendar.ErrFrequency
 	// ErrLevel: a prediction-interval level outside (0, 100) or a
 	// probability outside (0, 1).
 	ErrLevel = errors.New("invalid level")
