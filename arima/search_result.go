@@ -1,0 +1,179 @@
+package arima
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"github.com/almanac-go/almanac"
+)
+
+// Candidate is one model considered by a Search.
+type Candidate struct {
+	// Spec is the model: orders, period and constant (ConstantInclude or
+	// ConstantNone).
+	Spec Spec
+	// Score is the criterion value, on the likelihood used while
+	// searching (CSS when SearchResult.RankedByCSS); +Inf when the model
+	// could not be fitted or was rejected. Candidates are fitted with
+	// looser stopping rules than Spec.Fit's (see Search), which can leave
+	// Score slightly above the value of a full fit; those that come within
+	// 2 of the best, and the chosen one, are refitted with the full rules
+	// and carry the full fit's value.
+	Score float64
+	// LogLik is the log-likelihood of the candidate fit (NaN when it
+	// failed).
+	LogLik float64
+	// Err says why the candidate has no score: the fitting error, or a
+	// rejection (wrapping ErrNearUnitRoot) when an AR or MA root lies
+	// within 1.001 of the unit circle. nil for a scored candidate. The
+	// root screen applies to the fit the Score comes from: a candidate
+	// that was not refitted with the full rules (far from the best) may
+	// pass it where the full fit, whose optimum lies on the unit circle,
+	// would come closer to the circle and fail it.
+	Err error
+}
+
+// String returns the candidate in the notation of Fitted.String:
+// "ARIMA(1,1,0)(0,1,1)[12]", with " + mean" or " + drift" when it has a
+// constant.
+func (c Candidate) String() string {
+	str := c.Spec.String()
+	if c.Spec.Constant == ConstantInclude {
+		if c.Spec.D+c.Spec.SD == 0 {
+			str += " + mean"
+		} else {
+			str += " + drift"
+		}
+	}
+	return str
+}
+
+// SearchResult is the model chosen by a Search: the chosen model's
+// *Fitted (refitted by exact likelihood), whose methods it has, with the
+// record of the search. It is read-only and safe for concurrent use.
+type SearchResult struct {
+	*Fitted
+	// Criterion ranked the candidates.
+	Criterion Criterion
+	// Candidates lists every model fitted while searching, in the order
+	// tried (stepwise) or grid order (exhaustive).
+	Candidates []Candidate
+	// Chosen is the index in Candidates of the chosen model.
+	Chosen int
+	// RankedByCSS reports that candidates were ranked by CSS (and the
+	// chosen one refitted by exact likelihood).
+	RankedByCSS bool
+	// Exhaustive reports which search ran.
+	Exhaustive bool
+	// ModelLimitReached reports that a stepwise search stopped at
+	// MaxModels before running out of better neighbours.
+	ModelLimitReached bool
+	// SeasonalStrength is the STL seasonal strength of the series when D
+	// was chosen from it (NaN otherwise).
+	SeasonalStrength float64
+}
+
+var (
+	_ almanac.Fitted       = (*SearchResult)(nil)
+	_ almanac.ParamCounter = (*SearchResult)(nil)
+	_ almanac.Simulator    = (*SearchResult)(nil)
+)
+
+// Ranked returns the indices into Candidates of the scored candidates,
+// best first (ties in candidate order), for reporting.
+func (r *SearchResult) Ranked() []int {
+	var idx []int
+	for i, c := range r.Candidates {
+		if c.Err == nil && !math.IsInf(c.Score, 0) {
+			idx = append(idx, i)
+		}
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return r.Candidates[idx[a]].Score < r.Candidates[idx[b]].Score })
+	return idx
+}
+
+// finish picks the best candidate (lowest score, ties to the earliest)
+// and, when the candidates were ranked by CSS, refits candidates by exact
+// likelihood in order of score until one succeeds.
+func (pl *searchPlan) finish(ctx context.Context, y almanac.Series, res *SearchResult, fits []*Fitted) (*SearchResult, error) {
+	order := make([]int, 0, len(res.Candidates))
+	for i := range res.Candidates {
+		if fits[i] != nil {
+			order = append(order, i)
+		}
+	}
+	if len(order) == 0 {
+		return nil, noCandidate(res.Candidates)
+	}
+	// Stable insertion sort by score: ties keep the earlier index.
+	for i := 1; i < len(order); i++ {
+		for j := i; j > 0 && res.Candidates[order[j]].Score < res.Candidates[order[j-1]].Score; j-- {
+			order[j], order[j-1] = order[j-1], order[j]
+		}
+	}
+	if !res.RankedByCSS {
+		// The best candidate after a refit with the full stopping rules
+		// of each one that comes within confirmMargin of the best refitted
+		// one (stepwise has refitted those already), in order of score;
+		// ties go to the earlier candidate.
+		chosen := -1
+		for _, i := range order {
+			if chosen >= 0 && res.Candidates[i].Score >= res.Candidates[chosen].Score+confirmMargin {
+				break
+			}
+			f := fits[i]
+			if !pl.full[i] {
+				f = pl.confirm(ctx, y, &res.Candidates[i])
+				fits[i] = f
+			}
+			if ctx.Err() != nil {
+				return nil, fmt.Errorf("arima: search: %w", ctx.Err())
+			}
+			if f == nil {
+				continue
+			}
+			if c, b := res.Candidates[i].Score, chosen; b < 0 || c < res.Candidates[b].Score || (c == res.Candidates[b].Score && i < b) {
+				chosen = i
+			}
+		}
+		if chosen < 0 {
+			return nil, noCandidate(res.Candidates)
+		}
+		res.Chosen = chosen
+		res.Fitted = fits[chosen]
+		return res, nil
+	}
+	// Ranked by CSS: refit by exact likelihood (CSS then ML) in order of
+	// score until one succeeds.
+	var errs []string
+	for _, i := range order {
+		sp := res.Candidates[i].Spec
+		sp.Method = CSSThenML
+		f, err := sp.fitWith(ctx, y, fullOpt)
+		if err == nil {
+			err = nearUnitRoot(f)
+		}
+		if err == nil {
+			res.Chosen = i
+			res.Fitted = f
+			return res, nil
+		}
+		if ctx.Err() != nil {
+			return nil, fmt.Errorf("arima: search: %w", ctx.Err())
+		}
+		errs = append(errs, fmt.Sprintf("%s: %v", sp, err))
+	}
+	return nil, fmt.Errorf("arima: search: %w: no candidate could be refitted by exact likelihood: %s", almanac.ErrNotFitted, strings.Join(errs, "; "))
+}
+
+// noCandidate builds the error for a search in which nothing could be
+// fitted: it wraps almanac.ErrNotFitted and the first candidate's error.
+func noCandidate(cands []Candidate) error {
+	if len(cands) == 0 {
+		return fmt.Errorf("arima: search: %w: no candidate model within the limits", almanac.ErrNotFitted)
+	}
+	return fmt.Errorf("arima: search: %w: none of %d candidate models could be fitted; first, %s: %w", almanac.ErrNotFitted, len(cands), cands[0].Spec, cands[0].Err)
+}
