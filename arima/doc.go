@@ -38,8 +38,8 @@
 // values are missing; KPSS rejects NaN (almanac.ErrMissing); Differences
 // tests the observed values of each differenced series; SeasonalStrength
 // and SeasonalDifferences fill interior gaps linearly and drop missing
-// values at the ends; ACF and PACF use the pairs where both values are
-// observed.
+// values at the ends. (The sample ACF and PACF are in package accuracy,
+// accuracy.ACF and accuracy.PACF.)
 //
 // # Numerical notes
 //

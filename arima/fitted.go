@@ -42,6 +42,8 @@ type Fitted struct {
 	sigma          float64   // √σ², kept separately so extreme scales do not under/overflow
 	covScale       []float64 // cov is for the coefficients divided by these (data scale for regression ones)
 	converged      bool
+
+	search *SearchResult // the record of the Search that chose the model, nil for Spec.Fit
 }
 
 var (
@@ -155,6 +157,11 @@ func (f *Fitted) Method() Method { return f.method }
 // line-search stall near the optimum gives false; the estimate is still
 // returned).
 func (f *Fitted) Converged() bool { return f.converged }
+
+// SearchResult returns the record of the Search that chose this model
+// (every candidate tried, with its score), or nil when the model was
+// fitted by Spec.Fit.
+func (f *Fitted) SearchResult() *SearchResult { return f.search }
 
 // Spec returns the specification that was fitted.
 func (f *Fitted) Spec() Spec { return f.spec }

@@ -153,13 +153,16 @@ type Search struct {
 	// ARIMA errors (see Spec.Regressors); the orders of differencing are
 	// then chosen on the residuals of the least-squares regression of y
 	// on a constant and the regressors, and forecasts need future values
-	// (SearchResult.ForecastWith).
+	// (Fitted.ForecastWith).
 	Regressors []Regressor
 }
 
 var _ almanac.Model = Search{}
 
-// Fit chooses and fits the model for y and returns a *SearchResult.
+// Fit chooses and fits the model for y and returns it as a *Fitted, the
+// same type Spec.Fit returns (its String gives the chosen orders). The
+// record of the search (every candidate and its score) is reachable from
+// the fitted model through Fitted.SearchResult, or by Compare.
 //
 // Special cases:
 //   - an invalid series (empty, all missing, ±Inf) gives the error of
@@ -181,7 +184,15 @@ func (s Search) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, erro
 	if err != nil {
 		return nil, err
 	}
-	return r, nil
+	return r.Model, nil
+}
+
+// Compare runs the search as Fit does and returns its record: every
+// candidate tried with its score, the index of the chosen one and the
+// chosen *Fitted (SearchResult.Model, the model Fit returns). Its special
+// cases are those of Fit.
+func (s Search) Compare(ctx context.Context, y almanac.Series) (*SearchResult, error) {
+	return s.search(ctx, y)
 }
 
 func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, error) {
@@ -320,5 +331,9 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 	if err != nil {
 		return nil, err
 	}
-	return pl.finish(ctx, y, res, fits)
+	if res, err = pl.finish(ctx, y, res, fits); err != nil {
+		return nil, err
+	}
+	res.Model.search = res
+	return res, nil
 }

@@ -51,11 +51,14 @@ func (c Candidate) String() string {
 	return str
 }
 
-// SearchResult is the model chosen by a Search: the chosen model's
-// *Fitted (refitted by exact likelihood), whose methods it has, with the
-// record of the search. It is read-only and safe for concurrent use.
+// SearchResult is the record of a Search on one series: every model
+// tried, with its score, and the chosen one. Search.Compare returns it,
+// and Fitted.SearchResult gives it for a model returned by Search.Fit. It
+// is read-only and safe for concurrent use.
 type SearchResult struct {
-	*Fitted
+	// Model is the chosen model, refitted by exact likelihood as
+	// Spec.Fit would fit it: the value Search.Fit returns.
+	Model *Fitted
 	// Criterion ranked the candidates.
 	Criterion Criterion
 	// Candidates lists every model fitted while searching, in the order
@@ -75,12 +78,6 @@ type SearchResult struct {
 	// was chosen from it (NaN otherwise).
 	SeasonalStrength float64
 }
-
-var (
-	_ almanac.Fitted       = (*SearchResult)(nil)
-	_ almanac.ParamCounter = (*SearchResult)(nil)
-	_ almanac.Simulator    = (*SearchResult)(nil)
-)
 
 // Ranked returns the indices into Candidates of the scored candidates,
 // best first (ties in candidate order), for reporting.
@@ -143,7 +140,7 @@ func (pl *searchPlan) finish(ctx context.Context, y almanac.Series, res *SearchR
 			return nil, noCandidate(res.Candidates)
 		}
 		res.Chosen = chosen
-		res.Fitted = fits[chosen]
+		res.Model = fits[chosen]
 		return res, nil
 	}
 	// Ranked by CSS: refit by exact likelihood (CSS then ML) in order of
@@ -158,7 +155,7 @@ func (pl *searchPlan) finish(ctx context.Context, y almanac.Series, res *SearchR
 		}
 		if err == nil {
 			res.Chosen = i
-			res.Fitted = f
+			res.Model = f
 			return res, nil
 		}
 		if ctx.Err() != nil {

@@ -24,17 +24,29 @@ func yearly(key string, v []float64) almanac.Series {
 	return almanac.Series{Key: key, Start: time.Date(1871, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Yearly, Values: v}
 }
 
-func searchFit(t *testing.T, s arima.Search, y almanac.Series) *arima.SearchResult {
+// searched is a model chosen by Search with the record of its search.
+type searched struct {
+	*arima.Fitted
+	*arima.SearchResult
+}
+
+// searchFit runs s.Fit, checks that it returns the chosen *arima.Fitted
+// (as Spec.Fit does) carrying its search record, and returns both.
+func searchFit(t *testing.T, s arima.Search, y almanac.Series) searched {
 	t.Helper()
 	f, err := s.Fit(context.Background(), y)
 	if err != nil {
 		t.Fatalf("%+v: %v", s, err)
 	}
-	r, ok := f.(*arima.SearchResult)
+	fit, ok := f.(*arima.Fitted)
 	if !ok {
-		t.Fatalf("Fit returned %T, want *arima.SearchResult", f)
+		t.Fatalf("Fit returned %T, want *arima.Fitted", f)
 	}
-	return r
+	r := fit.SearchResult()
+	if r == nil || r.Model != fit {
+		t.Fatalf("Fit's model has search record %p whose Model is not the model", r)
+	}
+	return searched{fit, r}
 }
 
 // TestSearchAirline: the stepwise search on log(AirPassengers).
@@ -144,7 +156,7 @@ func TestSearchFixedDifferencing(t *testing.T) {
 func TestSearchExhaustiveDeterministic(t *testing.T) {
 	y := monthly("log AirPassengers", logOf(selAirPassengers))
 	base := arima.Search{Exhaustive: true, MaxP: 1, MaxQ: 1, MaxSP: 1, MaxSQ: 1}
-	var runs []*arima.SearchResult
+	var runs []searched
 	for _, w := range []int{1, 4} {
 		s := base
 		s.Workers = w

@@ -365,7 +365,7 @@ func isoWeek(t time.Time) string {
 // shortModel is the fitted model's notation without the list of
 // regressors, which the table below it shows.
 func shortModel(f *calendarFit) string {
-	s := f.SearchResult.Fitted.String()
+	s := f.Fitted.String()
 	if i := strings.Index(s, " + regressors("); i >= 0 {
 		s = s[:i] + " + calendar regressors"
 	}

@@ -89,11 +89,11 @@ func (m calendarARIMA) Fit(ctx context.Context, y almanac.Series) (almanac.Fitte
 	if err != nil {
 		return nil, err
 	}
-	res, ok := fit.(*arima.SearchResult)
+	res, ok := fit.(*arima.Fitted)
 	if !ok {
 		return nil, fmt.Errorf("weekly: %w: arima.Search returned %T", almanac.ErrNotFitted, fit)
 	}
-	return &calendarFit{SearchResult: res, future: future, dropped: dropped}, nil
+	return &calendarFit{Fitted: res, future: future, dropped: dropped}, nil
 }
 
 // columns returns the calendar regressors on g: holiday days, the Fourier
@@ -166,7 +166,7 @@ func constant(xs []float64) bool {
 // calendarFit is a fitted calendarARIMA: the chosen ARIMA model with the
 // future regressors it forecasts with.
 type calendarFit struct {
-	*arima.SearchResult
+	*arima.Fitted
 	future  [][]float64 // MaxHorizon future values per kept regressor
 	dropped []string    // regressors left out: constant over the history
 }
@@ -209,7 +209,7 @@ func (f *calendarFit) futureFor(h int) ([][]float64, error) {
 
 // String names the ARIMA model with its regressors.
 func (f *calendarFit) String() string {
-	s := f.SearchResult.String()
+	s := f.Fitted.String()
 	if len(f.dropped) > 0 {
 		s += " (not estimable here: " + strings.Join(f.dropped, ", ") + ")"
 	}
