@@ -146,7 +146,7 @@
 //
 // Measured (one core, indicative, see Performance): the default stepwise
 // search on log air passengers (144 monthly values) tries 14 models and
-// chooses the airline model ARIMA(0,1,1)(0,1,1)[12] in 44–60 ms;
+// chooses the airline model ARIMA(0,1,1)×(0,1,1)_12 in 44–60 ms;
 // on Box, Jenkins & Reinsel's Series F it chooses AR(2) with a mean, the
 // NIST/SEMATECH e-Handbook's identification (the tests check both).
 //
@@ -182,13 +182,13 @@
 //     ms each; the search now fits candidates with looser stopping rules
 //     and refits the competitive ones (see Search), and the root screen
 //     no longer computes standard errors (a Hessian per candidate).
-//   - airline model (0,1,1)(0,1,1)[12] on log air passengers: CSS then
+//   - airline model (0,1,1)×(0,1,1)_12 on log air passengers: CSS then
 //     ML (the default) 0.67–0.75 ms per fit, 0.93–0.99 ms including the
 //     standard errors (their Hessian is computed on the first call of
 //     Coef or CoefCov); ML from zero coefficients 0.94–0.99 ms; CSS alone
 //     0.10–0.11 ms; about 76 kB and 270 allocations per fit.
 //   - one exact likelihood evaluation of that model: 30–34 µs at
-//     n = 144, 111–122 µs at n = 576; ARIMA(2,0,1)(1,0,0)[12]: 41–51 µs
+//     n = 144, 111–122 µs at n = 576; ARIMA(2,0,1)×(1,0,0)_12: 41–51 µs
 //     and 160–192 µs; 0 allocations (TestNoAllocPerLikelihood asserts
 //     it, with and without missing values). The Kalman update and the
 //     next prediction run in one pass (updatePredictARMA, bit-identical

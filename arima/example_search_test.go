@@ -51,7 +51,7 @@ func ExampleSearch() {
 		fmt.Printf("%s  %.0f  [%.0f, %.0f]\n", fc.Time(h).Format("2006-01"), fc.Mean[h], lo[h], hi[h])
 	}
 	// Output:
-	// chosen: ARIMA(1,0,1)(2,1,0)[12]
+	// chosen: ARIMA(1,0,1)×(2,1,0)_12
 	// candidates tried: 38, AICc 696.7
 	// 2025-01  265  [247, 282]
 	// 2025-02  283  [264, 301]
@@ -75,11 +75,11 @@ func ExampleSearch_Compare() {
 		fmt.Printf("%-36s BIC %.1f\n", c, c.Score)
 	}
 	// Output:
-	// chosen: ARIMA(1,0,1)(1,1,0)[12]
+	// chosen: ARIMA(1,0,1)×(1,1,0)_12
 	// grid size: 32
-	// ARIMA(1,0,1)(1,1,0)[12]              BIC 711.5
-	// ARIMA(1,0,1)(1,1,0)[12] + drift      BIC 715.6
-	// ARIMA(1,0,0)(0,1,1)[12]              BIC 722.2
+	// ARIMA(1,0,1)×(1,1,0)_12              BIC 711.5
+	// ARIMA(1,0,1)×(1,1,0)_12 + drift      BIC 715.6
+	// ARIMA(1,0,0)×(0,1,1)_12              BIC 722.2
 }
 
 // ExampleSearch_regressors chooses the ARIMA errors of a regression on a

@@ -199,7 +199,7 @@ func (f *Fitted) FittedValues() []float64 {
 	return out
 }
 
-// String returns the model in the usual notation, "ARIMA(0,1,1)(0,1,1)[12]",
+// String returns the model in the notation of Spec.String, "ARIMA(0,1,1)×(0,1,1)_12",
 // with the deterministic and regression terms appended in our own form:
 // " + mean" or " + drift" when present and " + regressors(name, ...)"
 // when regressors were used, e.g.

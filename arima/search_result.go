@@ -37,7 +37,7 @@ type Candidate struct {
 }
 
 // String returns the candidate in the notation of Fitted.String:
-// "ARIMA(1,1,0)(0,1,1)[12]", with " + mean" or " + drift" when it has a
+// "ARIMA(1,1,0)×(0,1,1)_12", with " + mean" or " + drift" when it has a
 // constant.
 func (c Candidate) String() string {
 	str := c.Spec.String()

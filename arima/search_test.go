@@ -52,7 +52,7 @@ func searchFit(t *testing.T, s arima.Search, y almanac.Series) searched {
 // TestSearchAirline: the stepwise search on log(AirPassengers).
 //
 // The well-known answer of the automatic stepwise algorithm on
-// log(AirPassengers) is ARIMA(0,1,1)(0,1,1)[12], the airline model of Box &
+// log(AirPassengers) is ARIMA(0,1,1)×(0,1,1)_12, the airline model of Box &
 // Jenkins (recalled from memory). The check that can fail independently of
 // that memory: the chosen model's AICc is not above the AICc of the airline
 // model fitted directly on the same differencing (d = 1, D = 1; Box &
@@ -72,8 +72,8 @@ func TestSearchAirline(t *testing.T) {
 	if got := r.AICc(); got > want+1e-9*math.Abs(want) {
 		t.Errorf("chosen %s has AICc %.6f, above the airline model's %.6f", r, got, want)
 	}
-	if got := r.String(); got != "ARIMA(0,1,1)(0,1,1)[12]" {
-		t.Errorf("chose %s, want ARIMA(0,1,1)(0,1,1)[12] (recalled from memory as the stepwise algorithm's answer)", got)
+	if got := r.String(); got != "ARIMA(0,1,1)×(0,1,1)_12" {
+		t.Errorf("chose %s, want ARIMA(0,1,1)×(0,1,1)_12 (recalled from memory as the stepwise algorithm's answer)", got)
 	}
 	// The record of the search: the chosen candidate is scored, its
 	// score is the smallest, and it matches the returned model.

@@ -492,8 +492,8 @@ func TestEnumStrings(t *testing.T) {
 		{FinitePrior.String(), "finite"}, {DiffusePrior.String(), "diffuse"}, {Prior(4).String(), "Prior(4)"},
 		{ConstantAuto.String(), "auto"}, {ConstantNone.String(), "none"}, {ConstantInclude.String(), "include"}, {Constant(5).String(), "Constant(5)"},
 		{Spec{P: 1, D: 1, Q: 1}.String(), "ARIMA(1,1,1)"},
-		{Spec{D: 1, Q: 1, SD: 1, SQ: 1, Period: 12}.String(), "ARIMA(0,1,1)(0,1,1)[12]"},
-		{Spec{SP: 1}.String(), "ARIMA(0,0,0)(1,0,0)[s]"},
+		{Spec{D: 1, Q: 1, SD: 1, SQ: 1, Period: 12}.String(), "ARIMA(0,1,1)×(0,1,1)_12"},
+		{Spec{SP: 1}.String(), "ARIMA(0,0,0)×(1,0,0)_s"},
 	} {
 		if tc.got != tc.want {
 			t.Errorf("got %q, want %q", tc.got, tc.want)
