@@ -231,7 +231,7 @@ func TestPartlyFixed(t *testing.T) {
 	if fit.NumParams() != 1 {
 		t.Errorf("NumParams = %d, want 1", fit.NumParams())
 	}
-	a, r := tol(t, f, "coef")
+	a, r, _ := tol(t, f, "coef")
 	numtest.Scalar(t, "sma1", c["sma1"].Value, f.Float(t, "expect.coef.sma1"), a, r)
 }
 
