@@ -54,6 +54,10 @@ type kalman struct {
 	rIdx []int
 	u    []float64 // scratch column
 
+	// Chandrasekhar recursions (filterChandrasekhar): gain K, direction W
+	// of the covariance change and its image T W, each of length r.
+	ck, cw, ctw []float64
+
 	// diffuseStart work space: C (r×nd, by column), S (nd×nd), z (nd).
 	cm, sm, zv []float64
 
@@ -108,6 +112,9 @@ func (k *kalman) resize(p, q int, delta []float64) {
 		k.phiIdx = make([]int, 0, r)
 	}
 	k.rv = grow(k.rv, r)
+	k.ck = grow(k.ck, r)
+	k.cw = grow(k.cw, r)
+	k.ctw = grow(k.ctw, r)
 	k.g = grow(k.g, r)
 	k.mc = grow(k.mc, r+1)
 	k.gam = grow(k.gam, max(r, nd)+1)

@@ -29,6 +29,11 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 	r, rd := k.r, k.rd
 	st := r + 1
 	var res filterResult
+	if resid == nil && !noChandrasekhar && n > nd && (nd == 0 || k.exact) && !hasNaN(w) {
+		// Only the sums are wanted, and the ARMA filter starts from its
+		// stationary covariance: the O(r) recursions give them.
+		return k.filterChandrasekhar(w, nd)
+	}
 	start := 0
 	clear(k.px)
 	clear(k.pxnew)
@@ -322,6 +327,20 @@ func (k *kalman) predictARMA() {
 		}
 	}
 }
+
+// hasNaN reports whether w has a missing value.
+func hasNaN(w []float64) bool {
+	for _, v := range w {
+		if math.IsNaN(v) {
+			return true
+		}
+	}
+	return false
+}
+
+// noChandrasekhar makes filter use the covariance recursions for every
+// likelihood evaluation (for the tests that compare the two).
+var noChandrasekhar bool
 
 // separateUpdate makes filter run the update and predictARMA separately
 // instead of updatePredictARMA (for the test that they agree bit for bit).

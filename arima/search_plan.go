@@ -42,10 +42,26 @@ func (pl *searchPlan) spec(p, q, sp, sq int, constant bool) Spec {
 	return Spec{P: p, D: pl.d, Q: q, SP: sp, SD: pl.sd, SQ: sq, Period: pl.period, Constant: c, Method: pl.method, Regressors: pl.regs}
 }
 
+// searchPrior is the prior of the differencing states with which
+// candidates are fitted and ranked: the exact diffuse one, whose
+// likelihood is the exact likelihood of the differenced series. It
+// starts the ARMA filter from its stationary covariance, so that each
+// likelihood evaluation runs the O(r) Chandrasekhar recursions
+// (filterChandrasekhar) instead of the O(r²) covariance recursion (R's
+// finite prior κ perturbs that start). The chosen model is refitted as
+// Spec.Fit fits it (finite prior by default).
+const searchPrior = DiffusePrior
+
+// candidateFit fits candidate sp for ranking (searchPrior).
+func candidateFit(ctx context.Context, y almanac.Series, sp Spec, o optSettings) (*Fitted, error) {
+	sp.Prior = searchPrior
+	return sp.fitWith(ctx, y, o)
+}
+
 // evaluate fits one candidate and scores it.
 func (pl *searchPlan) evaluate(ctx context.Context, y almanac.Series, sp Spec) (Candidate, *Fitted) {
 	c := Candidate{Spec: sp, Score: math.Inf(1), LogLik: math.NaN()}
-	f, err := sp.fitWith(ctx, y, searchOpt)
+	f, err := candidateFit(ctx, y, sp, searchOpt)
 	if err != nil {
 		c.Err = err
 		return c, nil
@@ -79,7 +95,7 @@ const confirmMargin = 2
 // lies on the boundary may stop short of it under the looser rules), c is
 // marked rejected and confirm returns nil.
 func (pl *searchPlan) confirm(ctx context.Context, y almanac.Series, c *Candidate) *Fitted {
-	f, err := c.Spec.fitWith(ctx, y, fullOpt)
+	f, err := candidateFit(ctx, y, c.Spec, fullOpt)
 	if err == nil {
 		err = nearUnitRoot(f)
 	}

@@ -16,15 +16,20 @@ type Candidate struct {
 	// ConstantNone).
 	Spec Spec
 	// Score is the criterion value, on the likelihood used while
-	// searching (CSS when SearchResult.RankedByCSS); +Inf when the model
-	// could not be fitted or was rejected. Candidates are fitted with
-	// looser stopping rules than Spec.Fit's (see Search), which can leave
-	// Score slightly above the value of a full fit; those that come within
-	// 2 of the best, and the chosen one, are refitted with the full rules
-	// and carry the full fit's value.
+	// searching: the exact likelihood of the differenced series
+	// (DiffusePrior), or CSS when SearchResult.RankedByCSS; +Inf when the
+	// model could not be fitted or was rejected. The returned model is
+	// refitted as Spec.Fit fits it (by default with R's finite prior), so
+	// its AICc differs from the chosen candidate's Score by the difference
+	// of the two likelihoods (about 3e-3 for the airline model on log air
+	// passengers). Candidates are fitted with looser stopping rules than
+	// Spec.Fit's (see Search), which can leave Score slightly above the
+	// value of a full fit; those that come within 2 of the best, and the
+	// chosen one, are refitted with the full rules and carry the full
+	// fit's value.
 	Score float64
-	// LogLik is the log-likelihood of the candidate fit (NaN when it
-	// failed).
+	// LogLik is the log-likelihood of the candidate fit, on the
+	// likelihood Score uses (NaN when it failed).
 	LogLik float64
 	// Err says why the candidate has no score: the fitting error, or a
 	// rejection (wrapping ErrNearUnitRoot) when an AR or MA root lies
@@ -93,8 +98,10 @@ func (r *SearchResult) Ranked() []int {
 }
 
 // finish picks the best candidate (lowest score, ties to the earliest)
-// and, when the candidates were ranked by CSS, refits candidates by exact
-// likelihood in order of score until one succeeds.
+// and refits it as Spec.Fit would (exact likelihood, CSS then ML, the
+// default finite prior, full stopping rules). When that refit fails, or
+// its roots come within 1.001 of the unit circle, the next candidate in
+// order of score is refitted, until one succeeds.
 func (pl *searchPlan) finish(ctx context.Context, y almanac.Series, res *SearchResult, fits []*Fitted) (*SearchResult, error) {
 	order := make([]int, 0, len(res.Candidates))
 	for i := range res.Candidates {
@@ -139,12 +146,16 @@ func (pl *searchPlan) finish(ctx context.Context, y almanac.Series, res *SearchR
 		if chosen < 0 {
 			return nil, noCandidate(res.Candidates)
 		}
-		res.Chosen = chosen
-		res.Model = fits[chosen]
-		return res, nil
+		// The chosen one first, then the others that survived the
+		// confirmation, in order of score.
+		rest := []int{chosen}
+		for _, i := range order {
+			if i != chosen && fits[i] != nil {
+				rest = append(rest, i)
+			}
+		}
+		order = rest
 	}
-	// Ranked by CSS: refit by exact likelihood (CSS then ML) in order of
-	// score until one succeeds.
 	var errs []string
 	for _, i := range order {
 		sp := res.Candidates[i].Spec

@@ -326,16 +326,21 @@ func TestDiffuseFilterEqualsShortcut(t *testing.T) {
 	}
 	pr := newProblem(lay, y.Slice(), nil, nil, DiffusePrior)
 	coef := []float64{f.Float(t, "expect.coef.ma1"), f.Float(t, "expect.coef.sma1")}
-	fast, _ := pr.likelihood(coef, nil)
+	// With residuals the shortcut runs the covariance recursion and keeps
+	// the final state; without, the Chandrasekhar recursions give the sums.
+	fast, _ := pr.likelihood(coef, make([]float64, y.Len()))
 	a1 := append([]float64(nil), pr.kal.a...)
+	chandra, _ := pr.likelihood(coef, nil)
 	pr.kal.init()
 	pr.adjust(coef)
 	full := pr.kal.filterDiffuse(pr.w, nil)
-	if fast.nu != full.nu || fast.nu != y.Len()-13 {
-		t.Fatalf("nu %d vs %d", fast.nu, full.nu)
+	if fast.nu != full.nu || fast.nu != y.Len()-13 || chandra.nu != full.nu {
+		t.Fatalf("nu %d, %d vs %d", fast.nu, chandra.nu, full.nu)
 	}
 	numtest.Scalar(t, "ssq", full.ssq, fast.ssq, 0, 1e-10)
 	numtest.Scalar(t, "sumlog", full.sumlog, fast.sumlog, 1e-10, 1e-10)
+	numtest.Scalar(t, "ssq (Chandrasekhar)", full.ssq, chandra.ssq, 0, 1e-10)
+	numtest.Scalar(t, "sumlog (Chandrasekhar)", full.sumlog, chandra.sumlog, 1e-10, 1e-10)
 	numtest.Slice(t, "state", pr.kal.a, a1, 1e-8, 1e-10)
 	if pr.kal.diffuseLeft() {
 		t.Error("diffuse part left after complete data")
