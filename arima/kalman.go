@@ -56,7 +56,10 @@ type kalman struct {
 
 	// Chandrasekhar recursions (filterChandrasekhar): gain K, direction W
 	// of the covariance change and its image T W, each of length r.
-	ck, cw, ctw []float64
+	ck, cw []float64
+	// steadyFrom is the observation from which the last run of filter
+	// used the fixed gain (−1: never).
+	steadyFrom int
 
 	// diffuseStart work space: C (r×nd, by column), S (nd×nd), z (nd).
 	cm, sm, zv []float64
@@ -114,7 +117,6 @@ func (k *kalman) resize(p, q int, delta []float64) {
 	k.rv = grow(k.rv, r)
 	k.ck = grow(k.ck, r)
 	k.cw = grow(k.cw, r)
-	k.ctw = grow(k.ctw, r)
 	k.g = grow(k.g, r)
 	k.mc = grow(k.mc, r+1)
 	k.gam = grow(k.gam, max(r, nd)+1)

@@ -38,24 +38,25 @@ import "math"
 // remaining steps only update the state.
 func (k *kalman) filterChandrasekhar(w []float64, start int) filterResult {
 	r := k.r
-	phi, idx := k.phir, k.phiIdx
+	K, W, a := k.ck[:r], k.cw[:r], k.ax[:r]
+	phi := k.phir[:r]
 	var res filterResult
-	q := k.pnew // first column of Q0 (stride rd)
-	K, W, TW, a := k.ck, k.cw, k.ctw, k.ax
+	q := k.pnew[:r] // first column of Q0
 	clear(a)
 	// K_1 = T Q0 e₀: (T x)_i = φ_i x₀ + x_{i+1}.
 	for i := 0; i < r-1; i++ {
-		K[i] = q[i+1]
+		K[i] = phi[i]*q[0] + q[i+1]
 	}
-	K[r-1] = 0
-	for _, i := range idx {
-		K[i] += phi[i] * q[0]
-	}
+	K[r-1] = phi[r-1] * q[0]
 	F := q[0]
 	copy(W, K)
 	M := -1 / F
 	steady := false
 	delta, dIdx := k.delta, k.deltaIdx
+	// Σ log F_t is accumulated as the log of a running product, taken
+	// when the product leaves [1e-250, 1e250] (F_t < 1e4 in the sum):
+	// one logarithm per many observations instead of one each.
+	prod := 1.0
 	for l := start; l < len(w); l++ {
 		wl := w[l]
 		for _, i := range dIdx {
@@ -65,44 +66,53 @@ func (k *kalman) filterChandrasekhar(w []float64, start int) filterResult {
 		if F < fLimit {
 			res.nu++
 			res.ssq += v * v / F
-			res.sumlog += math.Log(F)
+			prod *= F
+			if prod > 1e250 || prod < 1e-250 {
+				res.sumlog += math.Log(prod)
+				prod = 1
+			}
 		}
-		// a ← T a + K v/F.
 		g := v / F
 		a0 := a[0]
-		for i := 0; i < r-1; i++ {
-			a[i] = a[i+1] + K[i]*g
-		}
-		a[r-1] = K[r-1] * g
-		for _, i := range idx {
-			a[i] += phi[i] * a0
-		}
 		if steady {
+			// a ← T a + K v/F.
+			for i := 0; i < r-1; i++ {
+				a[i] = a[i+1] + phi[i]*a0 + K[i]*g
+			}
+			a[r-1] = phi[r-1]*a0 + K[r-1]*g
 			continue
 		}
+		// One pass: a ← T a + K v/F, then with T W (element by element,
+		// each reading the old elements i and i+1 before they are
+		// overwritten) W ← T W − K (Z'W)/F and K ← K + T W M (Z'W).
 		zw := W[0]
-		// TW = T W.
-		for i := 0; i < r-1; i++ {
-			TW[i] = W[i+1]
-		}
-		TW[r-1] = 0
-		for _, i := range idx {
-			TW[i] += phi[i] * zw
-		}
 		mz := M * zw
 		Fn := F + zw*mz
 		c := zw / F
 		big := 0.0
-		for i := range W {
-			W[i] = TW[i] - K[i]*c
-			K[i] += TW[i] * mz
-			big = math.Max(big, math.Abs(W[i]))
+		for i := 0; i < r; i++ {
+			var an, tw float64
+			if i+1 < r {
+				an, tw = a[i+1], W[i+1]
+			}
+			ki := K[i]
+			a[i] = an + phi[i]*a0 + ki*g
+			tw += phi[i] * zw
+			wi := tw - ki*c
+			W[i] = wi
+			K[i] = ki + tw*mz
+			if wi > big {
+				big = wi
+			} else if -wi > big {
+				big = -wi
+			}
 		}
 		M -= mz * mz / Fn
 		F = Fn
-		if big*big*math.Abs(M) < 1e-300 || big*big*math.Abs(M) <= 0x1p-60*F {
+		if b := big * big * math.Abs(M); b < 1e-300 || b <= 0x1p-60*F {
 			steady = true
 		}
 	}
+	res.sumlog += math.Log(prod)
 	return res
 }

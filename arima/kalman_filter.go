@@ -29,7 +29,7 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 	r, rd := k.r, k.rd
 	st := r + 1
 	var res filterResult
-	if resid == nil && !noChandrasekhar && n > nd && (nd == 0 || k.exact) && !hasNaN(w) {
+	if k.chandrasekhar(w, resid) {
 		// Only the sums are wanted, and the ARMA filter starts from its
 		// stationary covariance: the O(r) recursions give them.
 		return k.filterChandrasekhar(w, nd)
@@ -93,6 +93,10 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 	}
 	delta := k.delta
 	fused := false // pxnew and axnew already hold the prediction for l
+	// steady: the predicted covariance has stopped changing (see
+	// steadyTol); same counts the steps whose gain column did not change.
+	steady, same := false, 0
+	k.steadyFrom = -1
 	for l := start; l < n; l++ {
 		wl := w[l]
 		for _, i := range k.deltaIdx {
@@ -104,6 +108,7 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 		fused = false
 		P, Pnew := k.px, k.pxnew
 		if math.IsNaN(wl) { // only without differencing
+			steady, same = false, 0 // a skipped update changes P again
 			copy(k.ax, k.axnew)
 			copy(P, Pnew)
 			if resid != nil {
@@ -126,10 +131,31 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 			k.ax[i] = k.axnew[i] + Pnew[i]*f
 		}
 		if l+1 < n && !separateUpdate {
+			fused = true
+			if steady {
+				// Fixed gain: only the state moves.
+				k.predictStateARMA()
+				continue
+			}
 			// Update and prediction in one pass over pxnew (the
 			// filtered covariance itself is needed only at the end).
 			k.updatePredictARMA(gain)
-			fused = true
+			if !noSteadyState {
+				d := 0.0
+				for i, old := range k.mc[:r] {
+					if e := math.Abs(Pnew[i] - old); e > d {
+						d = e
+					}
+				}
+				if d <= steadyTol*Pnew[0] {
+					same++
+					if steady = same > r; steady {
+						k.steadyFrom = l
+					}
+				} else {
+					same = 0
+				}
+			}
 			continue
 		}
 		// Only the lower triangle (i ≥ j) of px and pxnew is kept.
@@ -326,6 +352,39 @@ func (k *kalman) predictARMA() {
 			}
 		}
 	}
+}
+
+// chandrasekhar reports whether filter(w, resid) runs the Chandrasekhar
+// recursions: only the sums are wanted, the data are complete, and the
+// ARMA filter starts from its stationary covariance (no differencing, or
+// the exact diffuse prior).
+func (k *kalman) chandrasekhar(w, resid []float64) bool {
+	return resid == nil && !noChandrasekhar && len(w) > k.nd && (k.nd == 0 || k.exact) && !hasNaN(w)
+}
+
+// steadyTol: the predicted covariance counts as converged once its first
+// column (the gain P Z and F = Z'P Z) has changed by at most steadyTol·F
+// in each of r + 1 consecutive steps. The transition of the ARMA block
+// shifts the covariance up and to the left by one row and column a step,
+// so a change anywhere in P reaches the first column within r steps: if
+// that column stands still for r + 1 steps, so does P (to the
+// tolerance), and the filter continues with the fixed gain at O(r) per
+// step (Harvey 1989 §3.3 on the steady state; the argument is ours).
+const steadyTol = 0x1p-47 // about 7e-15
+
+// noSteadyState turns the switch to the fixed gain off (for the test
+// that compares the two).
+var noSteadyState bool
+
+// predictStateARMA writes the predicted ARMA state T ax into axnew.
+func (k *kalman) predictStateARMA() {
+	r := k.r
+	phi := k.phir
+	a, anew := k.ax, k.axnew
+	for i := 0; i < r-1; i++ {
+		anew[i] = a[i+1] + phi[i]*a[0]
+	}
+	anew[r-1] = phi[r-1] * a[0]
 }
 
 // hasNaN reports whether w has a missing value.

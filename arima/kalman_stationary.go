@@ -8,11 +8,23 @@ import (
 // covariance of the ARMA block and kappa on the diagonal of the
 // differencing block. The predicted covariance of the first observation is
 // written to pnew. It returns false when the AR part is not stationary.
-func (k *kalman) init() bool {
+func (k *kalman) init() bool { return k.initFor(false) }
+
+// initFor is init; with firstColumn only the first column of Q0 is
+// computed (all that filterChandrasekhar reads).
+func (k *kalman) initFor(firstColumn bool) bool {
 	clear(k.a)
-	clear(k.pnew)
-	if !k.stationaryCov() {
+	if firstColumn {
+		// Only the first column of Q0 is read (filterChandrasekhar).
+		clear(k.pnew[:k.r])
+	} else {
+		clear(k.pnew)
+	}
+	if !k.stationaryCov(firstColumn) {
 		return false
+	}
+	if firstColumn {
+		return true
 	}
 	rd := k.rd
 	if k.exact {
@@ -38,7 +50,7 @@ func (k *kalman) init() bool {
 // linear system of Brockwell & Davis (1991, §3.3). It returns false when
 // that system is singular or the result not finite (AR part not
 // stationary).
-func (k *kalman) stationaryCov() bool {
+func (k *kalman) stationaryCov(firstColumn bool) bool {
 	p, r, rd := k.p, k.r, k.rd
 	phi, theta := k.phi, k.theta
 	th := func(j int) float64 { // θ_j with θ_0 = 1
@@ -117,6 +129,14 @@ func (k *kalman) stationaryCov() bool {
 		}
 		P[0+rd*j] = s
 		P[j+rd*0] = s
+	}
+	if firstColumn {
+		for j := 0; j < r; j++ {
+			if v := P[j]; math.IsNaN(v) || math.IsInf(v, 0) {
+				return false
+			}
+		}
+		return P[0] > 0
 	}
 	row0 := func(j int) float64 {
 		if j >= r {
