@@ -26,9 +26,16 @@ const (
 type SearchLikelihood int
 
 const (
-	// LikelihoodAuto (the zero value): CSS while searching when the
-	// series has more than 150 observations or a period above 12 and no
-	// missing values (common practice); exact likelihood otherwise.
+	// LikelihoodAuto (the zero value): exact likelihood, unless the
+	// series is complete and n·s exceeds exactLimit (50 000; n the
+	// number of values, s the period, 1 without seasonal terms), where
+	// CSS ranks the candidates. An exact likelihood evaluation costs
+	// O(n·r) with r ≈ p + s·P the state dimension (Chandrasekhar
+	// recursions, see Search), a CSS one O(n) times the number of
+	// non-zero coefficients. (It was CSS above 150 observations or a
+	// period above 12, common practice when each exact evaluation cost
+	// O(n·r²): ranking by CSS changed the path of the stepwise search and
+	// made it miss models better by exact AICc.)
 	LikelihoodAuto SearchLikelihood = iota
 	// LikelihoodExact: every candidate by exact maximum likelihood (CSS
 	// then ML).
@@ -51,6 +58,9 @@ func (l SearchLikelihood) String() string {
 	}
 	return fmt.Sprintf("SearchLikelihood(%d)", int(l))
 }
+
+// exactLimit bounds n·s for the exact ranking of LikelihoodAuto.
+const exactLimit = 50000
 
 // NoDifferencing, given as Search.D or Search.SD, fixes that order of
 // differencing at zero (the zero value of those fields means "choose").
@@ -306,7 +316,7 @@ func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, er
 	complete := y.Missing() == 0
 	switch s.Likelihood {
 	case LikelihoodAuto:
-		if complete && (y.Len() > 150 || pl.period > 12) {
+		if complete && y.Len()*max(pl.period, 1) > exactLimit {
 			pl.method = CSS
 		}
 	case LikelihoodCSS:

@@ -328,8 +328,9 @@ func TestSearchMissingValues(t *testing.T) {
 	}
 }
 
-// TestSearchRankedByCSS: a long series is searched by CSS and the chosen
-// model refitted by exact likelihood.
+// TestSearchRankedByCSS: a series searched by CSS (LikelihoodCSS; the
+// default ranks it by exact likelihood) has its chosen model refitted by
+// exact likelihood.
 func TestSearchRankedByCSS(t *testing.T) {
 	src := rand.New(rand.NewPCG(3, 5))
 	v := make([]float64, 240)
@@ -342,9 +343,13 @@ func TestSearchRankedByCSS(t *testing.T) {
 		}
 		e1 = e
 	}
-	r := searchFit(t, arima.Search{}, yearly("invented ARMA(1,1)", v))
+	y := yearly("invented ARMA(1,1)", v)
+	if r := searchFit(t, arima.Search{}, y); r.RankedByCSS {
+		t.Error("a 240-point yearly series was searched by CSS by default")
+	}
+	r := searchFit(t, arima.Search{Likelihood: arima.LikelihoodCSS}, y)
 	if !r.RankedByCSS {
-		t.Error("a 240-point series was not searched by CSS")
+		t.Error("LikelihoodCSS: the search was not ranked by CSS")
 	}
 	if r.Method() == arima.CSS {
 		t.Errorf("chosen model fitted by %v, want an exact refit", r.Method())

@@ -489,6 +489,21 @@ func TestNoAllocPerLikelihood(t *testing.T) {
 			t.Errorf("%v with a missing value: ML objective allocates %v times per evaluation", s, n)
 		}
 	}
+	// A long series whose covariance recursion reaches the fixed gain
+	// (finite prior, seasonal differencing, period 24).
+	src := rand.New(rand.NewPCG(5, 6))
+	long := make([]float64, 960)
+	for i := range long {
+		long[i] = 10*math.Sin(2*math.Pi*float64(i%24)/24) + src.NormFloat64()
+	}
+	pr := newProblem(newLayout(1, 0, 1, 0, 1, 1, 24, false, false, nil), long, nil, nil, FinitePrior)
+	p := []float64{0.3, 0.2, -0.3}
+	if n := testing.AllocsPerRun(20, func() { pr.mlObjective(p, true) }); n != 0 {
+		t.Errorf("period 24, 960 values: ML objective allocates %v times per evaluation", n)
+	}
+	if pr.kal.steadyFrom < 0 {
+		t.Errorf("period 24, 960 values: the fixed gain was not reached")
+	}
 }
 
 func TestEnumStrings(t *testing.T) {
