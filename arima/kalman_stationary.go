@@ -68,21 +68,32 @@ func (k *kalman) stationaryCov(firstColumn bool) bool {
 		}
 		return 0
 	}
-	q := len(theta)
+	// The loops below run over the non-zero coefficients only (phiIdx,
+	// rIdx): seasonal polynomials are sparse. rv = (1, θ_1, …) holds θ_j
+	// with θ_0 = 1, phir holds φ_{i+1} at i.
+	phir, phiIdx, rv, rIdx := k.phir, k.phiIdx, k.rv, k.rIdx
 	// ψ-weights ψ_0..ψ_r.
 	psi := k.psi
 	for j := 0; j <= r; j++ {
-		v := th(j)
-		for i := 1; i <= min(j, p); i++ {
-			v += phi[i-1] * psi[j-i]
+		v := 0.0
+		if j < r {
+			v = rv[j]
+		}
+		for _, i := range phiIdx {
+			if i+1 > j {
+				break
+			}
+			v += phir[i] * psi[j-i-1]
 		}
 		psi[j] = v
 	}
 	// c_k = Σ_{j=k}^{q} θ_j ψ_{j−k}.
 	c := func(kk int) float64 {
 		s := 0.0
-		for j := kk; j <= q; j++ {
-			s += th(j) * psi[j-kk]
+		for _, j := range rIdx {
+			if j >= kk {
+				s += rv[j] * psi[j-kk]
+			}
 		}
 		return s
 	}
@@ -97,12 +108,12 @@ func (k *kalman) stationaryCov(firstColumn bool) bool {
 		clear(a)
 		for kk := 0; kk <= p; kk++ {
 			a[kk*n+kk] += 1
-			for i := 1; i <= p; i++ {
-				m := kk - i
+			for _, i := range phiIdx {
+				m := kk - i - 1
 				if m < 0 {
 					m = -m
 				}
-				a[kk*n+m] -= phi[i-1]
+				a[kk*n+m] -= phir[i]
 			}
 			k.rhs[kk] = c(kk)
 		}
@@ -114,8 +125,8 @@ func (k *kalman) stationaryCov(firstColumn bool) bool {
 		}
 		for kk := p + 1; kk < len(gam); kk++ {
 			v := c(kk)
-			for i := 1; i <= p; i++ {
-				v += phi[i-1] * gam[kk-i]
+			for _, i := range phiIdx {
+				v += phir[i] * gam[kk-i-1]
 			}
 			gam[kk] = v
 		}
@@ -124,8 +135,15 @@ func (k *kalman) stationaryCov(firstColumn bool) bool {
 	// First row: Cov(α₀, α_j) = Σ_{m=j}^{r−1} φ_{m+1} γ(m−j+1) + θ_m ψ_{m−j}.
 	for j := 0; j < r; j++ {
 		s := 0.0
-		for m := j; m < r; m++ {
-			s += ph(m+1)*gam[m-j+1] + th(m)*psi[m-j]
+		for _, m := range phiIdx {
+			if m >= j {
+				s += phir[m] * gam[m-j+1]
+			}
+		}
+		for _, m := range rIdx {
+			if m >= j {
+				s += rv[m] * psi[m-j]
+			}
 		}
 		P[0+rd*j] = s
 		P[j+rd*0] = s
