@@ -141,13 +141,18 @@ func (k *kalman) filter(w, resid []float64) filterResult {
 			// filtered covariance itself is needed only at the end).
 			k.updatePredictARMA(gain)
 			if !noSteadyState {
-				d := 0.0
-				for i, old := range k.mc[:r] {
-					if e := math.Abs(Pnew[i] - old); e > d {
-						d = e
+				// F = Pnew[0] first: while it moves, the column is not
+				// compared (the check costs O(1) a step until then).
+				tol := steadyTol * Pnew[0]
+				d := math.Abs(Pnew[0] - k.mc[0])
+				if d <= tol {
+					for i, old := range k.mc[1:r] {
+						if e := math.Abs(Pnew[i+1] - old); e > d {
+							d = e
+						}
 					}
 				}
-				if d <= steadyTol*Pnew[0] {
+				if d <= tol {
 					same++
 					if steady = same > r; steady {
 						k.steadyFrom = l
