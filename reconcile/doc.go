@@ -72,6 +72,20 @@
 // whose scales differ by many orders of magnitude are handled. Both forms
 // reproduce the reference values to about 1e-15 relative.
 //
+// Every method is positively homogeneous (reconciling c·ŷ, with
+// residuals c·E and history c·Y, gives c times the result) and W matters
+// only up to a factor, so each step's base vector, the residuals and the
+// history are divided by a power of two taken from their largest
+// magnitude, reconciled, and multiplied back. Multiplying by a power of
+// two is exact in float64, so this changes no bit of any result for
+// ordinary data and makes scaling by powers of two exact; for values near
+// the float64 limit (about 1e308, or residuals beyond 1e154 whose squares
+// would overflow) it keeps intermediate sums from overflowing, so every
+// representable answer comes out. An answer that is itself beyond
+// ±MaxFloat64 (a total of bottom series near the limit, a band or a
+// covariance reaching past it) is an error wrapping almanac.ErrNonFinite,
+// never ±Inf or NaN with a nil error.
+//
 // The shrinkage intensity is λ = Σ_{i≠j} Var(r_ij) / Σ_{i≠j} r_ij², with
 // r the correlations of W1 and Var(r_ij) = Σ_t (w_tij − w̄_ij)² / (T(T−1)),
 // w_tij = z_ti z_tj for the standardised residuals z, computed in two

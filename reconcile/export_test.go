@@ -17,14 +17,13 @@ func RowAllocs(st Structure, spec Spec, y []float64) (float64, error) {
 	if err != nil {
 		return 0, err
 	}
-	b := make([]float64, st.NumBottom())
+	w := p.newWork()
 	rec := make([]float64, st.Len())
 	var runErr error
 	allocs := testing.AllocsPerRun(50, func() {
-		if err := p.bottomsTo(b, y, 0); err != nil {
+		if _, err := p.rowTo(rec, y, 0, w); err != nil {
 			runErr = err
 		}
-		p.c.aggregateRow(rec, b)
 	})
 	return allocs, runErr
 }

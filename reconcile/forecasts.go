@@ -99,8 +99,25 @@ func Forecasts(st Structure, fcs []almanac.Forecast, spec Spec, levels ...float6
 		if err != nil {
 			return nil, fmt.Errorf("reconcile: %w", err)
 		}
+		if err := checkBounds(out[i], c.names[i]); err != nil {
+			return nil, err
+		}
 	}
 	return out, nil
+}
+
+// checkBounds returns an error wrapping almanac.ErrNonFinite when an
+// interval bound of f is not a finite number (a band reaching beyond the
+// float64 range).
+func checkBounds(f almanac.Forecast, node string) error {
+	for _, iv := range f.Intervals {
+		for t := range iv.Lower {
+			if lo, hi := iv.Lower[t], iv.Upper[t]; math.IsInf(lo, 0) || math.IsNaN(lo) || math.IsInf(hi, 0) || math.IsNaN(hi) {
+				return fmt.Errorf("reconcile: %w: the %v%% band of node %q at step %d is [%v, %v], beyond the float64 range", almanac.ErrNonFinite, iv.Level, node, t+1, lo, hi)
+			}
+		}
+	}
+	return nil
 }
 
 // reconcileDists returns one reconciled distribution per node, or nil
@@ -157,8 +174,8 @@ func reconcileSamples(p *plan, samples []*almanac.Sample, h int) ([]almanac.Dist
 		}
 	}
 	y := make([]float64, n)
-	b := make([]float64, c.m)
 	rec := make([]float64, n)
+	w := p.newWork()
 	for k := 0; k < np; k++ {
 		for t := 0; t < h; t++ {
 			for i, s := range samples {
@@ -168,10 +185,13 @@ func reconcileSamples(p *plan, samples []*almanac.Sample, h int) ([]almanac.Dist
 				}
 				y[i] = v
 			}
-			if err := p.bottomsTo(b, y, t); err != nil {
+			bad, err := p.rowTo(rec, y, t, w)
+			if err != nil {
 				return nil, err
 			}
-			c.aggregateRow(rec, b)
+			if bad >= 0 {
+				return nil, notRepresentable(fmt.Sprintf("reconciled sample path %d", k), c.names[bad], t)
+			}
 			for i, v := range rec {
 				paths[i][k][t] = v
 			}
@@ -212,10 +232,7 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 		if err != nil {
 			return nil, err
 		}
-		rows, err := completeRows(c, spec.Residuals, "residuals")
-		if err != nil {
-			return nil, err
-		}
+		rows := est.rows // in the unit of est.W
 		lambda = est.Lambda
 		zt = mat.NewDense(n, len(rows), nil)
 		for k := 0; k < n; k++ {
@@ -233,27 +250,36 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 		sds[i] = make([]float64, h)
 	}
 	y := make([]float64, n)
-	b := make([]float64, c.m)
 	rec := make([]float64, n)
+	sd := make([]float64, n)
+	w := p.newWork()
 	var sg0 *mat.Dense
 	var sg mat.Dense
 	for t := 0; t < h; t++ {
 		for i, d := range normals {
 			y[i] = d.Mean[t]
+			sd[i] = d.SD[t]
 		}
-		if err := p.bottomsTo(b, y, t); err != nil {
+		bad, err := p.rowTo(rec, y, t, w)
+		if err != nil {
 			return nil, err
 		}
-		c.aggregateRow(rec, b)
-		// M = S G_t D_t; variance of node i = m_i R m_i'.
+		if bad >= 0 {
+			return nil, notRepresentable("reconciled mean", c.names[bad], t)
+		}
+		// M = S G_t D_t; variance of node i = m_i R m_i'. The standard
+		// deviations are divided by a power of two 2^e (scale.go) so that
+		// their squares cannot overflow.
 		if t == 0 || p.split != nil && !p.split.fixed {
 			sg0 = sumRows(c, p.gAt(t))
 		}
+		e := expOf(sd)
+		scaleInto(sd, sd, e)
 		sg.CloneFrom(sg0)
 		for i := 0; i < n; i++ {
 			row := sg.RawRowView(i)
 			for k := range row {
-				row[k] *= normals[k].SD[t]
+				row[k] *= sd[k]
 			}
 		}
 		for i := 0; i < n; i++ {
@@ -278,7 +304,11 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 			}
 		}
 		for i := 0; i < n; i++ {
-			sds[i][t] = math.Sqrt(max(sds[i][t], 0))
+			v := math.Ldexp(math.Sqrt(max(sds[i][t], 0)), e)
+			if math.IsInf(v, 0) {
+				return nil, notRepresentable("reconciled standard deviation", c.names[i], t)
+			}
+			sds[i][t] = v
 		}
 	}
 	out := make([]almanac.Distribution, n)
