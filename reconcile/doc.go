@@ -24,14 +24,64 @@
 //	reconcile.MinT(st, base, residuals, reconcile.Shrinkage)
 //	reconcile.Reconcile(st, base, reconcile.Spec{Residuals: residuals, NonNegative: true})
 //
+// Reconciled forecasts with their distributions come in one call from a
+// batch of fitted models, one per node:
+//
+//	results, err := almanac.BatchFit(ctx, smoothing.Select{}, series, almanac.BatchOptions{})
+//	rec, err := reconcile.FromBatch(ctx, st, results, 12, reconcile.Spec{NonNegative: true}, 80, 95)
+//
+// (FromFits takes []almanac.Fitted; Forecasts takes base forecasts.)
+//
 // The projection methods use b = G ŷ with G = (S' W⁻¹ S)⁻¹ S' W⁻¹: W = I
 // (OLS), W = diag(S 1) (WLS, structural scaling), W = diag(W1) (WLS,
 // variance scaling), W = W1 (MinT, sample) or the shrinkage estimate
 // (MinT, shrinkage), where W1 = E'E / T is the uncentred covariance of the
 // in-sample one-step residuals E (see EstimateCovariance). Forecasts
 // reconciles whole []almanac.Forecast values including their
-// distributions: sample paths are reconciled path by path, Gaussian
-// forecasts get the covariance S G Σ G' S' (ReconciledCovariance).
+// distributions: sample paths are made joint across the nodes (below) and
+// reconciled path by path, Gaussian forecasts get the covariance
+// S G Σ G' S' (ReconciledCovariance) with the residuals' correlation in Σ.
+//
+// # Joint sample paths
+//
+// A total's band is only as wide as its parts' errors make it, and the
+// errors of related series move together: with two parts of equal
+// variance and correlation ρ the total's variance is 1 + ρ times what
+// independent errors give. So FromFits, FromBatch and Forecasts tie the
+// nodes' sample paths together before reconciling them (Spec.Draw; the
+// default is JointBootstrap). Path k of node i is
+//
+//	ŷ_i + L_i z_i^(k),
+//
+// with ŷ_i the node's point forecasts, L_i the lower-triangular Cholesky
+// factor of the h × h covariance of the node's own simulated paths (so
+// each node keeps its model's spread at every step and the correlation
+// of its errors across steps, which makes sums over the horizon — an
+// annual total — right), and z^(k) innovations whose h rows, one per step
+// and drawn independently, carry the dependence between the nodes:
+// JointBootstrap resamples whole time points of the in-sample residuals
+// of all nodes together, each node's residuals centred and scaled to
+// variance 1 (the residual bootstrap of Panagiotelis, Gamakumara,
+// Athanasopoulos & Hyndman 2023, with each model's own error dynamics);
+// JointGaussian draws Gaussian vectors with the correlation of the
+// covariance the reconciliation estimates. For a linear model with
+// Gaussian innovations L_i is σ_i times the model's lower-triangular matrix
+// of impulse responses (common practice: the h-step error of a linear
+// model is the sum of its impulse responses times the innovations), so
+// the joint paths have exactly the model's h-step covariances, and the
+// innovations of different nodes are correlated at equal times only, as
+// one-step residuals are. For other models (multiplicative errors,
+// transformations) the paths keep the first two moments of each model's
+// errors, not their shape. The joint draws need at least 10 time points
+// at which every node has a residual. IndependentPaths leaves each node's
+// paths independent and is there for comparison and for paths that are
+// already joint.
+//
+// Measured (TestJointPathsTotalVariance): three correlated random walks
+// (correlations 0.5 to 0.7) under a two-level hierarchy, naive base
+// models, 4000 paths: the total's variance from the joint paths was 0.95
+// to 1.07 times the simulation's at steps 1 and 12 and for the sum over 12
+// steps, whatever the method and draw; independent draws gave 0.47 of it.
 //
 // # Non-negative reconciliation
 //
@@ -53,7 +103,10 @@
 // almanac.ErrMissing, ±Inf one wrapping almanac.ErrNonFinite. Rows of
 // residuals or history that hold a NaN are dropped (complete cases), so
 // the first residual of a model that has none (NaN) costs one row; ±Inf
-// there is an error.
+// there is an error. The joint sample paths resample the time points at
+// which every node has a residual, and measure each node's error
+// covariance on its complete paths (a simulated path that left its
+// model's domain, NaN from there on, is skipped).
 //
 // # Numerical notes
 //
@@ -121,9 +174,16 @@
 //	OLS / WLS structural, n = 211               0.8–1.1 ms
 //	bottom-up / top-down (forecast proportions) 0.03 / 0.04 ms
 //	Forecasts, Gaussian, MinT shrinkage, n=211  28 ms     10 MB
+//	Forecasts, 1000 paths × 12 steps, n = 211:  CPU time from a profile
+//	  joint bootstrap + MinT shrinkage          about 0.6 s  94 MB
+//	  of which the joint draws                  about 0.1 s  (the rest:
+//	  reconciling 12,000 vectors and sorting the paths for the bands)
 //
 // The cost of MinT is dominated by the Cholesky check of W (n³/3) and the
-// shrinkage intensity (T n²); the per-step work allocates nothing. All
+// shrinkage intensity (T n²); the per-step work allocates nothing. The
+// joint draws cost O(n P h²) for P paths of h steps (each node's factor
+// and its paths) plus, for JointGaussian, O(n² P h) or O(n T P h); they
+// hold the base and the reconciled paths, 16 n P h bytes, at once. All
 // linear algebra is dense, which suits structures up to a few thousand
 // nodes; bottom-up and top-down never form a matrix.
 //
@@ -153,7 +213,8 @@
 // Panagiotelis, A., Gamakumara, P., Athanasopoulos, G. & Hyndman, R. J.
 // (2023). Probabilistic forecast reconciliation: properties, evaluation
 // and score optimisation. European Journal of Operational Research
-// 306(2), 693–706. (Reconciling sample paths.)
+// 306(2), 693–706. (Reconciling sample paths; joint base paths by
+// resampling the residuals of all series at common time points.)
 //
 // Schäfer, J. & Strimmer, K. (2005). A shrinkage approach to large-scale
 // covariance matrix estimation and implications for functional genomics.

@@ -83,6 +83,24 @@ type Spec struct {
 	// over the non-negative coherent forecasts (bottom-up and the
 	// projection methods only).
 	NonNegative bool
+
+	// The fields below matter only where distributions are reconciled
+	// (Forecasts, FromFits, FromBatch); Reconcile ignores them.
+
+	// Draw is how the nodes' forecast errors are tied together; the zero
+	// value is JointBootstrap, which needs Residuals. See Draw.
+	Draw Draw
+	// Paths is the number of joint sample paths to make: by default
+	// 1000 in FromFits and FromBatch, and in Forecasts as many as the
+	// base forecast with the most paths carries. Negative is invalid.
+	// IndependentPaths in Forecasts keeps the paths given and ignores
+	// Paths.
+	Paths int
+	// Seed seeds the random streams (math/rand/v2 PCG): the same Seed and
+	// inputs give bit-identical paths. FromFits draws node i's paths with
+	// rand.NewPCG(Seed, i+1) and ties the nodes together with
+	// rand.NewPCG(Seed, 0).
+	Seed uint64
 }
 
 // plan is a resolved Spec: the map from base forecasts to reconciled

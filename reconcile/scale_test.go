@@ -253,7 +253,7 @@ func TestExtremeDistributions(t *testing.T) {
 			}
 			fcs[i] = f
 		}
-		got, err := reconcile.Forecasts(h, fcs, reconcile.Spec{Method: reconcile.MethodOLS}, 80)
+		got, err := reconcile.Forecasts(h, fcs, reconcile.Spec{Method: reconcile.MethodOLS, Draw: reconcile.IndependentPaths}, 80)
 		if err != nil {
 			t.Fatal(err)
 		}
