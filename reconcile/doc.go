@@ -158,7 +158,10 @@
 // the output into blocks each summed in a fixed order, so the result does
 // not depend on scheduling.) Results are bit-identical from run to run and
 // whatever the number of goroutines. Reconcile many independent structures (or forecast
-// origins) in parallel from the caller.
+// origins) in parallel from the caller. FromFits and FromBatch draw every
+// node's paths on the calling goroutine from streams seeded by Spec.Seed,
+// so their results are bit-identical too; they check their context
+// between nodes.
 //
 // # Performance
 //

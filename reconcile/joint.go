@@ -28,13 +28,16 @@ const (
 	// (Panagiotelis, Gamakumara, Athanasopoulos & Hyndman 2023). The
 	// paths then carry the residuals' cross-series correlation, including
 	// any skew or heavy tails they share. Needs Spec.Residuals with at
-	// least 10 time points at which every node has one.
+	// least 10 time points at which every node has one. A node whose
+	// residuals do not vary there (a series constant so far) is drawn
+	// independently of the others, with standard normal innovations.
 	JointBootstrap
 	// JointGaussian is JointBootstrap with Gaussian draws in place of the
 	// resampled time points: their correlation is that of the covariance
 	// the reconciliation estimates from the residuals (the sample
 	// covariance for MethodMinTSample, the shrinkage estimate otherwise),
 	// so it is smoother than the bootstrap when there are few time points.
+	// No node's residuals may be all zero (else ErrSingular).
 	JointGaussian
 	// IndependentPaths ties nothing together: FromFits draws each node's
 	// paths from its own model on a random stream of its own, so the
@@ -241,9 +244,10 @@ func jointPaths(c *core, method Method, means [][]float64, samples [][][]float64
 	var zb [][]float64
 	var idx []int
 	var zg []float64
+	constant := make([]bool, n)
 	switch spec.Draw {
 	case DrawAuto, JointBootstrap:
-		if zb, err = standardised(c, rows); err != nil {
+		if zb, err = standardised(c, rows, constant); err != nil {
 			return nil, err
 		}
 		idx = make([]int, np*h)
@@ -272,9 +276,14 @@ func jointPaths(c *core, method Method, means [][]float64, samples [][][]float64
 		out[i] = make([][]float64, np)
 		for k := range out[i] {
 			for s := range zi {
-				if zg != nil {
+				switch {
+				case zg != nil:
 					zi[s] = zg[(k*h+s)*n+i]
-				} else {
+				case constant[i]:
+					// Independent of the other nodes: nothing in the
+					// residuals ties this node to them.
+					zi[s] = rng.NormFloat64()
+				default:
 					zi[s] = zb[idx[k*h+s]][i]
 				}
 			}
@@ -300,8 +309,9 @@ func jointPaths(c *core, method Method, means [][]float64, samples [][][]float64
 // column centred and divided by its standard deviation (denominator T, so
 // that resampling the rows gives innovations of mean 0 and variance 1
 // exactly). Each column is first divided by a power of two of its own
-// (scale.go), so residuals near the float64 limit cannot overflow.
-func standardised(c *core, rows [][]float64) ([][]float64, error) {
+// (scale.go), so residuals near the float64 limit cannot overflow. A
+// column that does not vary is marked in constant (and left zero).
+func standardised(c *core, rows [][]float64, constant []bool) ([][]float64, error) {
 	n, T := c.n(), len(rows)
 	out := make([][]float64, T)
 	for t := range out {
@@ -324,7 +334,11 @@ func standardised(c *core, rows [][]float64) ([][]float64, error) {
 		}
 		sd := math.Sqrt(ss / float64(T))
 		if !(sd > 0) {
-			return nil, fmt.Errorf("reconcile: %w: the residuals of node %q do not vary over the %d common time points, so their correlation with the other nodes is undefined", ErrSingular, c.names[i], T)
+			// Residuals that do not vary (a series constant so far, such
+			// as a discontinued item's zeros) say nothing about how the
+			// node moves with the others.
+			constant[i] = true
+			continue
 		}
 		for t, v := range col {
 			out[t][i] = (v - mean) / sd

@@ -361,10 +361,7 @@ func TestFromFitsErrors(t *testing.T) {
 			sparse[i] = float64(i%3) - 1
 		}
 	}
-	constant := make([]float64, 40)
-	for i := range constant {
-		constant[i] = 2
-	}
+	constant := make([]float64, 40) // a node whose residuals are all zero
 	cancelled, cancel := context.WithCancel(context.Background())
 	cancel()
 	ctx := context.Background()
@@ -384,7 +381,7 @@ func TestFromFitsErrors(t *testing.T) {
 		{"no residuals for one node", ctx, with(1, residualsOf{fits[1], nil}), 4, reconcile.Spec{}, nil, []error{reconcile.ErrDimension, almanac.ErrLength}},
 		{"residuals all missing", ctx, with(1, residualsOf{fits[1], nan}), 4, reconcile.Spec{}, nil, []error{almanac.ErrAllMissing}},
 		{"too few common time points", ctx, with(3, residualsOf{fits[3], sparse}), 4, reconcile.Spec{Method: reconcile.MethodBottomUp}, nil, []error{almanac.ErrTooShort}},
-		{"residuals that do not vary", ctx, with(3, residualsOf{fits[3], constant}), 4, reconcile.Spec{Method: reconcile.MethodOLS}, nil, []error{reconcile.ErrSingular}},
+		{"residuals that do not vary, Gaussian draws", ctx, with(3, residualsOf{fits[3], constant}), 4, reconcile.Spec{Method: reconcile.MethodOLS, Draw: reconcile.JointGaussian}, nil, []error{reconcile.ErrSingular}},
 		{"model without paths", ctx, with(5, pointOnly{fits[5]}), 4, reconcile.Spec{}, nil, []error{almanac.ErrNoDistribution}},
 		{"bad horizon", ctx, fits, 0, reconcile.Spec{}, nil, []error{almanac.ErrHorizon}},
 		{"bad level", ctx, fits, 4, reconcile.Spec{}, []float64{100}, []error{almanac.ErrLevel}},
@@ -405,6 +402,21 @@ func TestFromFitsErrors(t *testing.T) {
 			}
 		})
 	}
+	t.Run("residuals that do not vary, bootstrap", func(t *testing.T) {
+		// The node is drawn independently of the others and keeps the
+		// spread of its own paths.
+		rec, err := reconcile.FromFits(ctx, h, with(3, residualsOf{fits[3], constant}), 4, reconcile.Spec{Method: reconcile.MethodOLS, Paths: 2000}, 80)
+		if err != nil {
+			t.Fatal(err)
+		}
+		lo, hi, err := rec[3].Bounds(80)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !(hi[3] > lo[3]) {
+			t.Errorf("band [%v, %v] without spread", lo[3], hi[3])
+		}
+	})
 	t.Run("bottom-up with independent paths needs no residuals", func(t *testing.T) {
 		if _, err := reconcile.FromFits(ctx, h, with(3, residualsOf{fits[3], sparse}), 4, reconcile.Spec{Method: reconcile.MethodBottomUp, Draw: reconcile.IndependentPaths}, 80); err != nil {
 			t.Error(err)
