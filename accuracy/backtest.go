@@ -208,8 +208,13 @@ type FitFailure struct {
 	Candidate string    // the candidate's name
 	Origin    int       // index into Comparison.Origins
 	Time      time.Time // time of the origin's first forecast step
-	// Err wraps ErrBacktest and the model's own error (a recovered panic
-	// wraps almanac.ErrNotFitted).
+	// Stage is "fit", "forecast" or "panic".
+	Stage string
+	// Cause is the model's own error (for a panic, an error wrapping
+	// almanac.ErrNotFitted with the recovered value).
+	Cause error
+	// Err wraps ErrBacktest and Cause, with the series, model and origin
+	// in its text.
 	Err error
 }
 
@@ -387,7 +392,9 @@ type outcome struct {
 	fit      string
 	forecast almanac.Forecast
 	total    totalBand
-	err      error
+	err      error  // wraps ErrBacktest and cause
+	stage    string // of the failure
+	cause    error  // the model's own error
 }
 
 // execute runs every job of the plans (nil plans are skipped) on the
@@ -473,7 +480,7 @@ func (b Backtest) execute(ctx context.Context, plans []*plan) ([][][]outcome, er
 func runOne(ctx context.Context, p *plan, ci, oi, paths int) (res outcome) {
 	c, o := p.candidates[ci], p.origins[oi]
 	fail := func(what string, err error) outcome {
-		return outcome{err: fmt.Errorf("accuracy: %w: series %q, model %q, origin %d (%s): %s: %w",
+		return outcome{stage: what, cause: err, err: fmt.Errorf("accuracy: %w: series %q, model %q, origin %d (%s): %s: %w",
 			ErrBacktest, p.y.Key, c.Name, o.Index, o.Time.Format(time.DateOnly), what, err)}
 	}
 	defer func() {
@@ -530,7 +537,7 @@ func (b Backtest) assemble(p *plan, outs [][]outcome, series int) *Comparison {
 				r.Fits[o] = oc.fit
 				r.Forecasts[o] = oc.forecast
 			case oc.err != nil:
-				r.Failures = append(r.Failures, FitFailure{Series: series, Key: p.y.Key, Candidate: cand.Name, Origin: o, Time: org.Time, Err: oc.err})
+				r.Failures = append(r.Failures, FitFailure{Series: series, Key: p.y.Key, Candidate: cand.Name, Origin: o, Time: org.Time, Stage: oc.stage, Cause: oc.cause, Err: oc.err})
 			default:
 				c.Partial = true
 			}
@@ -696,8 +703,7 @@ func (c *Comparison) unscored(cancelled error) error {
 			continue
 		}
 		if len(r.Failures) > 0 {
-			return fmt.Errorf("accuracy: %w: series %q: model %q completed none of the %d origins; the first failure: %w",
-				ErrBacktest, c.Key, r.Name, len(c.Origins), r.Failures[0].Err)
+			return fmt.Errorf("%w; model %q completed none of the %d origins", r.Failures[0].Err, r.Name, len(c.Origins))
 		}
 		return fmt.Errorf("accuracy: backtest: series %q: model %q not fitted before the cancellation: %w", c.Key, r.Name, cancelled)
 	}

@@ -435,7 +435,7 @@ func TestBatchRenderLeftOut(t *testing.T) {
 		t.Fatal(err)
 	}
 	text := buf.String()
-	for _, want := range []string{"backtest of 3 series, 1 scored", "2 of 3 series left out", "  from 1951: accuracy: backtest failed", "  (series 2): accuracy: backtest failed"} {
+	for _, want := range []string{"backtest of 3 series, 1 compared", "2 of 3 series left out of the averages", "  from 1951: accuracy: backtest failed", "  (series 2): accuracy: backtest failed", "6 fits failed (picky 3, picky2 3)", "  from 1951, picky, origin 1960-05-01, fit: test model: "} {
 		if !strings.Contains(text, want) {
 			t.Errorf("text lacks %q:\n%s", want, text)
 		}

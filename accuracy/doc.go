@@ -67,7 +67,12 @@
 // result overflows to NaN (errors of +Inf and −Inf summed, Inf/Inf) give
 // an error wrapping almanac.ErrNonFinite; sMAPE terms are scaled so that
 // they never overflow. Summary tables (Scores) hold NaN for such a
-// measure and keep the others.
+// measure and keep the others. Batch averages take each measure over the
+// series where it is defined, so one series with a zero does not make
+// MAPE undefined for a whole catalogue; BatchComparison.Counts and the
+// renderings say over how many series each average was taken. The
+// tracking signal is shown per series, with its meaning, and never
+// averaged across series.
 //
 // # Numerical notes
 //
