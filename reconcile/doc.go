@@ -79,9 +79,16 @@
 //
 // Measured (TestJointPathsTotalVariance): three correlated random walks
 // (correlations 0.5 to 0.7) under a two-level hierarchy, naive base
-// models, 4000 paths: the total's variance from the joint paths was 0.95
-// to 1.07 times the simulation's at steps 1 and 12 and for the sum over 12
-// steps, whatever the method and draw; independent draws gave 0.47 of it.
+// models, 2000 paths: the total's variance from the joint paths was 0.92
+// to 1.06 times the simulation's at steps 1 and 12 and for the sum over 12
+// steps, for five methods and draws; independent draws gave 0.44 of it.
+// On the quickstart's invented garden-supplies hierarchy (automatic
+// exponential smoothing for each of its 37 nodes, three yearly origins)
+// the all-products annual 80% band widened from ±0.55–0.72% with
+// independent draws to ±0.93–1.34%, as wide as a model of the total alone
+// gives; the bands' coverage there was still about 50%, as the models'
+// one-step errors understate their errors a year ahead, which joint draws
+// cannot mend.
 //
 // # Non-negative reconciliation
 //
