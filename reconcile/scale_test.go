@@ -298,3 +298,71 @@ func TestExtremeDistributions(t *testing.T) {
 		}
 	})
 }
+
+// The joint draws at extreme scales: base paths, point forecasts and
+// residuals multiplied by c give c times the reconciled paths (the draws
+// are the same; only rounding differs).
+func TestJointPathsExtremeScales(t *testing.T) {
+	sigma := mat.NewSymDense(3, []float64{4, 4.2, 1.5, 4.2, 9, 2.7, 1.5, 2.7, 2.25})
+	h, series := correlatedWalks(t, sigma, 80, 89)
+	fits := fitAll(t, almanac.Naive{}, series)
+	resid, err := reconcile.ResidualMatrix(h, fits)
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := h.Len()
+	unit := make([]almanac.Forecast, n)
+	for i, f := range fits {
+		point, err := f.Forecast(4)
+		if err != nil {
+			t.Fatal(err)
+		}
+		paths, err := f.(almanac.Simulator).Simulate(4, 300, rand.NewPCG(uint64(i), 5))
+		if err != nil {
+			t.Fatal(err)
+		}
+		unit[i] = almanac.Forecast{Start: point.Start, Freq: point.Freq, Mean: point.Mean, Dist: &almanac.Sample{Paths: paths}}
+	}
+	for _, draw := range []reconcile.Draw{reconcile.JointBootstrap, reconcile.JointGaussian} {
+		want, err := reconcile.Forecasts(h, unit, reconcile.Spec{Residuals: resid, Draw: draw}, 80)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, c := range []float64{1e-300, 1e300} {
+			t.Run(fmt.Sprintf("%v/c=%g", draw, c), func(t *testing.T) {
+				scaled := make([]almanac.Forecast, n)
+				for i, f := range unit {
+					mean := make([]float64, len(f.Mean))
+					for k, v := range f.Mean {
+						mean[k] = c * v
+					}
+					var paths [][]float64
+					for _, p := range f.SamplePaths() {
+						q := make([]float64, len(p))
+						for k, v := range p {
+							q[k] = c * v
+						}
+						paths = append(paths, q)
+					}
+					scaled[i] = almanac.Forecast{Start: f.Start, Freq: f.Freq, Mean: mean, Dist: &almanac.Sample{Paths: paths}}
+				}
+				var r mat.Dense
+				r.Scale(c, resid)
+				got, err := reconcile.Forecasts(h, scaled, reconcile.Spec{Residuals: &r, Draw: draw}, 80)
+				if err != nil {
+					t.Fatal(err)
+				}
+				for i := range got {
+					wp, gp := want[i].SamplePaths(), got[i].SamplePaths()
+					for k := range wp {
+						for s, w := range wp[k] {
+							if d := math.Abs(gp[k][s] - c*w); d > 1e-9*c*math.Abs(w) {
+								t.Fatalf("node %d path %d step %d: %v, want %v", i, k, s, gp[k][s], c*w)
+							}
+						}
+					}
+				}
+			})
+		}
+	}
+}
