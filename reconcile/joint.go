@@ -247,9 +247,7 @@ func jointPaths(c *core, method Method, means [][]float64, samples [][][]float64
 	constant := make([]bool, n)
 	switch spec.Draw {
 	case DrawAuto, JointBootstrap:
-		if zb, err = standardised(c, rows, constant); err != nil {
-			return nil, err
-		}
+		zb = standardised(c, rows, constant)
 		idx = make([]int, np*h)
 		for j := range idx {
 			idx[j] = rng.IntN(T)
@@ -311,7 +309,7 @@ func jointPaths(c *core, method Method, means [][]float64, samples [][][]float64
 // exactly). Each column is first divided by a power of two of its own
 // (scale.go), so residuals near the float64 limit cannot overflow. A
 // column that does not vary is marked in constant (and left zero).
-func standardised(c *core, rows [][]float64, constant []bool) ([][]float64, error) {
+func standardised(c *core, rows [][]float64, constant []bool) [][]float64 {
 	n, T := c.n(), len(rows)
 	out := make([][]float64, T)
 	for t := range out {
@@ -344,7 +342,7 @@ func standardised(c *core, rows [][]float64, constant []bool) ([][]float64, erro
 			out[t][i] = (v - mean) / sd
 		}
 	}
-	return out, nil
+	return out
 }
 
 // gaussianInnovations returns count Gaussian vectors of length n (flat,
