@@ -108,7 +108,8 @@ type Detection struct {
 	// Rate is the decay per period of a temporary change, in (0, 1); 0
 	// means calendar.DefaultDecayRate (0.7, as in Chen & Liu 1993).
 	Rate float64
-	// MaxRounds bounds the detect–estimate rounds (0 means 5).
+	// MaxRounds bounds the detect–estimate rounds of each pass (0 means
+	// 5).
 	MaxRounds int
 	// MaxFound bounds the number of interventions (0 means one per ten
 	// observations, at least one).
@@ -245,33 +246,13 @@ func (d Detection) detect(ctx context.Context, y almanac.Series) (*DetectionResu
 	}
 
 	res := &DetectionResult{Critical: crit, Base: base}
-	cur := base
-	var found []candidate
-	for res.Rounds < rounds {
-		res.Rounds++
-		if err := ctx.Err(); err != nil {
-			return nil, fmt.Errorf("arima: detection: %w", err)
-		}
-		added := locate(cur, y, kinds, rate, crit, found, maxFound-len(found))
-		if len(added) == 0 {
-			break
-		}
-		found = append(found, added...)
-		// Joint estimation; drop the least significant below crit, one
-		// at a time.
-		prev := append([]candidate(nil), found[:len(found)-len(added)]...)
-		stop := false
-		var f *Fitted
+	// prune fits the model with found jointly and drops, one at a time,
+	// the least significant intervention below crit.
+	prune := func(found []candidate) (*Fitted, []candidate, error) {
 		for {
-			var err error
-			if f, err = fitWith(found); err != nil {
-				if ctx.Err() != nil {
-					return nil, fmt.Errorf("arima: detection: %w", ctx.Err())
-				}
-				// The new effects cannot be estimated jointly (e.g.
-				// collinear with the others): keep the previous set.
-				found, f, stop = prev, cur, true
-				break
+			f, err := fitWith(found)
+			if err != nil {
+				return nil, nil, err
 			}
 			worst, worstT := -1, math.Inf(1)
 			coef := f.Coef()
@@ -286,13 +267,64 @@ func (d Detection) detect(ctx context.Context, y almanac.Series) (*DetectionResu
 				}
 			}
 			if worst < 0 || worstT >= crit {
+				return f, found, nil
+			}
+			found = append(found[:worst:worst], found[worst+1:]...)
+		}
+	}
+	// detectRounds runs the detect–estimate rounds from the fit cur with
+	// the interventions found so far.
+	detectRounds := func(cur *Fitted, found []candidate) (*Fitted, []candidate, error) {
+		for r := 0; r < rounds; r++ {
+			res.Rounds++
+			if err := ctx.Err(); err != nil {
+				return nil, nil, fmt.Errorf("arima: detection: %w", err)
+			}
+			added := locate(cur, y, kinds, rate, crit, found, maxFound-len(found))
+			if len(added) == 0 {
 				break
 			}
-			found = append(found[:worst], found[worst+1:]...)
+			f, kept, err := prune(append(append([]candidate(nil), found...), added...))
+			if err != nil {
+				if ctx.Err() != nil {
+					return nil, nil, fmt.Errorf("arima: detection: %w", ctx.Err())
+				}
+				// The new effects cannot be estimated jointly (e.g.
+				// collinear with the others): keep the previous set.
+				break
+			}
+			cur, found = f, kept
+			if len(found) >= maxFound {
+				break
+			}
 		}
-		cur = f
-		if stop || len(found) >= maxFound {
-			break
+		return cur, found, nil
+	}
+	cur, found, err := detectRounds(base, nil)
+	if err != nil {
+		return nil, err
+	}
+	if d.Orders == nil && len(found) > 0 {
+		// The orders were chosen on the disturbed series: choose them
+		// again with the interventions as regressors, and when they
+		// change, re-estimate, prune and look again.
+		s2 := d.Search
+		s2.Calendar.Effects = append(append([]calendar.Effect(nil), baseEffects...), eventsOf(y, found, rate)...)
+		if r2, err := s2.searchTimed(ctx, y); err == nil {
+			c := r2.Fitted.Spec()
+			if c.P != spec.P || c.D != spec.D || c.Q != spec.Q || c.SP != spec.SP || c.SD != spec.SD || c.SQ != spec.SQ || c.Constant != spec.Constant || c.Period != spec.Period {
+				old := spec
+				spec.P, spec.D, spec.Q, spec.SP, spec.SD, spec.SQ, spec.Period, spec.Constant = c.P, c.D, c.Q, c.SP, c.SD, c.SQ, c.Period, c.Constant
+				if f, kept, err := prune(append([]candidate(nil), found...)); err == nil {
+					if f2, kept2, err := detectRounds(f, kept); err == nil {
+						cur, found = f2, kept2
+					}
+				} else {
+					spec = old
+				}
+			}
+		} else if ctx.Err() != nil {
+			return nil, fmt.Errorf("arima: detection: %w", ctx.Err())
 		}
 	}
 	res.Fitted = cur
