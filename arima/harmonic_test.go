@@ -133,6 +133,27 @@ func TestHarmonicChoices(t *testing.T) {
 	if h := f.(*HarmonicFit); fmt.Sprint(h.Periods) != "[7 365.25]" {
 		t.Errorf("%s", h)
 	}
+	// Missing weeks are allowed: the forecasts stay finite.
+	gappy := weeklyStore(156, 4, nil)
+	for _, i := range []int{10, 11, 80, 150} {
+		gappy.Values[i] = math.NaN()
+	}
+	f, err = HarmonicRegression{}.Fit(context.Background(), gappy)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fc, err := f.Forecast(13, 80)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for h, v := range fc.Mean {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			t.Fatalf("step %d: %v", h+1, v)
+		}
+	}
+	if _, err := storeDetection().Fit(context.Background(), gappy); err != nil {
+		t.Errorf("detection with missing weeks: %v", err)
+	}
 	if _, err := (HarmonicRegression{Harmonics: []int{0, 7}}).Fit(context.Background(), hourlyLoad(400, 1)); !errors.Is(err, almanac.ErrInvalid) {
 		t.Errorf("7 harmonics of 168 beside 24: %v, want ErrInvalid", err)
 	}

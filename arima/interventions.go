@@ -91,6 +91,14 @@ func (iv Intervention) Event() calendar.Event {
 // The zero value chooses the ARIMA orders with the default Search, looks
 // for all three types with the critical value DefaultCritical(n) and the
 // decay rate 0.7. A Detection is a plain value, safe to share.
+//
+// Speed: every round refits the model by exact likelihood. With a long
+// seasonal period the default Search fits seasonal ARIMA models whose
+// state reaches back a whole period: on 156 invented weeks the zero
+// Detection took 0.7 s, and 74 s with four weeks missing (exact
+// likelihood throughout, on a loaded machine). For weekly and longer
+// periods give it Search{MaxSP: -1, MaxSQ: -1, SD: NoDifferencing} with
+// a calendar.Cycle in its Calendar (65–110 ms, BenchmarkDetection).
 type Detection struct {
 	// Search chooses the ARIMA orders (with its Regressors and Calendar)
 	// on the series before any intervention is found; it is not used

@@ -9,6 +9,7 @@ import (
 	"math/rand/v2"
 	"slices"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 
@@ -17,16 +18,32 @@ import (
 	"github.com/almanac-go/almanac/calendar"
 )
 
+// The demo runs once for the tests that check its result.
+var (
+	demoOnce sync.Once
+	demoRes  *result
+	demoText string
+	demoErr  error
+)
+
+func demo(t *testing.T) (*result, string) {
+	t.Helper()
+	demoOnce.Do(func() {
+		var out bytes.Buffer
+		demoRes, demoErr = run(context.Background(), &out)
+		demoText = out.String()
+	})
+	if demoErr != nil {
+		t.Fatal(demoErr)
+	}
+	return demoRes, demoText
+}
+
 // TestWeekly runs the whole demo and checks what it promises. The planted
 // effects are those of scenario.go (invented data); the tolerances are
 // this test's own choice.
 func TestWeekly(t *testing.T) {
-	var out bytes.Buffer
-	res, err := run(context.Background(), &out)
-	if err != nil {
-		t.Fatal(err)
-	}
-	text := out.String()
+	res, text := demo(t)
 
 	// The calendar effects come back with the planted sign and size:
 	// within three standard errors of the planted value (zero where the
@@ -291,11 +308,7 @@ func TestBatchFitDeterministic(t *testing.T) {
 //     size is hard to tell from the noise; with the critical value 3.0 the
 //     start on N2 shows as a temporary change, among several false ones.
 func TestInterventionsFound(t *testing.T) {
-	var out bytes.Buffer
-	res, err := run(context.Background(), &out)
-	if err != nil {
-		t.Fatal(err)
-	}
+	res, text := demo(t)
 	type want struct {
 		from, to string // ISO weeks, inclusive
 		kind     []arima.InterventionKind
@@ -331,7 +344,7 @@ func TestInterventionsFound(t *testing.T) {
 			}
 		})
 	}
-	if !strings.Contains(out.String(), "Interventions found without being told") {
+	if !strings.Contains(text, "Interventions found without being told") {
 		t.Error("output lacks the detection table")
 	}
 }
