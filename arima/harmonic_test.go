@@ -219,3 +219,49 @@ func BenchmarkHarmonic(b *testing.B) {
 		})
 	}
 }
+
+// TestHarmonicScaleInvariant: forecasts of c·y are c times those of y
+// (DESIGN.md's scale invariance), and the detection finds the same
+// interventions with sizes in proportion.
+func TestHarmonicScaleInvariant(t *testing.T) {
+	y := planted(156, 1002, 30, 80, 120)
+	for _, c := range []float64{1e-6, 3e8} {
+		yc := y.Clone()
+		for i := range yc.Values {
+			yc.Values[i] *= c
+		}
+		m := HarmonicRegression{Calendar: calendar.Design{Effects: []calendar.Effect{calendar.HolidayCount{Calendar: hardwareCalendar}}}}
+		a, err := m.Fit(context.Background(), y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := m.Fit(context.Background(), yc)
+		if err != nil {
+			t.Fatal(err)
+		}
+		fa, _ := a.Forecast(13)
+		fb, _ := b.Forecast(13)
+		for h := range fa.Mean {
+			if math.Abs(fb.Mean[h]/c-fa.Mean[h]) > 1e-6*math.Abs(fa.Mean[h]) {
+				t.Fatalf("c = %g, step %d: %v / c against %v", c, h+1, fb.Mean[h]/c, fa.Mean[h])
+			}
+		}
+		da, err := storeDetection().Fit(context.Background(), y)
+		if err != nil {
+			t.Fatal(err)
+		}
+		db, err := storeDetection().Fit(context.Background(), yc)
+		if err != nil {
+			t.Fatal(err)
+		}
+		fa2, fb2 := da.(*DetectionResult).Found, db.(*DetectionResult).Found
+		if len(fa2) != len(fb2) {
+			t.Fatalf("c = %g: %d interventions, %d unscaled", c, len(fb2), len(fa2))
+		}
+		for i := range fa2 {
+			if fa2[i].Name != fb2[i].Name || math.Abs(fb2[i].Size/c-fa2[i].Size) > 1e-4*math.Abs(fa2[i].Size) {
+				t.Errorf("c = %g: %s %v against %s %v", c, fb2[i].Name, fb2[i].Size/c, fa2[i].Name, fa2[i].Size)
+			}
+		}
+	}
+}
