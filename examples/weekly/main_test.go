@@ -356,3 +356,53 @@ func names(ivs []arima.Intervention) []string {
 	}
 	return out
 }
+
+// TestCombination: the calendar model and a dynamic harmonic regression
+// (both building their own future regressors) combine like any models,
+// with bands from their sample paths, and the combined forecast lies
+// between the members'.
+func TestCombination(t *testing.T) {
+	regs, rs := regions(), routes()
+	ys, err := generate(regs, rs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	reg := regs[rs[2].Region]
+	// The harmonic regression brings its own Fourier terms: give it the
+	// holidays and the events.
+	dhr := arima.HarmonicRegression{Calendar: calendar.Design{Effects: []calendar.Effect{calendar.HolidayCount{Calendar: reg.Cal, Name: holidayColumn}}}}
+	for _, e := range reg.Events {
+		dhr.Calendar.Effects = append(dhr.Calendar.Effects, e.rule())
+	}
+	members := []almanac.Model{model(reg), dhr}
+	fit, err := almanac.Combination{Members: members}.Fit(context.Background(), ys[2])
+	if err != nil {
+		t.Fatal(err)
+	}
+	fc, err := fit.Forecast(horizon, level)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var each [][]float64
+	for _, m := range members {
+		f, err := m.Fit(context.Background(), ys[2])
+		if err != nil {
+			t.Fatal(err)
+		}
+		mf, err := f.Forecast(horizon)
+		if err != nil {
+			t.Fatal(err)
+		}
+		each = append(each, mf.Mean)
+	}
+	lo, hi, err := fc.Bounds(level)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for h, m := range fc.Mean {
+		a, b := min(each[0][h], each[1][h]), max(each[0][h], each[1][h])
+		if m < a-1e-9*math.Abs(a) || m > b+1e-9*math.Abs(b) || !(lo[h] < m && m < hi[h]) {
+			t.Errorf("step %d: combined %.1f (band %.1f–%.1f), members %.1f and %.1f", h+1, m, lo[h], hi[h], each[0][h], each[1][h])
+		}
+	}
+}
