@@ -344,7 +344,6 @@ func anyFloats(t *testing.T, v any) []float64 {
 	return out
 }
 
-
 // checkHoltWinters: R 4.2.2 stats::HoltWinters with fixed constants and
 // predict(..., prediction.interval = TRUE, level = 0.95).
 func checkHoltWinters(t *testing.T, f *reftest.Fixture) {
