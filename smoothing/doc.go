@@ -59,14 +59,38 @@
 //
 // # Numerical notes
 //
-// The series is divided by its mean absolute value before estimation (the
-// results are mapped back), so forecasts scale with the data. Bounded
-// smoothing parameters are searched through the periodic map
+// Every ETS model is estimated and run on an internal series
+// z = (y/s0 − c)/d: s0 is the largest |y| (so y/s0 cannot overflow); for
+// models whose components are all additive c is the median and d the
+// median absolute deviation of y/s0, otherwise c = 0 and d the median.
+// States, forecasts, standard deviations and sample paths are mapped
+// back, so an additive model fitted to y + c reaches the same likelihood
+// as on y (TestShiftInvariance, relative 1e-6), scaling the data scales
+// the forecasts exactly, and data near the float64 limits give finite
+// answers wherever the answer is representable; where it is not (an
+// additive-error innovation variance above the float64 range, a forecast
+// or bound that overflows) the error wraps almanac.ErrNonFinite. Theta
+// likewise estimates on the series divided by its largest value.
+//
+// Bounded smoothing parameters are searched through the periodic map
 // ½(1 + sin u) of their box (Bounds); the admissible region is checked by
 // the Schur–Cohn test on the characteristic polynomial of the discount
-// matrix. Parameters and initial states are estimated jointly, from
-// start values given by a classical decomposition of the first seasons
-// and a line through the first ten adjusted values.
+// matrix. Parameters and initial states are estimated jointly. The
+// initial states start from the heuristic of Hyndman, Koehler, Ord &
+// Snyder (2008, §2.6.1): seasonal states from a classical decomposition
+// of the first (up to four) seasons, level and trend from a least-squares
+// line through the first ten seasonally adjusted values. The search runs
+// from four deterministic parameter starts (α, β/α, γ/(1−α), φ) =
+// (0.1, 0.01, 0.01, 0.98), (0.2, 0.1, 0.3, 0.95), (0.9, 0.05, 0.05, 0.8)
+// and (0.1, 0.9, 0.01, 0.82), each combined with those initial states, and
+// keeps the best end point. A single start ended in worse local optima:
+// on the airline passengers series the additive-season models stopped at
+// α ≈ 1, γ ≈ 0, 26 to 46 log-likelihood units below statsmodels. With
+// the four starts every one of the 386 ets_estimated fixtures (all 18
+// models on AirPassengers and 20 M3 series, statsmodels 0.13.5) is
+// reached: our log-likelihood is at least statsmodels' − 1e-3, and for
+// multiplicative seasonality (a different recursion in statsmodels) at
+// least the innovations-form likelihood at statsmodels' estimates.
 //
 // The searches use gonum.org/v1/gonum/optimize: optimize.BFGS (its
 // default bisection line search) with the exact gradient of the
@@ -77,7 +101,10 @@
 // without converging; and, if it still has not converged (a search
 // stalled along the edge of the model's domain), optimize.NelderMead
 // from the BFGS end point, restarted with a halved simplex while that
-// helps. HoltWinters.Estimate uses the same restarted NelderMead on R's
+// helps, followed by one more BFGS run from the simplex's end point
+// (the simplex alone does not reliably reach the optimum in 10 to 17
+// dimensions; TestSimplexFallback cuts every BFGS search off and checks
+// the completed fit, with three known gaps listed there). HoltWinters.Estimate uses the same restarted NelderMead on R's
 // sum of squares. Settings.Concurrent is left at 0 and no Runtime limit
 // is set, so a fit is deterministic; the context is checked before every
 // evaluation (Problem.Status). Neither the likelihood nor its gradient
@@ -163,10 +190,17 @@
 // Croston (1972), the Syntetos–Boylan approximation (2005) and
 // Teunter–Syntetos–Babai (2011) forecast a demand rate per period. The
 // states start at the first demand; the constants default to 0.1 or are
-// estimated by minimum in-sample mean squared error. They give point
-// forecasts only: asking for interval levels returns an error wrapping
-// almanac.ErrNoDistribution. A series without any demand is forecast as
-// 0.
+// estimated by minimum in-sample mean squared error. Their bands and
+// sample paths (IntermittentFit.Simulate) come from the fitted process:
+// each path draws its own demand probability and size multiplier around
+// the final smoothed states (with the steady-state variance of an
+// exponentially smoothed estimate), then demands occur independently with
+// that probability and their sizes are bootstrapped from the observed
+// demands, rescaled so every step's mean is the point forecast; paths and
+// bands are never below zero. On simulated series of known distribution
+// the upper bounds are exceeded close to the nominal rate (10–12.5% at
+// 80%, 2.9–3.8% at 95%; TestIntermittentIntervalCoverage). A series
+// without any demand is forecast as 0 with zero-width bands.
 //
 // # References
 //
