@@ -16,7 +16,11 @@ airpassengers_madm_estimated.json) and 20 M3 series (training parts): 10
 monthly and 10 quarterly, taken at evenly spaced positions of the M3 series
 list of each frequency (positions 0, k, 2k, ... with k = count // 10), a rule
 that spreads the choice over the six M3 domains and the range of lengths
-without looking at any result.
+without looking at any result. A weekly series (frequency 52) checks
+that the reference test reads any R frequency: the first 156 consecutive
+complete weeks of the Mauna Loa CO2 series in ../shared/data (weekly
+data; period 52 is above the seasonal states the library supports, so
+only the six non-seasonal models are fitted there).
 
 Independent check: the generator re-computes the log-likelihood at
 statsmodels' estimates with its own numpy transcription of the recursion in
@@ -221,15 +225,39 @@ def m3_series(folder):
     return chosen
 
 
+def co2_weekly(path):
+    rows = []
+    with open(path) as fh:
+        for row in csv.DictReader(fh):
+            rows.append((row["date"], row["co2"]))
+    run = []
+    for date, v in rows:
+        if v == "":
+            run = []
+            continue
+        run.append((date, float(v)))
+        if len(run) == 156:
+            break
+    first = pd.Timestamp(run[0][0])
+    start = [int(first.year), int((first.dayofyear - 1) // 7 + 1)]
+    return {"name": "co2_weekly", "title": "Weekly atmospheric CO2 at Mauna Loa (first 156 consecutive complete weeks)",
+            "source": "Keeling, C.D. and T.P. Whorf (2004), Atmospheric CO2 concentrations derived from flask air samples "
+                      "at sites in the SIO network, CDIAC; as shipped with statsmodels' datasets",
+            "frequency": 52, "start": start, "n": len(run), "values": [v for _, v in run]}
+
+
 def main():
     ap = argparse.ArgumentParser()
     ap.add_argument("--m3", default=os.path.join(HERE, "..", "..", "..", "..", "shared", "data", "m3"))
     ap.add_argument("--out", default=os.path.join(HERE, "..", "reference"))
     args = ap.parse_args()
     series = [("airpassengers", airpassengers(), 12, 24)] + m3_series(args.m3)
+    series.append(("co2weekly", co2_weekly(os.path.join(args.m3, "..", "co2_weekly.csv")), 52, 26))
     for name, dataset, m, h in series:
         y = [float(v) for v in dataset["values"]]
         for err, trend, damped, seas, short in models():
+            if seas and m > 24:
+                continue
             case = "sm18_%s_%s" % (name, short.lower())
             doc = fit_one(case, dataset, y, m, err, trend, damped, seas, short, h)
             with open(os.path.join(args.out, case + ".json"), "w") as fh:
