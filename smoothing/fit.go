@@ -80,6 +80,9 @@ type States struct {
 //   - fewer observations than parameters + 2 (or, with estimated
 //     seasonal states, fewer than two full seasons) wraps almanac.ErrTooShort;
 //   - a period above MaxPeriod wraps ErrPeriodTooLong;
+//   - an additive-error innovation variance or an initial state that is
+//     not representable in float64 (data of order 1e154 and above)
+//     wraps almanac.ErrNonFinite;
 //   - a constant series is not optimised: the states reproduce it
 //     exactly, Sigma2 is 0, LogLik +Inf, and the forecasts are the
 //     constant with zero-width intervals.

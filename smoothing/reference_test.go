@@ -14,10 +14,12 @@ import (
 	"github.com/almanac-go/almanac/internal/reftest"
 )
 
-// TestReference runs every fixture in testdata/reference (copied unchanged
-// from the shared reference set; each file names the software and call
-// that produced it: statsmodels 0.13.5 ETSModel for ets_known and
-// ets_estimated, R 4.2.2 stats::HoltWinters for holt_winters).
+// TestReference runs every fixture in testdata/reference (those without
+// the sm18_ prefix copied unchanged from the shared reference set, the
+// sm18_ ones written by testdata/generate/ets_statsmodels.py; each file
+// names the software and call that produced it: statsmodels 0.13.5
+// ETSModel for ets_known and ets_estimated, R 4.2.2 stats::HoltWinters
+// for holt_winters).
 func TestReference(t *testing.T) {
 	reftest.Run(t, "testdata/reference", map[string]reftest.Handler{
 		"ets_known":     checkETSKnown,
