@@ -18,9 +18,7 @@ func horizonModels() []almanac.Model {
 		Spec{Error: MultiplicativeError},
 		Spec{Error: MultiplicativeError, Trend: DampedTrend, Season: MultiplicativeSeason},
 		Spec{Error: MultiplicativeError, Trend: DampedTrend, Season: AdditiveSeason},
-		Spec{Trend: DampedTrend, Season: AdditiveSeason},
 		Spec{Error: MultiplicativeError, Trend: MultiplicativeTrend, Season: MultiplicativeSeason},
-		Theta{},
 	}
 }
 

@@ -16,17 +16,17 @@ import (
 // bands of Croston, SBA and TSB fitted to 300 periods hold what they
 // promise for fresh draws of the next 6 periods: the upper bound is
 // exceeded with the nominal tail probability ((100 − level)/2 %) within
-// four binomial standard errors over 300 × 6 draws, and no draw falls
+// four binomial standard errors over 200 × 6 draws, and no draw falls
 // below the lower bound more often than that (a demand of 0 sits on the
 // lower bound, so the lower tail is usually empty). Bands are never
-// below zero. Measured (seed 2026): upper-bound exceedance 10.3%, 11.3%
-// and 12.5% at 80% (nominal 10%) and 2.9%, 3.2% and 3.8% at 95%
-// (nominal 2.5%) for Croston, SBA and TSB; before the paths drew their
-// own demand probability (estimation uncertainty of the smoothed
-// states) TSB's 95% band was exceeded in 4.0%.
+// below zero. Measured (seed 2026): upper-bound exceedance 10.8%, 11.3%
+// and 12.9% at 80% (nominal 10%) and 2.8%, 3.1% and 3.7% at 95%
+// (nominal 2.5%) for Croston, SBA and TSB; with 300 replications, before
+// the paths drew their own demand probability (estimation uncertainty of
+// the smoothed states), TSB's 95% band was exceeded in 4.0%.
 func TestIntermittentIntervalCoverage(t *testing.T) {
 	const (
-		reps  = 300
+		reps  = 200
 		n     = 300
 		h     = 6
 		prob  = 0.3
@@ -41,7 +41,7 @@ func TestIntermittentIntervalCoverage(t *testing.T) {
 	for _, tc := range []struct {
 		name string
 		m    almanac.Model
-	}{{"Croston", smoothing.Croston{Paths: 2000}}, {"SBA", smoothing.Croston{Variant: smoothing.CrostonSBA, Paths: 2000}}, {"TSB", smoothing.TSB{Paths: 2000}}} {
+	}{{"Croston", smoothing.Croston{Paths: 1000}}, {"SBA", smoothing.Croston{Variant: smoothing.CrostonSBA, Paths: 1000}}, {"TSB", smoothing.TSB{Paths: 1000}}} {
 		m := tc.m
 		t.Run(tc.name, func(t *testing.T) {
 			rng := rand.New(rand.NewPCG(2026, 11))

@@ -23,7 +23,7 @@ func m3File(t *testing.T, name string) (train, test [][]float64) {
 	return train, test
 }
 
-// TestM3Accuracy forecasts every fifth yearly and quarterly M3 series
+// TestM3Accuracy forecasts every tenth yearly and quarterly M3 series
 // (a subset, to keep the test short) with Select and compares the
 // symmetric MAPE (mean of 200|y−f|/(|y|+|f|) over all series and
 // horizons) with Naive2 computed here on the same series as the M3
@@ -48,7 +48,7 @@ func TestM3Accuracy(t *testing.T) {
 		t.Run(tc.file, func(t *testing.T) {
 			train, test := m3File(t, tc.file)
 			sum, sumN2, cnt, series := 0.0, 0.0, 0, 0
-			for i := 0; i < len(train); i += 5 {
+			for i := 0; i < len(train); i += 10 {
 				series++
 				y := almanac.Series{Start: time.Date(1990, 1, 1, 0, 0, 0, 0, time.UTC), Freq: tc.freq, Values: train[i]}
 				fit, err := Select{}.Fit(ctx, y)

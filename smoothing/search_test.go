@@ -68,6 +68,12 @@ func estimatedProblems(t *testing.T) (names []string, probs []*problem, starts [
 func TestSimplexFallback(t *testing.T) {
 	names, probs, starts, _ := estimatedProblems(t)
 	for i, p := range probs {
+		if raceEnabled && i%8 != 0 && !fallbackGaps[names[i]] {
+			// One problem in eight under the race detector (the search
+			// runs in one goroutine; race instrumentation only slows
+			// it): every problem is checked by a plain go test.
+			continue
+		}
 		t.Run(names[i], func(t *testing.T) {
 			_, fb, _, err := p.multiStart(context.Background(), starts[i])
 			if err != nil {
