@@ -48,6 +48,18 @@
 // weights. The thresholds 0.001 and 0.999 in the tricube and bisquare
 // weights are double-precision constants.
 //
+// DecomposeTo runs on the data multiplied by a power of two chosen so
+// that the largest magnitude is near 2^256 (internal/scaling) and scales
+// the components back. STL is equivariant under scaling and such a
+// multiplication is exact, so the results are bit for bit those of the
+// unscaled computation whenever that neither overflows nor underflows
+// (the fixtures are unaffected), scaling the data by a power of two
+// scales the components exactly, and data near the float64 limit (1e308)
+// no longer overflow to NaN inside the smoothers. A component that does
+// not fit in a float64 once scaled back is reported (ErrOverflow). A
+// non-finite residual never reaches the partial sort, which assumes
+// ordered values.
+//
 // # Performance
 //
 // Measured on a 2-core box shared with seven other jobs (load average

@@ -1,0 +1,63 @@
+package scaling
+
+import "math"
+
+// Target is the binary exponent the largest magnitude is moved to: after
+// scaling by Exponent's k, max|x| lies in [2^(Target−1), 2^Target).
+const Target = 256
+
+// Exponent returns k such that the largest finite magnitude in xs, times
+// 2^k, lies in [2^(Target−1), 2^Target). NaN and ±Inf are ignored; when
+// no value is finite and non-zero it returns 0.
+func Exponent(xs ...[]float64) int {
+	m := 0.0
+	for _, x := range xs {
+		for _, v := range x {
+			if a := math.Abs(v); a > m && !math.IsInf(a, 0) {
+				m = a
+			}
+		}
+	}
+	if m == 0 {
+		return 0
+	}
+	_, e := math.Frexp(m) // m = f·2^e, f in [0.5, 1)
+	return Target - e
+}
+
+// Scale writes x·2^k into dst and returns it; dst may be x itself or nil
+// (a new slice is allocated). It panics when dst is given with a length
+// other than len(x) (a broken internal invariant).
+func Scale(dst, x []float64, k int) []float64 {
+	if dst == nil {
+		dst = make([]float64, len(x))
+	}
+	if len(dst) != len(x) {
+		panic("scaling: Scale: dst and x differ in length")
+	}
+	for i, v := range x {
+		dst[i] = math.Ldexp(v, k)
+	}
+	return dst
+}
+
+// Finite reports whether every value of x is finite (no NaN, no ±Inf).
+func Finite(x []float64) bool {
+	for _, v := range x {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return false
+		}
+	}
+	return true
+}
+
+// NoInf reports whether no value of x is ±Inf (NaN is allowed: it marks
+// a value that is missing or undefined by the method's own rules).
+func NoInf(x []float64) bool {
+	for _, v := range x {
+		if math.IsInf(v, 0) {
+			return false
+		}
+	}
+	return true
+}
