@@ -50,3 +50,18 @@ func TestScaleExact(t *testing.T) {
 		t.Errorf("NoInf/Finite wrong on %v", y)
 	}
 }
+
+// TestScaleMatchesLdexp: Scale's multiplications give the bits of
+// math.Ldexp for every exponent, subnormal results included.
+func TestScaleMatchesLdexp(t *testing.T) {
+	x := []float64{1, -1.5, math.MaxFloat64, math.SmallestNonzeroFloat64, 0x1.fffffffffffffp-1022, 3e-310, 7e300, math.NaN(), math.Inf(-1), 0}
+	for _, k := range []int{-2200, -1500, -1100, -1075, -1023, -1022, -600, -1, 1, 600, 1023, 1024, 1100, 1500, 2200} {
+		got := Scale(nil, x, k)
+		for i, v := range x {
+			want := math.Ldexp(v, k)
+			if !(got[i] == want || math.IsNaN(got[i]) && math.IsNaN(want)) {
+				t.Errorf("Scale(%v, %d) = %v, Ldexp gives %v", v, k, got[i], want)
+			}
+		}
+	}
+}
