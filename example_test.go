@@ -264,7 +264,7 @@ func ExampleNaive() {
 }
 
 func ExampleLambdaGuerrero() {
-	lam, err := almanac.LambdaGuerrero(cans, 12, 0, 0) // default search interval [-1, 2]
+	lam, err := almanac.LambdaGuerrero(cans, 12, 0, 0) // default search interval [0, 2]
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -288,18 +288,23 @@ func ExampleLambdaGuerrero() {
 }
 
 func ExampleLambdaML() {
-	lam, err := almanac.LambdaML(cans, 0, 0) // default search interval [-1, 2]
+	// Negative powers are searched only when asked for: the default
+	// interval [0, 2] stops at the log transform.
+	lam, err := almanac.LambdaML(cans, -1, 2)
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
+	def, _ := almanac.LambdaML(cans, 0, 0)
 	llf, _ := almanac.BoxCoxLLF(cans, lam)
 	llfLog, _ := almanac.BoxCoxLLF(cans, 0)
 	fmt.Printf("lambda %.3f, log-likelihood %.3f (%.3f for the log transform)\n", lam, llf, llfLog)
+	fmt.Printf("in the default interval: lambda %.3f\n", def)
 	_, err = almanac.LambdaML([]float64{5, 5, 5}, 0, 0)
 	fmt.Println(err)
 	// Output:
 	// lambda -0.053, log-likelihood -78.166 (-78.169 for the log transform)
+	// in the default interval: lambda 0.000
 	// almanac: box-cox: constant series: no lambda can be estimated
 }
 

@@ -155,7 +155,7 @@ func checkBoxCoxFixture(t *testing.T, f *reftest.Fixture) {
 		t.Fatal("fixture has no tolerance for lambda_mle")
 	}
 	numtest.Scalar(t, "lambda_mle", lam, lamRef, lamAbs, lamRel)
-	// The default search interval [-1, 2] contains scipy's maximiser too.
+	// The default search interval [0, 2] contains scipy's maximiser too.
 	lamDef, err := almanac.LambdaML(x, 0, 0)
 	if err != nil {
 		t.Fatal(err)
