@@ -18,10 +18,16 @@ func Exponent(xs ...[]float64) int {
 			}
 		}
 	}
-	if m == 0 {
+	return ExponentOfMax(m)
+}
+
+// ExponentOfMax returns Exponent's k for a largest magnitude m already
+// known (0 when m is 0, NaN or ±Inf).
+func ExponentOfMax(m float64) int {
+	if m == 0 || math.IsNaN(m) || math.IsInf(m, 0) {
 		return 0
 	}
-	_, e := math.Frexp(m) // m = f·2^e, f in [0.5, 1)
+	_, e := math.Frexp(math.Abs(m))
 	return Target - e
 }
 
