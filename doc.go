@@ -49,12 +49,17 @@
 //
 // # Batches and CSV
 //
-// BatchFit fits one Model to many series on a bounded pool of goroutines;
-// ForecastAll forecasts the results. ReadCSV reads series in long format
-// (one row per series and time, columns "series", "period" and "value"
-// unless configured), WriteSeriesCSV writes them back and WriteForecastCSV
-// writes forecasts with columns "point" and "band80_low"/"band80_high"
-// per level.
+// BatchFit fits one Model to many series on a bounded pool of goroutines
+// and returns one result per series (a panicking model gives a
+// *PanicError with its stack); ForecastAll forecasts the results. ReadCSV
+// reads series in long format (one row per series and time, columns
+// "series", "period" and "value" unless configured, rows in any order),
+// WriteSeriesCSV writes them back in the form ReadCSV reads ("2026-01" for
+// monthly data), and WriteForecastCSV writes forecasts with columns
+// "point", "band80_low"/"band80_high" per level, "status" and "reason":
+// every series of the batch has rows, a failed one a single row with
+// status "failed" and its error as the reason. Missing values are written
+// as NaN (MissingValueText) by every writer.
 //
 // # Missing values
 //
@@ -65,7 +70,7 @@
 // SeasonalNaive from the last observed value of each season, Mean
 // averages the observed values); the Box-Cox functions pass NaN through
 // and ignore it when choosing λ; ReadCSV reads empty cells and NA, N/A,
-// NaN and null as NaN.
+// NaN and null as NaN, and the writers write NaN.
 //
 // # Levels
 //

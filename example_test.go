@@ -184,13 +184,16 @@ func ExampleBatchFit() {
 }
 
 func ExampleReadCSV() {
+	// Rows may come in any order; "rakes" has a single observation, too
+	// few for the naive method, and is reported in the forecast file.
 	in := `series,period,value
-cans,2024-01-01,47
-gloves,2024-01-01,22
-cans,2024-02-01,50
-gloves,2024-02-01,NA
-cans,2024-03-01,68
-gloves,2024-03-01,27
+cans,2024-02,50
+gloves,2024-01,22
+cans,2024-01,47
+rakes,2024-03,5
+gloves,2024-02,NA
+cans,2024-03,68
+gloves,2024-03,27
 `
 	ys, err := almanac.ReadCSV(strings.NewReader(in), almanac.CSVOptions{})
 	if err != nil {
@@ -210,11 +213,13 @@ gloves,2024-03-01,27
 	// Output:
 	// cans monthly [47 50 68]
 	// gloves monthly [22 NaN 27]
-	// series,period,step,point,band80_low,band80_high
-	// cans,2024-04-01,1,68,51.4635,84.5365
-	// cans,2024-05-01,2,68,44.6139,91.3861
-	// gloves,2024-04-01,1,27,22.469,31.531
-	// gloves,2024-05-01,2,27,20.5922,33.4078
+	// rakes monthly [5]
+	// series,period,step,point,band80_low,band80_high,status,reason
+	// cans,2024-04,1,68,51.4635,84.5365,ok,
+	// cans,2024-05,2,68,44.6139,91.3861,ok,
+	// gloves,2024-04,1,27,22.469,31.531,ok,
+	// gloves,2024-05,2,27,20.5922,33.4078,ok,
+	// rakes,,,NaN,NaN,NaN,failed,"almanac: naive: series too short: 1 observed values, need at least 2"
 	// almanac: csv line 3, column "period": duplicate time: series "cans": 2024-01-01 00:00:00 +0000 UTC already given on line 2
 }
 
@@ -315,7 +320,7 @@ func ExampleWriteSeriesCSV() {
 	}
 	// Output:
 	// series,period,units
-	// cans,2024-10-01,62
-	// cans,2024-11-01,NA
-	// cans,2024-12-01,51.5
+	// cans,2024-10,62
+	// cans,2024-11,NaN
+	// cans,2024-12,51.5
 }
