@@ -698,13 +698,13 @@ func (f *BoxCoxFit) Forecast(h int, levels ...float64) (Forecast, error) {
 	// No distribution (an inner Forecast built by hand): map the point
 	// forecasts and any intervals as they are.
 	out := Forecast{Start: in.Start, Freq: in.Freq, Mean: mean}
-	if err := checkFinite("back-transformed point forecast", mean); err != nil {
+	if err := checkFiniteValues("back-transformed point forecast", mean); err != nil {
 		return Forecast{}, fmt.Errorf("almanac: box-cox: %w", err)
 	}
 	for _, iv := range in.Intervals {
 		lo, _ := BoxCoxInverse(nil, iv.Lower, lam)
 		hi, _ := BoxCoxInverse(nil, iv.Upper, lam)
-		if err := checkFinite("back-transformed bound", append(slices.Clone(lo), hi...)); err != nil {
+		if err := checkFiniteValues("back-transformed bound", append(slices.Clone(lo), hi...)); err != nil {
 			return Forecast{}, fmt.Errorf("almanac: box-cox: %w", err)
 		}
 		out.Intervals = append(out.Intervals, Interval{Level: iv.Level, Lower: lo, Upper: hi})

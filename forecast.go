@@ -68,7 +68,7 @@ func (f Forecast) Quantile(p float64) ([]float64, error) {
 	for h := range out {
 		out[h] = f.Dist.Quantile(h, p)
 	}
-	if err := checkFinite(fmt.Sprintf("the %v quantile", p), out); err != nil {
+	if err := checkFiniteValues(fmt.Sprintf("the %v quantile", p), out); err != nil {
 		return nil, err
 	}
 	return out, nil
@@ -150,7 +150,7 @@ func NewForecast(start time.Time, freq calendar.Frequency, mean []float64, dist 
 	if err := CheckLevels(levels...); err != nil {
 		return Forecast{}, err
 	}
-	if err := checkFinite("point forecast", mean); err != nil {
+	if err := checkFiniteValues("point forecast", mean); err != nil {
 		return Forecast{}, err
 	}
 	if dist == nil && len(levels) > 0 {
@@ -192,19 +192,19 @@ func NewForecast(start time.Time, freq calendar.Frequency, mean []float64, dist 
 		}
 	}
 	for _, iv := range f.Intervals {
-		if err := checkFinite(fmt.Sprintf("lower bound of the %v%% interval", iv.Level), iv.Lower); err != nil {
+		if err := checkFiniteValues(fmt.Sprintf("lower bound of the %v%% interval", iv.Level), iv.Lower); err != nil {
 			return Forecast{}, err
 		}
-		if err := checkFinite(fmt.Sprintf("upper bound of the %v%% interval", iv.Level), iv.Upper); err != nil {
+		if err := checkFiniteValues(fmt.Sprintf("upper bound of the %v%% interval", iv.Level), iv.Upper); err != nil {
 			return Forecast{}, err
 		}
 	}
 	return f, nil
 }
 
-// checkFinite returns an error wrapping ErrNonFinite naming what and the
+// checkFiniteValues returns an error wrapping ErrNonFinite naming what and the
 // first step (1-based) of x that is NaN or ±Inf.
-func checkFinite(what string, x []float64) error {
+func checkFiniteValues(what string, x []float64) error {
 	for h, v := range x {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			if math.IsNaN(v) {
