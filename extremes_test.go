@@ -21,11 +21,15 @@ func rootModels() []almanac.Model {
 		almanac.BoxCox{Model: almanac.SeasonalNaive{}, Method: almanac.LambdaFixed, Lambda: 0},
 		almanac.BoxCox{Model: almanac.Mean{}, Method: almanac.LambdaFixed, Lambda: -0.5, BiasAdjust: true},
 		almanac.BoxCox{Model: almanac.Drift{}, Method: almanac.LambdaFixed, Lambda: 0.5},
+		almanac.Combination{Members: []almanac.Model{almanac.Naive{}, almanac.Drift{}, almanac.SeasonalNaive{}}},
+		almanac.Combination{Members: []almanac.Model{almanac.Mean{}, almanac.Drift{}}, Rule: almanac.CombineInverseError},
+		almanac.Combination{Members: []almanac.Model{almanac.Naive{}, almanac.Mean{}, almanac.Drift{}}, Rule: almanac.CombineMedian},
 	}
 }
 
 // TestExtremeScales is the shared property check (issue 11, item 3) run
-// over every model of the root package: on series from 1e−300 to 1e300,
+// over every model of the root package (the combination of models
+// included): on series from 1e−300 to 1e300,
 // at ±1e308, with a single 1e308 spike, and with tiny and huge values
 // mixed, fitting, forecasting, quantiles and simulation give finite
 // numbers or an error wrapping a sentinel; never a panic, never NaN or
@@ -54,6 +58,8 @@ func modelName(m almanac.Model) string {
 		return "Drift"
 	case almanac.Mean:
 		return "Mean"
+	case almanac.Combination:
+		return "Combination"
 	}
 	return "model"
 }
