@@ -222,15 +222,17 @@ func TestReadCSVUnordered(t *testing.T) {
 // TestReadCSVLongCellQuoted (issue 11): a 10 MB bad cell used to be copied
 // into the error message whole; now a short prefix and the length are.
 func TestReadCSVLongCellQuoted(t *testing.T) {
-	big := strings.Repeat("x", 10<<20)
+	// The issue's reproducer: a 10 MB value cell. The other columns use
+	// 64 KB cells (the size does not matter beyond the 40 bytes quoted).
+	big, mid := strings.Repeat("x", 10<<20), strings.Repeat("x", 64<<10)
 	for _, tt := range []struct {
 		name, in string
 		want     error
 	}{
 		{"value", "series,period,value\na,2024-01-01," + big + "\n", almanac.ErrCSVValue},
-		{"time", "series,period,value\na," + big + ",1\n", almanac.ErrCSVTime},
-		{"key", "series,period,value\n" + big + ",2024-01-01,1\n" + big + ",2024-01-01,2\n", almanac.ErrCSVDuplicate},
-		{"multi-byte value", "series,period,value\na,2024-01-01," + strings.Repeat("é", 1<<20) + "\n", almanac.ErrCSVValue},
+		{"time", "series,period,value\na," + mid + ",1\n", almanac.ErrCSVTime},
+		{"key", "series,period,value\n" + mid + ",2024-01-01,1\n" + mid + ",2024-01-01,2\n", almanac.ErrCSVDuplicate},
+		{"multi-byte value", "series,period,value\na,2024-01-01," + strings.Repeat("é", 32<<10) + "\n", almanac.ErrCSVValue},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			_, err := almanac.ReadCSV(strings.NewReader(tt.in), almanac.CSVOptions{Freq: calendar.Monthly})

@@ -21,9 +21,10 @@ func rootModels() []almanac.Model {
 		almanac.BoxCox{Model: almanac.SeasonalNaive{}, Method: almanac.LambdaFixed, Lambda: 0},
 		almanac.BoxCox{Model: almanac.Mean{}, Method: almanac.LambdaFixed, Lambda: -0.5, BiasAdjust: true},
 		almanac.BoxCox{Model: almanac.Drift{}, Method: almanac.LambdaFixed, Lambda: 0.5},
-		almanac.Combination{Members: []almanac.Model{almanac.Naive{}, almanac.Drift{}, almanac.SeasonalNaive{}}},
-		almanac.Combination{Members: []almanac.Model{almanac.Mean{}, almanac.Drift{}}, Rule: almanac.CombineInverseError},
-		almanac.Combination{Members: []almanac.Model{almanac.Naive{}, almanac.Mean{}, almanac.Drift{}}, Rule: almanac.CombineMedian},
+		// 50 coupled paths instead of the default 1000 keep the check quick.
+		almanac.Combination{Members: []almanac.Model{almanac.Naive{}, almanac.Drift{}, almanac.SeasonalNaive{}}, Paths: 50},
+		almanac.Combination{Members: []almanac.Model{almanac.Mean{}, almanac.Drift{}}, Rule: almanac.CombineInverseError, Paths: 50},
+		almanac.Combination{Members: []almanac.Model{almanac.Naive{}, almanac.Mean{}, almanac.Drift{}}, Rule: almanac.CombineMedian, Paths: 50},
 	}
 }
 
