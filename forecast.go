@@ -202,14 +202,14 @@ func NewForecast(start time.Time, freq calendar.Frequency, mean []float64, dist 
 	return f, nil
 }
 
-// checkFiniteValues returns an error wrapping ErrNonFinite naming what and the
-// first step (1-based) of x that is NaN or ±Inf.
+// checkFiniteValues returns an error wrapping ErrNonFinite naming what
+// and the first step (1-based) of x that is NaN or ±Inf.
 func checkFiniteValues(what string, x []float64) error {
 	for h, v := range x {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			if math.IsNaN(v) {
-				return fmt.Errorf("almanac: %w: %s at step %d is undefined (NaN)", ErrNonFinite, what, h+1)
-			}
+		switch {
+		case math.IsNaN(v):
+			return fmt.Errorf("almanac: %w: %s at step %d is undefined (NaN)", ErrNonFinite, what, h+1)
+		case math.IsInf(v, 0):
 			return fmt.Errorf("almanac: %w: %s at step %d is %v, beyond the float64 range", ErrNonFinite, what, h+1, v)
 		}
 	}
