@@ -2,7 +2,6 @@ package accuracy
 
 import (
 	"math"
-	"slices"
 
 	"github.com/almanac-go/almanac/internal/scaling"
 )
@@ -271,41 +270,4 @@ func (c *cells) byStep(origins int) (steps []Scores, all Scores) {
 	all = c.summarize(idx)
 	c.selected = idx
 	return steps, all
-}
-
-// meanScores averages scores over series, field by field (NaN when any
-// series has NaN); N is the total.
-func meanScores(list []Scores) Scores {
-	var out Scores
-	if len(list) == 0 {
-		return out
-	}
-	n := float64(len(list))
-	fields := func(s *Scores) []*float64 {
-		return []*float64{&s.ME, &s.MAE, &s.MSE, &s.RMSE, &s.MAPE, &s.SMAPE, &s.MdAE, &s.MASE, &s.RMSSE, &s.TrackingSignal, &s.CRPS}
-	}
-	dst := fields(&out)
-	for _, s := range list {
-		out.N += s.N
-		for k, p := range fields(&s) {
-			*dst[k] += *p
-		}
-	}
-	for _, p := range dst {
-		*p /= n
-	}
-	out.Intervals = slices.Clone(list[0].Intervals)
-	for k := range out.Intervals {
-		iv := &out.Intervals[k]
-		iv.Coverage, iv.Score, iv.MSIS = 0, 0, 0
-		for _, s := range list {
-			iv.Coverage += s.Intervals[k].Coverage
-			iv.Score += s.Intervals[k].Score
-			iv.MSIS += s.Intervals[k].MSIS
-		}
-		iv.Coverage /= n
-		iv.Score /= n
-		iv.MSIS /= n
-	}
-	return out
 }
