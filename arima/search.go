@@ -7,6 +7,7 @@ import (
 	"runtime"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
 )
 
 // Criterion is the information criterion used to rank candidates; the
@@ -203,6 +204,10 @@ type Search struct {
 	// on a constant and the regressors, and forecasts need future values
 	// (Fitted.ForecastWith).
 	Regressors []Regressor
+	// Calendar holds regressors given as rules on the time axis, as in
+	// Spec.Calendar: every candidate has them, and the chosen model
+	// builds their future values itself.
+	Calendar calendar.Design
 }
 
 var _ almanac.Model = Search{}
@@ -228,7 +233,7 @@ var _ almanac.Model = Search{}
 //   - when no candidate can be fitted the error wraps almanac.ErrNotFitted
 //     and the first candidate's error; there is never a silent fallback.
 func (s Search) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
-	r, err := s.search(ctx, y)
+	r, err := s.searchTimed(ctx, y)
 	if err != nil {
 		return nil, err
 	}
@@ -240,7 +245,7 @@ func (s Search) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, erro
 // chosen *Fitted (SearchResult.Model, the model Fit returns). Its special
 // cases are those of Fit.
 func (s Search) Compare(ctx context.Context, y almanac.Series) (*SearchResult, error) {
-	return s.search(ctx, y)
+	return s.searchTimed(ctx, y)
 }
 
 func (s Search) search(ctx context.Context, y almanac.Series) (*SearchResult, error) {
