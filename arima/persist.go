@@ -212,6 +212,21 @@ func (b *arimaBody) load() (*Fitted, error) {
 	}
 	all := s
 	all.Fixed = fixed
+	// The stored coefficients must be the model's, every one, before
+	// anything runs: a fit with some left free would estimate them.
+	probe := all
+	if len(probe.Calendar.Effects) > 0 {
+		if probe.Regressors, probe.Fixed, _, err = expandCalendar(probe.Calendar, probe.Regressors, probe.Fixed, y.Head(n0)); err != nil {
+			return nil, err
+		}
+	}
+	lay, err := probe.resolve(y.Head(n0))
+	if err != nil {
+		return nil, err
+	}
+	if !slices.Equal(lay.names, names(b.Coef)) {
+		return nil, fmt.Errorf("coefficients %v, the model has %v", names(b.Coef), lay.names)
+	}
 	f, err := all.fit(context.Background(), y.Head(n0))
 	if err != nil {
 		return nil, err
