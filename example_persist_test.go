@@ -152,3 +152,23 @@ func ExampleRegister() {
 	// mean(EWMA(0.4), EWMA(0.8))
 	// 2025-03 53.600 53.600
 }
+
+// A refresh policy decides, after each batch of new observations,
+// whether refreshing is still enough.
+func ExampleRefreshPolicy_Decide() {
+	y := almanac.Series{Key: "store-3/nails", Start: time.Date(2024, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly,
+		Values: []float64{40, 42, 41, 43, 42, 41, 43, 42, 40, 42, 41, 43}}
+	fit, _ := ewma{Weight: 0.3}.Fit(context.Background(), y)
+	policy := almanac.RefreshPolicy{RefitAfter: 6}
+	added := 0
+	for _, month := range [][]float64{{42, 41}, {55, 57}, {58, 60}} {
+		fit, _ = almanac.Refresh(fit, month)
+		added += len(month)
+		d, _ := policy.Decide(fit, added)
+		fmt.Println(d.Reason)
+	}
+	// Output:
+	// refresh: 2 observations added, tracking signal 0.24 within ±0.50
+	// refit: tracking signal 0.85 beyond ±0.50 (the data have run above the forecasts)
+	// refit: 6 observations added since the last estimation (refit after 6)
+}
