@@ -109,6 +109,9 @@ func MarshalModel(f Fitted) ([]byte, error) {
 	if err != nil {
 		return nil, fmt.Errorf("almanac: save %s: %w", kind, err)
 	}
+	if kind == "" || version < 1 {
+		return nil, fmt.Errorf("almanac: save: %w: %T gives kind %q, version %d", ErrInvalid, f, kind, version)
+	}
 	var buf bytes.Buffer
 	if err := json.Compact(&buf, body); err != nil {
 		return nil, fmt.Errorf("almanac: save %s: %w: the body is not JSON: %v", kind, ErrInvalid, err)

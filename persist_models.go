@@ -27,6 +27,9 @@ var (
 	_ Storable = (*CombinationFit)(nil)
 )
 
+// errUnfitted is the error of saving a fitted type's zero value.
+var errUnfitted = fmt.Errorf("%w: use the value returned by Fit", ErrNotFitted)
+
 // benchmarkBody is the saved form of a BenchmarkFit: the method and the
 // data; the loader fits the method again (it estimates nothing that the
 // data do not fix in closed form).
@@ -41,6 +44,9 @@ func (f *BenchmarkFit) StoredKind() (string, int) { return kindBenchmark, 1 }
 
 // StoredBody implements Storable.
 func (f *BenchmarkFit) StoredBody() ([]byte, error) {
+	if f == nil || f.series.Len() == 0 {
+		return nil, errUnfitted
+	}
 	return json.Marshal(benchmarkBody{Method: f.kind.name(), Period: f.period, Series: StoreSeries(f.series)})
 }
 
@@ -83,6 +89,9 @@ func (f *BoxCoxFit) StoredKind() (string, int) { return kindBoxCox, 1 }
 
 // StoredBody implements Storable; the inner model must be Storable too.
 func (f *BoxCoxFit) StoredBody() ([]byte, error) {
+	if f == nil || f.inner == nil {
+		return nil, errUnfitted
+	}
 	inner, err := MarshalModel(f.inner)
 	if err != nil {
 		return nil, err
@@ -155,6 +164,9 @@ func (f *CombinationFit) StoredKind() (string, int) { return kindCombination, 1 
 // failure is kept as its member, index and message (the error's chain is
 // not: a loaded failure's Err is a plain error with the same text).
 func (f *CombinationFit) StoredBody() ([]byte, error) {
+	if f == nil || len(f.members) == 0 {
+		return nil, errUnfitted
+	}
 	b := combinationBody{Rule: f.rule.String(), Weighting: f.weighting, Series: StoreSeries(f.y), Paths: f.paths, Seed: f.seed}
 	for _, m := range f.members {
 		doc, err := MarshalModel(m.Fitted)

@@ -292,3 +292,11 @@ func FuzzUnmarshalModel(f *testing.F) {
 		}
 	})
 }
+
+func TestSaveZeroValues(t *testing.T) {
+	for _, f := range []almanac.Fitted{(*almanac.BenchmarkFit)(nil), &almanac.BenchmarkFit{}, &almanac.BoxCoxFit{}, &almanac.CombinationFit{}} {
+		if _, err := almanac.MarshalModel(f); !errors.Is(err, almanac.ErrNotFitted) {
+			t.Errorf("MarshalModel(%T zero value): %v", f, err)
+		}
+	}
+}
