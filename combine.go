@@ -199,6 +199,7 @@ type CombinedMember struct {
 type CombinationFit struct {
 	rule      CombineRule
 	members   []CombinedMember
+	specs     []Model // the Model of each member, for Update
 	failures  []MemberFailure
 	weighting string
 	y         Series
@@ -320,6 +321,7 @@ func (c Combination) Fit(ctx context.Context, y Series) (Fitted, error) {
 			continue
 		}
 		f.members = append(f.members, CombinedMember{Index: i, Fitted: fit, MSE: math.NaN()})
+		f.specs = append(f.specs, m)
 	}
 	if len(f.members) == 0 {
 		return nil, allFailed(y.Key, "fit", f.failures)
@@ -499,6 +501,74 @@ func (f *CombinationFit) combineInSample() {
 		f.fitted[t] = combineValues(f.rule, vals, w, nil)
 		f.resid[t] = f.y.Values[t] - f.fitted[t]
 	}
+}
+
+// Update returns the combination brought forward to y — the series it
+// was fitted to with observations appended — keeping its members' model
+// forms and its weights (inverse-error weights are not re-estimated).
+// Rolling-origin evaluations use it to avoid re-estimating every member
+// at every origin. extend is called with each member and returns it
+// brought forward to y without re-estimation when it can (ok true), for
+// instance an exponential smoothing model updated with the new
+// observations; a member it cannot extend is refitted to y by its Model.
+// A member that fails either way is left out (listed in Failures of the
+// result).
+//
+// Special cases: a y shorter than the series fitted, or of another
+// frequency, gives an error wrapping ErrInvalid; an invalid y the error
+// of Series.Validate; every member failing an error wrapping
+// ErrNotFitted and each member's error; a cancelled ctx ctx.Err().
+func (f *CombinationFit) Update(ctx context.Context, y Series, extend func(member Fitted) (Fitted, bool)) (*CombinationFit, error) {
+	if err := y.Validate(); err != nil {
+		return nil, err
+	}
+	if y.Len() < f.y.Len() || y.Freq != f.y.Freq {
+		return nil, fmt.Errorf("almanac: combination: %w: update to %d observations of %v from %d of %v", ErrInvalid, y.Len(), y.Freq, f.y.Len(), f.y.Freq)
+	}
+	out := &CombinationFit{rule: f.rule, failures: slices.Clone(f.failures), weighting: f.weighting, y: y.Clone(), paths: f.paths, seed: f.seed}
+	for k, m := range f.members {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		var fit Fitted
+		if extend != nil {
+			if e, ok := extend(m.Fitted); ok && e != nil && len(e.FittedValues()) == y.Len() {
+				fit = e
+			}
+		}
+		if fit == nil {
+			var err error
+			if fit, err = fitMember(ctx, f.specs[k], y); err != nil {
+				if cerr := ctx.Err(); cerr != nil {
+					return nil, cerr
+				}
+				out.failures = append(out.failures, MemberFailure{Index: m.Index, Model: memberName(f.specs[k]), Err: err})
+				continue
+			}
+		}
+		m.Fitted = fit
+		out.members = append(out.members, m)
+		out.specs = append(out.specs, f.specs[k])
+	}
+	if len(out.members) == 0 {
+		return nil, allFailed(y.Key, "update", out.failures)
+	}
+	if len(out.members) < len(f.members) {
+		sum := 0.0
+		for _, m := range out.members {
+			sum += m.Weight
+		}
+		for k := range out.members {
+			if sum > 0 {
+				out.members[k].Weight /= sum
+			} else {
+				out.members[k].Weight = 1 / float64(len(out.members))
+			}
+		}
+	}
+	slices.SortStableFunc(out.failures, func(a, b MemberFailure) int { return a.Index - b.Index })
+	out.combineInSample()
+	return out, nil
 }
 
 // weights returns the members' weights.

@@ -752,3 +752,69 @@ func BenchmarkCombination(b *testing.B) {
 		})
 	}
 }
+
+func TestCombinationUpdate(t *testing.T) {
+	ctx := context.Background()
+	short := trendy.Head(40)
+	spec := almanac.Combination{Members: []almanac.Model{almanac.Naive{}, almanac.Drift{}, needs{n: 44}}, Rule: almanac.CombineInverseError}
+	fit, err := spec.Fit(ctx, short)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cf := fit.(*almanac.CombinationFit)
+	if len(cf.Failures()) != 1 {
+		t.Fatalf("failures %v", cf.Failures())
+	}
+	// Refitting every member (extend never succeeds) on the longer series
+	// keeps the weights; the member that could not fit at 40 stays out.
+	var seen []string
+	up, err := cf.Update(ctx, trendy, func(m almanac.Fitted) (almanac.Fitted, bool) {
+		seen = append(seen, m.String())
+		return nil, false
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(seen, []string{"Naive", "Drift"}) {
+		t.Errorf("extend saw %v", seen)
+	}
+	direct, err := almanac.Combination{Members: []almanac.Model{almanac.Naive{}, almanac.Drift{}}, Rule: almanac.CombineWeighted,
+		Weights: []float64{cf.Members()[0].Weight, cf.Members()[1].Weight}}.Fit(ctx, trendy)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, _ := up.Forecast(6, 80)
+	b, _ := direct.Forecast(6, 80)
+	for s := range 6 {
+		if math.Abs(a.Mean[s]-b.Mean[s]) > 1e-9 {
+			t.Errorf("step %d: updated %v, refitted with the same weights %v", s+1, a.Mean[s], b.Mean[s])
+		}
+	}
+	if !equalNaN(up.FittedValues(), direct.FittedValues()) || len(up.Failures()) != 1 || up.Weighting() != cf.Weighting() {
+		t.Error("fitted values, failures or weighting differ")
+	}
+	// An extend that succeeds is used as is.
+	naive48, _ := almanac.Naive{}.Fit(ctx, trendy)
+	up2, err := cf.Update(ctx, trendy, func(m almanac.Fitted) (almanac.Fitted, bool) {
+		if m.String() == "Naive" {
+			return naive48, true
+		}
+		return nil, false
+	})
+	if err != nil || up2.Members()[0].Fitted != naive48 {
+		t.Errorf("extended member not used: %v", err)
+	}
+	for _, tc := range []struct {
+		name string
+		y    almanac.Series
+		want error
+	}{
+		{"shorter", trendy.Head(30), almanac.ErrInvalid},
+		{"other frequency", almanac.Series{Start: jan2020, Freq: calendar.Quarterly, Values: trendy.Values}, almanac.ErrInvalid},
+		{"infinite", almanac.Series{Start: jan2020, Freq: calendar.Monthly, Values: append(slices.Clone(trendy.Values), math.Inf(1))}, almanac.ErrNonFinite},
+	} {
+		if _, err := cf.Update(ctx, tc.y, nil); !errors.Is(err, tc.want) {
+			t.Errorf("%s: %v, want %v", tc.name, err, tc.want)
+		}
+	}
+}
