@@ -1,7 +1,7 @@
 // Package accuracy measures forecasts against what happened: point error
 // measures, interval and quantile scores, residual diagnostics of fitted
-// models, and rolling-origin backtests of any almanac.Model against the
-// benchmark methods.
+// models, rolling-origin backtests of any almanac.Model against the
+// benchmark methods, and bands calibrated from out-of-sample errors.
 //
 // Point measures (error = actual − forecast): ME, MAE, MSE, RMSE, MAPE,
 // SMAPE (the M3 definition, in percent), MdAE, MASE and RMSSE (scaled by
@@ -44,6 +44,36 @@
 // model that gives no paths, from the sum of the steps' bounds, which
 // assumes perfectly correlated step errors and overstates coverage
 // (TotalSource says which).
+//
+// # Calibrated bands
+//
+// Calibrated wraps any almanac.Model and sets its bands and sample paths
+// from the model's scale-free out-of-sample errors at rolling origins, per
+// horizon step, resampling whole error trajectories so that sums over the
+// horizon are calibrated too; PoolCalibration lets the fits of a batch
+// share the errors of their group, which short series need. See
+// Calibrated for the method, its assumptions (exchangeable scaled errors;
+// within a pool, across series) and its finite-sample behaviour. Measured
+// on all 3,003 M3 series with errors pooled by category (the defaults;
+// out-of-sample bands scored on the held-out test parts):
+//
+//	                        80% band          95% band        total over h
+//	                   coverage   MSIS   coverage   MSIS     80%     95%
+//	smoothing.Select       73.0   5.89       88.3  10.36    63.5    77.7
+//	  calibrated           82.6   6.20       96.5  10.25    82.9    96.5
+//	damped trend           73.7   7.35       87.5  13.74    63.1    76.1
+//	  calibrated           81.4   7.33       95.6  11.95    82.3    95.3
+//
+// ("damped trend" is smoothing.Spec ETS(A,Ad,N) without seasonal
+// adjustment; coverage in percent of the test values, MSIS as the M4
+// competition defines it, totals' coverage in percent of the series.) By
+// category the 80% coverage of the calibrated Select is 86.2 yearly, 77.9
+// quarterly, 83.1 monthly and 84.6 other. Errors from a series' own
+// recent origins alone did worse than the model's bands (M3 monthly,
+// damped trend, 20 origins one step apart: 56% coverage of the 80% bands
+// against the model's 77%): consecutive origins share most of their
+// errors, so one series rarely has enough independent ones. Calibrate
+// catalogues with pooling.
 //
 // # Missing values
 //
@@ -112,6 +142,20 @@
 // ≈ 10 ms, ≈ 0.1 ms a series, on one worker or two (fits this cheap
 // leave little to share).
 //
+// Calibrated on the same AirPassengers series (damped-trend ETS, 18
+// steps, 20 origins) costs about 2.5 times the model's own fit when the
+// fit is rolled forward (RollForward: ≈ 8 ms against ≈ 3 ms), and about
+// 26 times with RefitEach (≈ 80 ms); a forecast with two bands from a
+// pool of 2000 trajectories takes ≈ 2–20 ms (the sorting of the paths;
+// the machine was heavily loaded). On all of M3 the calibrated Select
+// took about twice the CPU time of Select alone (11.7 s against 5.7 s on
+// one worker for every fifth series), and the calibrated mean of Select,
+// arima.Search and Theta 1.8 times that combination's (37 s against 21 s
+// for every twentieth series). Re-estimating at every origin instead of
+// rolling forward improved the calibrated damped trend's 80% MSIS from
+// 7.90 to 7.54 (with the earlier 8-observation minimum training window) at
+// about ten times the cost.
+//
 // # References
 //
 //   - Makridakis, S. & Hibon, M. (2000). The M3-Competition: results,
@@ -135,4 +179,19 @@
 //     approach to interval estimation. JASA 67, 187–191.
 //   - Tashman, L. J. (2000). Out-of-sample tests of forecasting accuracy:
 //     an analysis and review. IJF 16, 437–450 (rolling origins).
+//   - Williams, W. H. & Goodman, M. L. (1971). A simple method for the
+//     construction of empirical confidence limits for economic forecasts.
+//     JASA 66, 752–754 (bands from out-of-sample errors).
+//   - Vovk, V., Gammerman, A. & Shafer, G. (2005). Algorithmic Learning in
+//     a Random World. Springer (conformal prediction).
+//   - Papadopoulos, H., Vovk, V. & Gammerman, A. (2011). Regression
+//     conformal prediction with nearest neighbours. JAIR 40, 815–840
+//     (normalised nonconformity scores; recalled from memory).
+//   - Stankeviciute, K., Alaa, A. M. & van der Schaar, M. (2021).
+//     Conformal time-series forecasting. NeurIPS 34 (multi-step horizons).
+//   - Hyndman, R. J. & Fan, Y. (1996). Sample quantiles in statistical
+//     packages. The American Statistician 50, 361–365 (type 7).
+//   - Brown, R. G. (1959). Statistical Forecasting for Inventory Control.
+//     McGraw-Hill; Trigg, D. W. (1964). Monitoring a forecasting system.
+//     Operational Research Quarterly 15, 271–274 (tracking signals).
 package accuracy
