@@ -37,8 +37,11 @@
 // the members simulate — members drawn with common random numbers,
 // combined draw by draw, and shuffled onto comonotone margins so that
 // each step's quantile is the rule applied to the members' quantiles —
-// and from the members' quantiles combined the same way otherwise. See
-// Combination for the assumptions.
+// and from the members' quantiles combined the same way otherwise
+// (ForecastQuantiles asks for that cheaper form). See Combination for the
+// assumptions. CombinationFit.Update brings a fitted combination forward
+// to a longer series without re-estimating what its members allow, for
+// rolling-origin evaluations.
 //
 // # Benchmarks
 //
