@@ -127,6 +127,14 @@
 // Drift{}} over 1,000 series of 20–26 values about 10–12 ms; ReadCSV
 // about 60–80 MB/s.
 //
+// A Combination of the three benchmark methods Naive, Drift and
+// SeasonalNaive, fitted to 48 monthly values and forecasting 12 steps
+// with two bands from 1000 combined paths, costs about 26 million
+// instructions (valgrind --tool=callgrind; about 4.7 million with 200
+// paths): most of it is sorting the members' draws step by step for the
+// coupling, against about 60 thousand for one benchmark fit and
+// forecast. ForecastQuantiles, which draws no paths, avoids it.
+//
 // # References
 //
 // G. E. P. Box and D. R. Cox (1964), An analysis of transformations,
