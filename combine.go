@@ -215,11 +215,17 @@ var (
 )
 
 // memberName names member m for failure reports.
-func memberName(m Model) string {
+func memberName(m Model) (name string) {
+	typ := strings.TrimPrefix(fmt.Sprintf("%T", m), "*")
+	defer func() {
+		if recover() != nil { // a String method that panics (a nil pointer)
+			name = typ
+		}
+	}()
 	if s, ok := m.(fmt.Stringer); ok {
 		return s.String()
 	}
-	return strings.TrimPrefix(fmt.Sprintf("%T", m), "*")
+	return typ
 }
 
 // check validates the specification.

@@ -859,3 +859,24 @@ func TestCombinationForecastQuantiles(t *testing.T) {
 		}
 	}
 }
+
+// panicky is a member whose methods all panic through a nil pointer.
+type panicky struct{ p *int }
+
+func (m *panicky) String() string { return fmt.Sprint(*m.p) }
+
+func (m *panicky) Fit(context.Context, almanac.Series) (almanac.Fitted, error) {
+	return nil, fmt.Errorf("%d", *m.p)
+}
+
+func TestCombinationNilPointerMember(t *testing.T) {
+	var nilMember *panicky
+	fit, err := almanac.Combination{Members: []almanac.Model{nilMember, almanac.Naive{}}}.Fit(context.Background(), trendy)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fs := fit.(*almanac.CombinationFit).Failures()
+	if len(fs) != 1 || fs[0].Model != "almanac_test.panicky" || !errors.Is(fs[0].Err, almanac.ErrNotFitted) {
+		t.Errorf("failures %+v", fs)
+	}
+}
