@@ -535,11 +535,6 @@ func extendFit(ctx context.Context, fit almanac.Fitted, y almanac.Series, from, 
 			return nil, false
 		}
 		return u, true
-	case *arima.SearchResult:
-		if f == nil || f.Fitted == nil {
-			return nil, false
-		}
-		return extendFit(ctx, f.Fitted, y, from, to)
 	case *arima.Fitted:
 		spec := f.Spec()
 		if len(spec.Regressors) > 0 {

@@ -283,6 +283,7 @@ func TestCalibrationRollForward(t *testing.T) {
 	}{
 		{"ets rolled", accuracy.Calibrated{Model: ets, Horizon: 6, Origins: 10}, 9},
 		{"arima rolled", accuracy.Calibrated{Model: ar, Horizon: 6, Origins: 10}, 9},
+		{"arima search rolled", accuracy.Calibrated{Model: arima.Search{}, Horizon: 6, Origins: 4}, 3},
 		{"combination rolled", accuracy.Calibrated{Model: almanac.Combination{Members: []almanac.Model{ets, ar, almanac.Naive{}}}, Horizon: 6, Origins: 4}, 3},
 		{"refit each", accuracy.Calibrated{Model: ets, Horizon: 6, Origins: 10, Refit: accuracy.RefitEach}, 0},
 		{"benchmark refitted", accuracy.Calibrated{Model: almanac.Drift{}, Horizon: 6, Origins: 10}, 0},
