@@ -10,46 +10,60 @@ import "math"
 // coordinates. TestGradient checks it against forward-mode
 // differentiation and central finite differences.
 
-// adjWork holds the stored forward pass and the adjoint ring.
+// adjStep is what the forward pass stores of one step for the backward
+// pass: the level and trend before the step (l, b), the level/trend
+// forecast L and b^φ (P, damped multiplicative trend only), the seasonal
+// state used (sv), the one-step forecast, the response error a = y − ŷ,
+// the innovation e and the seasonally adjusted error q.
+type adjStep struct{ l, b, L, P, sv, yhat, a, e, q float64 }
+
+// adjWork holds the stored forward pass (the tape) and the adjoint ring.
 type adjWork struct {
-	l, b, L, P, sv, yhat, a, e, q []float64 // per step, length n
-	lam                           []float64 // adjoint of the seasonal ring, length m
+	tape []adjStep // length n
+	lam  []float64 // adjoint of the seasonal ring, length m
+	ok   bool      // the tape holds a finite forward pass
+	sse  float64   // its sum of squared innovations
+	par  Params    // its parameters
 }
 
 func newAdjWork(n, m int) *adjWork {
-	buf := make([]float64, 9*n+m)
-	next := func(k int) []float64 { s := buf[:k:k]; buf = buf[k:]; return s }
-	w := &adjWork{}
-	w.l, w.b, w.L, w.P, w.sv, w.yhat, w.a, w.e, w.q = next(n), next(n), next(n), next(n), next(n), next(n), next(n), next(n), next(n)
-	w.lam = next(m)
-	return w
+	return &adjWork{tape: make([]adjStep, n), lam: make([]float64, m)}
 }
 
 // objectiveGrad returns the objective at x and writes its gradient into
 // grad. Outside the model's domain it returns penalty and a zero
 // gradient. It does not allocate.
-
 func (p *problem) objectiveGrad(x, grad []float64) float64 {
-	for i := range grad {
-		grad[i] = 0
-	}
+	v := p.value(x)
+	p.gradient(x, grad)
+	return v
+}
+
+// value returns the objective at x, as objective does, and records the
+// forward pass for gradient. It does not allocate.
+func (p *problem) value(x []float64) float64 {
 	f := p.f
 	w := p.aw
+	w.ok = false
+	p.evals++
 	par, l, b, ok := p.decode(x)
 	if !ok || (p.bounds != UsualBounds && !admissible(f, par)) ||
 		(f.trend.multiplicative() && !(b > 0)) || (f.multiplicativeLevel() && !(l > 0)) {
 		return penalty
 	}
 	alpha, beta, gamma, phi := par.Alpha, par.Beta, par.Gamma, par.Phi
-	s := p.ws
 	m := f.m
+	s := p.ws[:m]
 	multErr := f.err == MultiplicativeError
-	// Forward pass.
+	tape := w.tape
+	y := p.y[:len(tape)]
 	sse := 0.0
 	var logs logSum
 	j := 0
-	for t, yt := range p.y {
-		w.l[t], w.b[t] = l, b
+	for t := range tape {
+		st := &tape[t]
+		yt := y[t]
+		st.l, st.b = l, b
 		var L, P float64
 		switch f.trend {
 		case NoTrend:
@@ -87,7 +101,7 @@ func (p *problem) objectiveGrad(x, grad []float64) float64 {
 		if f.season == MultiplicativeSeason {
 			q = a / sv
 		}
-		w.L[t], w.P[t], w.sv[t], w.yhat[t], w.a[t], w.e[t], w.q[t] = L, P, sv, yhat, a, e, q
+		st.L, st.P, st.sv, st.yhat, st.a, st.e, st.q = L, P, sv, yhat, a, e, q
 		lprev := l
 		l = L + alpha*q
 		switch f.trend {
@@ -119,27 +133,50 @@ func (p *problem) objectiveGrad(x, grad []float64) float64 {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return penalty
 	}
+	w.ok, w.sse, w.par = true, sse, par
+	return v
+}
+
+// gradient writes into grad the gradient of the objective at x from the
+// forward pass value recorded there (a zero gradient when value returned
+// penalty). It does not allocate.
+func (p *problem) gradient(x, grad []float64) {
+	for i := range grad {
+		grad[i] = 0
+	}
+	w := p.aw
+	if !w.ok {
+		return
+	}
+	f := p.f
+	m := f.m
+	alpha, beta, gamma, phi := w.par.Alpha, w.par.Beta, w.par.Gamma, w.par.Phi
+	multErr := f.err == MultiplicativeError
+	n := float64(len(p.y))
 	// Backward pass. lamL, lamB: adjoints of the states after step t;
 	// w.lam[j]: adjoint of the current value of ring entry j.
-	for i := range w.lam {
-		w.lam[i] = 0
+	lam := w.lam[:m]
+	for i := range lam {
+		lam[i] = 0
 	}
 	lamL, lamB := 0.0, 0.0
 	var gA, gB, gG, gP float64
-	dsse := n / sse
-	for t := len(p.y) - 1; t >= 0; t-- {
-		j := t % m
-		lt, bt, L, P, sv, yhat, a, e, q := w.l[t], w.b[t], w.L[t], w.P[t], w.sv[t], w.yhat[t], w.a[t], w.e[t], w.q[t]
+	dsse := n / w.sse
+	tape := w.tape
+	j := (len(tape) - 1) % m
+	for t := len(tape) - 1; t >= 0; t-- {
+		st := &tape[t]
+		lt, bt, L, P, sv, yhat, a, e, q := st.l, st.b, st.L, st.P, st.sv, st.yhat, st.a, st.e, st.q
 		var barL, barSv, barA, barQ, barY, barP, barl, barb float64
 		// Seasonal update.
 		switch f.season {
 		case AdditiveSeason:
-			ls := w.lam[j]
+			ls := lam[j]
 			barSv += ls
 			barA += gamma * ls
 			gG += a * ls
 		case MultiplicativeSeason:
-			ls := w.lam[j]
+			ls := lam[j]
 			u := a / L
 			barSv += ls
 			barA += gamma * ls / L
@@ -222,7 +259,10 @@ func (p *problem) objectiveGrad(x, grad []float64) float64 {
 		}
 		lamL, lamB = barl, barb
 		if f.season != NoSeason {
-			w.lam[j] = barSv
+			lam[j] = barSv
+		}
+		if j--; j < 0 {
+			j = m - 1
 		}
 	}
 	// Chain rule to the optimiser's coordinates.
@@ -277,8 +317,7 @@ func (p *problem) objectiveGrad(x, grad []float64) float64 {
 	}
 	if p.estS {
 		for k := 0; k < m-1; k++ {
-			grad[i+k] = w.lam[k] - w.lam[m-1]
+			grad[i+k] = lam[k] - lam[m-1]
 		}
 	}
-	return v
 }

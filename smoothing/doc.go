@@ -93,25 +93,33 @@
 // multiplicative seasonality (a different recursion in statsmodels) at
 // least the innovations-form likelihood at statsmodels' estimates.
 //
-// The searches use gonum.org/v1/gonum/optimize: optimize.BFGS (its
-// default bisection line search) with the exact gradient of the
-// likelihood, obtained by reverse-mode (adjoint) differentiation of the
-// recursion and passed as Problem.Grad, converged when two successive
-// iterations improve −2·loglik by less than 1e-10 relative or the
-// gradient vanishes; restarted once from its end point when it stops
-// without converging; and, if it still has not converged (a search
-// stalled along the edge of the model's domain), optimize.NelderMead
+// The searches use gonum.org/v1/gonum/optimize: optimize.BFGS directions
+// with its default optimize.Bisection line search, composed by
+// optimize.LinesearchMethod, on the exact gradient of the likelihood,
+// obtained by reverse-mode (adjoint) differentiation of the recursion
+// (the value pass records what the gradient pass needs, so a gradient
+// requested at the point just evaluated costs only the backward pass),
+// converged when two successive iterations improve −2·loglik by less than
+// 1e-10 relative (optimize.FunctionConverge) or the gradient vanishes.
+// The line-search method is driven in the calling goroutine with the same
+// evaluations and stopping rules, in the same order, as optimize.Minimize
+// applies (so the end points are those Minimize reaches), but without the
+// three goroutines and channel hand-offs Minimize sets up per search,
+// which cost about a third as much as the likelihood evaluations
+// themselves. The search is restarted once from its end point when it
+// stops without converging; if it still has not converged (a search
+// stalled along the edge of the model's domain), optimize.NelderMead runs
 // from the BFGS end point, restarted with a halved simplex while that
-// helps, followed by one more BFGS run from the simplex's end point
-// (the simplex alone does not reliably reach the optimum in 10 to 17
+// helps, followed by one more BFGS run from the simplex's end point (the
+// simplex alone does not reliably reach the optimum in 10 to 17
 // dimensions; TestSimplexFallback cuts every BFGS search off and checks
-// the completed fit, with three known gaps listed there). HoltWinters.Estimate uses the same restarted NelderMead on R's
-// sum of squares. Settings.Concurrent is left at 0 and no Runtime limit
-// is set, so a fit is deterministic; the context is checked before every
-// evaluation (Problem.Status). Neither the likelihood nor its gradient
-// allocates (TestObjectiveAllocs); gonum's Minimize itself allocates its
-// channels, goroutines and work vectors, about 370 allocations (44 kB)
-// for one ETS(M,Ad,M) fit. The Theta method, Croston and TSB estimate
+// the completed fit, with three known gaps listed there).
+// HoltWinters.Estimate uses the same restarted NelderMead on R's sum of
+// squares. For the simplex, Settings.Concurrent is left at 0 and no
+// Runtime limit is set, so a fit is deterministic; the context is checked
+// after every evaluation. Neither the likelihood nor its gradient
+// allocates (TestObjectiveAllocs); gonum's BFGS allocates a few small
+// vector headers per iteration. The Theta method, Croston and TSB estimate
 // their constants with a grid refined by a bounded one-dimensional Brent
 // search (minimize1D in theta_ses.go on the project's internal/brent;
 // nested for TSB's two constants), because gonum has no bounded 1-D
@@ -165,7 +173,8 @@
 //
 // Spec, Select, HoltWinters, Theta, Croston and TSB values are immutable
 // and safe to share. A single fit evaluates its likelihood one point at a
-// time: gonum's Minimize runs the method and the evaluations in
+// time: the BFGS searches run in the calling goroutine; the simplex
+// fallback's gonum Minimize runs the method and the evaluations in
 // goroutines of its own, but with Concurrent 0 they hand work to each
 // other in a fixed order, so the result does not depend on scheduling.
 // Select fits its candidates concurrently (Select.Workers) and writes

@@ -31,8 +31,11 @@ type problem struct {
 	fixL, fixT                               float64
 	fixS                                     []float64 // chronological, scaled
 
-	ws []float64 // seasonal ring, length m
-	aw *adjWork  // gradient workspace (sized by prepare)
+	ws []float64   // seasonal ring, length m
+	aw *adjWork    // gradient workspace (sized by prepare)
+	ls *lineSearch // BFGS driver and its buffers (made on first use)
+	// evals counts the evaluations of the objective (for tests).
+	evals int
 
 	// stall, when positive, cuts the next BFGS search off after that
 	// many iterations and sends optimise to its fallback (a test hook).
@@ -146,6 +149,7 @@ func (p *problem) decode(x []float64) (par Params, l0, b0 float64, ok bool) {
 // objective is the function minimised: n·log(Σe²) + 2Σlog ŷ, i.e.
 // −2·loglik up to a constant. It does not allocate.
 func (p *problem) objective(x []float64) float64 {
+	p.evals++
 	par, l0, b0, ok := p.decode(x)
 	if !ok {
 		return penalty

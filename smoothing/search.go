@@ -5,13 +5,15 @@ import (
 	"math"
 	"slices"
 
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/optimize"
 )
 
-// The estimation searches run on gonum.org/v1/gonum/optimize. Settings
-// leave Concurrent at 0 (one evaluation at a time) and set no Runtime
-// limit, so a search is a deterministic function of its start point; the
-// context is checked before every evaluation through Problem.Status.
+// The estimation searches run on gonum.org/v1/gonum/optimize: BFGS through
+// lineSearch in the calling goroutine, the simplex through Minimize with
+// Concurrent 0 (one evaluation at a time) and no Runtime limit. A search
+// is a deterministic function of its start point; the context is checked
+// after every evaluation (for the simplex through Problem.Status).
 
 // optimise minimises p.objective from x0: optimize.BFGS on the exact
 // adjoint gradient (adjoint.go), restarted once from its end point with a
@@ -64,61 +66,156 @@ func (p *problem) fallback(ctx context.Context, x []float64, fx float64) (float6
 // without converging, and returns the value and whether it converged.
 func (p *problem) bfgs(ctx context.Context, x []float64, runs int) (float64, bool, error) {
 	d := len(x)
-	// The adjoint pass yields the value and the gradient together, and
-	// gonum asks for the gradient at the point whose value it has just
-	// requested: Func evaluates both and keeps the gradient for Grad.
-	cx := make([]float64, d)
-	cg := make([]float64, d)
-	fg := func(x []float64) float64 {
-		copy(cx, x)
-		return p.objectiveGrad(x, cg)
+	if p.ls == nil {
+		p.ls = newLineSearch(d)
 	}
-	prob := optimize.Problem{
-		Func: fg,
-		Grad: func(g, x []float64) {
-			if !slices.Equal(x, cx) {
-				p.objectiveGrad(x, g)
-				return
-			}
-			copy(g, cg)
-		},
-		Status: ctxStatus(ctx),
-	}
-	fx := fg(x)
+	ls := p.ls
+	// The value pass records what the gradient pass needs: the gradient
+	// gonum asks for at the point whose value it has just requested costs
+	// only the backward pass.
+	fx := p.objectiveGrad(x, ls.g)
+	copy(ls.cx, x)
 	converged := false
 	for run := 0; run < runs && !converged && fx < penalty; run++ {
-		settings := &optimize.Settings{
-			// The value and gradient at x are known (cx, cg).
-			InitValues: &optimize.Location{F: fx, Gradient: slices.Clone(cg)},
-			// Converged when two successive iterations improve the
-			// objective by less than 1e-10 relative.
-			Converger:       &optimize.FunctionConverge{Relative: 1e-10, Absolute: 1e-20, Iterations: 2},
-			MajorIterations: 200 * d,
-		}
+		maxIter := 200 * d
 		if p.maxIter > 0 {
-			settings.MajorIterations = p.maxIter
+			maxIter = p.maxIter
 		}
 		if p.stall > 0 {
-			settings.MajorIterations = p.stall
+			maxIter = p.stall
 			p.stall = 0
 			runs = 1
 		}
-		bfgs := &optimize.BFGS{GradStopThreshold: 1e-10 * (1 + math.Abs(fx))}
-		res, err := optimize.Minimize(prob, x, settings, bfgs)
+		xe, fe, status, err := ls.run(ctx, p, x, fx, maxIter, 1e-10*(1+math.Abs(fx)))
 		if cerr := ctx.Err(); cerr != nil {
 			return 0, false, cerr
 		}
-		if res == nil || !(res.F <= fx) {
+		if !(fe <= fx) {
 			break
 		}
-		copy(x, res.X)
-		fx = res.F
-		converged = err == nil && convergedStatus(res.Status)
+		copy(x, xe)
+		fx = fe
+		converged = err == nil && convergedStatus(status)
 		if !converged {
-			fx = fg(x) // refresh the cached gradient for the restart
+			fx = p.objectiveGrad(x, ls.g) // refresh the gradient for the restart
+			copy(ls.cx, x)
 		}
 	}
 	return fx, converged, nil
+}
+
+// lineSearch drives gonum's optimize.LinesearchMethod with optimize.BFGS
+// directions and the optimize.Bisection line search in the calling
+// goroutine. It performs the same evaluations and applies the same
+// stopping rules, in the same order, as optimize.Minimize would for
+// optimize.BFGS with Settings{InitValues, Converger: FunctionConverge,
+// MajorIterations} and Concurrent 0 (so the end point is the same), but
+// without the three goroutines and the channel hand-offs Minimize sets up
+// per call (about a third of the cost of the likelihood evaluations on
+// ETS(M,Ad,M), by instruction counts). Its buffers are reused from one
+// search to the next.
+type lineSearch struct {
+	bfgs   optimize.BFGS
+	bisect optimize.Bisection
+	method optimize.LinesearchMethod
+	conv   optimize.FunctionConverge
+	loc    optimize.Location
+	opt    []float64 // the location of the last major iteration
+	g      []float64 // gradient at the start point
+	cx     []float64 // the point of the last value evaluation (p.aw's tape)
+}
+
+func newLineSearch(d int) *lineSearch {
+	buf := make([]float64, 5*d)
+	next := func() []float64 { s := buf[:d:d]; buf = buf[d:]; return s }
+	ls := &lineSearch{}
+	ls.loc.X, ls.loc.Gradient, ls.opt, ls.g, ls.cx = next(), next(), next(), next(), next()
+	return ls
+}
+
+// run minimises p's objective from x0 (value f0, gradient ls.g) with at
+// most maxIter major iterations (the start counts as the first, as in
+// Minimize) and returns the location and value of the last major
+// iteration (owned by ls), the status and the error of the search.
+func (ls *lineSearch) run(ctx context.Context, p *problem, x0 []float64, f0 float64, maxIter int, gradStop float64) ([]float64, float64, optimize.Status, error) {
+	loc := &ls.loc
+	copy(loc.X, x0)
+	copy(loc.Gradient, ls.g)
+	loc.F = f0
+	copy(ls.opt, x0)
+	fopt := f0
+	if err := ctx.Err(); err != nil {
+		return ls.opt, fopt, optimize.Failure, err
+	}
+	if math.IsInf(f0, 1) || math.IsNaN(f0) {
+		return ls.opt, fopt, optimize.Failure, optimize.ErrFunc(f0)
+	}
+	for i, v := range loc.Gradient {
+		if math.IsInf(v, 0) || math.IsNaN(v) {
+			return ls.opt, fopt, optimize.Failure, optimize.ErrGrad{Grad: v, Index: i}
+		}
+	}
+	ls.conv = optimize.FunctionConverge{Relative: 1e-10, Absolute: 1e-20, Iterations: 2}
+	ls.conv.Init(len(x0))
+	// The start is the first major iteration.
+	iter := 1
+	if st := ls.major(loc, iter, maxIter); st != optimize.NotTerminated {
+		return ls.opt, fopt, st, nil
+	}
+	ls.bfgs = optimize.BFGS{}
+	ls.bisect = optimize.Bisection{}
+	ls.method = optimize.LinesearchMethod{NextDirectioner: &ls.bfgs, Linesearcher: &ls.bisect}
+	op, err := ls.method.Init(loc)
+	for {
+		if err != nil {
+			return ls.opt, fopt, optimize.Failure, err
+		}
+		switch {
+		case op == optimize.MajorIteration:
+			copy(ls.opt, loc.X)
+			fopt = loc.F
+			iter++
+			if st := ls.major(loc, iter, maxIter); st != optimize.NotTerminated {
+				return ls.opt, fopt, st, nil
+			}
+			if floats.Norm(loc.Gradient, math.Inf(1)) < gradStop {
+				return ls.opt, fopt, optimize.GradientThreshold, nil
+			}
+		case op&(optimize.FuncEvaluation|optimize.GradEvaluation) == op && op != optimize.NoOperation:
+			if op&optimize.FuncEvaluation != 0 {
+				copy(ls.cx, loc.X)
+				loc.F = p.value(loc.X)
+			}
+			if op&optimize.GradEvaluation != 0 {
+				if !slices.Equal(loc.X, ls.cx) {
+					copy(ls.cx, loc.X)
+					p.value(loc.X)
+				}
+				p.gradient(loc.X, loc.Gradient)
+			}
+			if err := ctx.Err(); err != nil {
+				return ls.opt, fopt, optimize.Failure, err
+			}
+		default:
+			panic("smoothing: unexpected operation from the line search") // internal invariant
+		}
+		op, err = ls.method.Iterate(loc)
+	}
+}
+
+// major applies Minimize's checks at a major iteration: a value of −∞,
+// the function-value convergence test and the iteration limit.
+func (ls *lineSearch) major(loc *optimize.Location, iter, maxIter int) optimize.Status {
+	if math.IsInf(loc.F, -1) {
+		return optimize.FunctionNegativeInfinity
+	}
+	if st := ls.conv.Converged(loc); st != optimize.NotTerminated {
+		return st
+	}
+	if iter >= maxIter {
+		return optimize.IterationLimit
+	}
+	return optimize.NotTerminated
 }
 
 // ctxStatus returns a Problem.Status function that ends the search with

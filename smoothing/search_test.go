@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"github.com/almanac-go/almanac/internal/reftest"
+	"gonum.org/v1/gonum/optimize"
 )
 
 // estimatedProblems returns, for every ets_estimated reference fixture,
@@ -148,6 +149,52 @@ func TestCancelDuringSearch(t *testing.T) {
 			}
 			if ctx.left.Load() >= 0 {
 				t.Error("the context was not consulted during the search")
+			}
+		})
+	}
+}
+
+// TestLineSearchMatchesMinimize: lineSearch drives gonum's line-search
+// BFGS in the calling goroutine and must end where optimize.Minimize ends
+// with the same method and settings (bit for bit: same evaluations in the
+// same order), on every eighth ets_estimated fixture problem from every
+// parameter start.
+func TestLineSearchMatchesMinimize(t *testing.T) {
+	names, probs, starts, _ := estimatedProblems(t)
+	for i, p := range probs {
+		if i%8 != 0 {
+			continue
+		}
+		t.Run(names[i], func(t *testing.T) {
+			for _, st := range startSet {
+				x := slices.Clone(starts[i])
+				p.setParams(x, st)
+				d := len(x)
+				g := make([]float64, d)
+				fx := p.objectiveGrad(x, g)
+				if fx >= penalty {
+					continue
+				}
+				prob := optimize.Problem{
+					Func: p.objective,
+					Grad: func(grad, x []float64) { p.objectiveGrad(x, grad) },
+				}
+				settings := &optimize.Settings{
+					InitValues:      &optimize.Location{F: fx, Gradient: slices.Clone(g)},
+					Converger:       &optimize.FunctionConverge{Relative: 1e-10, Absolute: 1e-20, Iterations: 2},
+					MajorIterations: 200 * d,
+				}
+				gradStop := 1e-10 * (1 + math.Abs(fx))
+				res, errM := optimize.Minimize(prob, x, settings, &optimize.BFGS{GradStopThreshold: gradStop})
+				if res == nil {
+					t.Fatal(errM)
+				}
+				ls := newLineSearch(d)
+				copy(ls.g, g)
+				xe, fe, status, err := ls.run(context.Background(), p, x, fx, 200*d, gradStop)
+				if fe != res.F || !slices.Equal(xe, res.X) || status != res.Status || (err == nil) != (errM == nil) {
+					t.Errorf("start %v: lineSearch ends at f %v (%v, %v), Minimize at %v (%v, %v)", st, fe, status, err, res.F, res.Status, errM)
+				}
 			}
 		})
 	}
