@@ -104,18 +104,21 @@ func (p *problem) bfgs(ctx context.Context, x []float64, runs int) (float64, boo
 	return fx, converged, nil
 }
 
-// lineSearch drives gonum's optimize.LinesearchMethod with optimize.BFGS
-// directions and the optimize.Bisection line search in the calling
-// goroutine. It performs the same evaluations and applies the same
-// stopping rules, in the same order, as optimize.Minimize would for
-// optimize.BFGS with Settings{InitValues, Converger: FunctionConverge,
-// MajorIterations} and Concurrent 0 (so the end point is the same), but
-// without the three goroutines and the channel hand-offs Minimize sets up
-// per call (about a third of the cost of the likelihood evaluations on
-// ETS(M,Ad,M), by instruction counts). Its buffers are reused from one
-// search to the next.
+// lineSearch drives gonum's optimize.LinesearchMethod with BFGS
+// directions (bfgsDirection: optimize.BFGS's update on plain slices) and
+// the optimize.Bisection line search in the calling goroutine. It
+// performs the same evaluations and applies the same stopping rules, in
+// the same order, as optimize.Minimize would for optimize.BFGS with
+// Settings{InitValues, Converger: FunctionConverge, MajorIterations} and
+// Concurrent 0 (TestLineSearchMatchesMinimize: the same end point bit for
+// bit when given optimize.BFGS's directions), but without the three
+// goroutines and the channel hand-offs Minimize sets up per call (about a
+// third of the cost of the likelihood evaluations on ETS(M,Ad,M), by
+// instruction counts). Its buffers are reused from one search to the
+// next.
 type lineSearch struct {
-	bfgs   optimize.BFGS
+	bfgs   bfgsDirection
+	next   optimize.NextDirectioner // &bfgs unless a test sets it
 	bisect optimize.Bisection
 	method optimize.LinesearchMethod
 	conv   optimize.FunctionConverge
@@ -162,9 +165,11 @@ func (ls *lineSearch) run(ctx context.Context, p *problem, x0 []float64, f0 floa
 	if st := ls.major(loc, iter, maxIter); st != optimize.NotTerminated {
 		return ls.opt, fopt, st, nil
 	}
-	ls.bfgs = optimize.BFGS{}
 	ls.bisect = optimize.Bisection{}
-	ls.method = optimize.LinesearchMethod{NextDirectioner: &ls.bfgs, Linesearcher: &ls.bisect}
+	if ls.next == nil {
+		ls.next = &ls.bfgs
+	}
+	ls.method = optimize.LinesearchMethod{NextDirectioner: ls.next, Linesearcher: &ls.bisect}
 	op, err := ls.method.Init(loc)
 	for {
 		if err != nil {
