@@ -14,8 +14,9 @@ import "math"
 // pass: the level and trend before the step (l, b), the level/trend
 // forecast L and b^φ (P, damped multiplicative trend only), the seasonal
 // state used (sv), the one-step forecast, the response error a = y − ŷ,
-// the innovation e and the seasonally adjusted error q.
-type adjStep struct{ l, b, L, P, sv, yhat, a, e, q float64 }
+// the innovation e and the seasonally adjusted error q, and (for the
+// linear-trend passes) the reciprocals 1/L, 1/sv and 1/ŷ.
+type adjStep struct{ l, b, L, P, sv, yhat, a, e, q, iL, isv, iy float64 }
 
 // adjWork holds the stored forward pass (the tape) and the adjoint ring.
 type adjWork struct {
@@ -77,14 +78,17 @@ func (p *problem) value(x []float64) float64 {
 // trend b with the seasonal ring p.ws, record the tape and return the sum
 // of squared innovations, Σ log ŷ (multiplicative error), the final level
 // and trend, and ok = false when ŷ ≤ 0 with multiplicative error.
-// forwardGeneral handles every form; forwardLinearAdd and
-// forwardLinearMul are the same arithmetic, in the same order, for the
-// forms whose trend is none, additive or damped (written as
-// L = ℓ + φb, b ← φb + βq with φ = 1 for an undamped trend and b = β = 0
-// without a trend: the extra terms are exact zeros and ones) with an
-// additive or no season (s ≡ 0, γ = 0) and with a multiplicative season:
-// without the per-step switches on the form and with the logarithm
-// accumulator in registers they cost about 40% less.
+// forwardGeneral handles every form with the arithmetic of form.filter.
+// forwardLinearAdd and forwardLinearMul run the same recursion for the
+// forms whose trend is none, additive or damped (written as L = ℓ + φb,
+// b ← φb + βq with φ = 1 for an undamped trend and b = β = 0 without a
+// trend: the extra terms are exact zeros and ones) with an additive or no
+// season (s ≡ 0, γ = 0) and with a multiplicative season, without the
+// per-step switches on the form, with the logarithm accumulator in
+// registers, and arranged so that fewer operations wait for each other
+// from one step to the next (the next L as L + φ²b + (α + φβ)q rather
+// than through ℓ and b; q = y/s − L; reciprocals instead of divisions).
+// They agree with form.filter to rounding (TestGradient).
 
 func (p *problem) forwardGeneral(par Params, l, b float64) (sse, sumlog, lEnd, bEnd float64, ok bool) {
 	f := p.f
@@ -174,19 +178,23 @@ func (p *problem) forwardLinearAdd(par Params, l, b float64) (sse, sumlog, lEnd,
 	tape := p.aw.tape
 	y := p.y[:len(tape)]
 	lp, la, le := 1.0, 0.0, 0 // Σ log ŷ (logStep)
+	// The next step's L = ℓ + φb, with ℓ = L + αa and b ← φb + βa, is
+	// L + φ²b + (α + φβ)a: one multiply-add after a instead of four.
+	ab, phi2 := alpha+phi*beta, phi*phi
+	L := l + phi*b
 	j := 0
 	for t := range tape {
 		st := &tape[t]
-		L := l + phi*b
 		sv := s[j]
 		yhat := L + sv
-		a := y[t] - yhat
-		e := a
+		a := (y[t] - sv) - L
+		e, iy := a, 0.0
 		if multErr {
 			if !(yhat > 0) {
 				return 0, 0, l, b, false
 			}
-			e = a / yhat
+			iy = 1 / yhat
+			e = a * iy
 			if q := lp * yhat; yhat <= logSumRange && yhat >= 1/logSumRange && q <= logSumRange && q >= 1/logSumRange {
 				lp = q
 			} else {
@@ -194,8 +202,9 @@ func (p *problem) forwardLinearAdd(par Params, l, b float64) (sse, sumlog, lEnd,
 			}
 		}
 		sse += e * e
-		st.b, st.yhat, st.a, st.e = b, yhat, a, e
+		st.b, st.a, st.e, st.iy = b, a, e, iy
 		l = L + alpha*a
+		L = (L + phi2*b) + ab*a
 		b = phi*b + beta*a
 		s[j] = sv + gamma*a
 		if j++; j == m {
@@ -213,31 +222,38 @@ func (p *problem) forwardLinearMul(par Params, l, b float64) (sse, sumlog, lEnd,
 	tape := p.aw.tape
 	y := p.y[:len(tape)]
 	lp, la, le := 1.0, 0.0, 0 // Σ log ŷ (logStep)
+	// q = (y − L·s)/s is computed as y/s − L, whose division does not
+	// wait for L, and the next L as in forwardLinearAdd.
+	ab, phi2 := alpha+phi*beta, phi*phi
+	L := l + phi*b
 	j := 0
 	for t := range tape {
 		st := &tape[t]
-		L := l + phi*b
 		sv := s[j]
+		isv := 1 / sv
+		r := y[t] * isv
 		yhat := L * sv
+		q := r - L
+		iL := 1 / L
 		a := y[t] - yhat
 		e := a
 		if multErr {
 			if !(yhat > 0) {
 				return 0, 0, l, b, false
 			}
-			e = a / yhat
-			if q := lp * yhat; yhat <= logSumRange && yhat >= 1/logSumRange && q <= logSumRange && q >= 1/logSumRange {
-				lp = q
+			e = q * iL
+			if v := lp * yhat; yhat <= logSumRange && yhat >= 1/logSumRange && v <= logSumRange && v >= 1/logSumRange {
+				lp = v
 			} else {
 				lp, la, le = logStep(lp, la, le, yhat)
 			}
 		}
 		sse += e * e
-		q := a / sv
-		st.b, st.L, st.sv, st.yhat, st.a, st.e, st.q = b, L, sv, yhat, a, e, q
+		st.b, st.L, st.sv, st.a, st.e, st.q, st.iL, st.isv = b, L, sv, a, e, q, iL, isv
 		l = L + alpha*q
+		s[j] = sv + gamma*a*iL
+		L = (L + phi2*b) + ab*q
 		b = phi*b + beta*q
-		s[j] = sv + gamma*a/L
 		if j++; j == m {
 			j = 0
 		}
@@ -482,7 +498,7 @@ func (p *problem) backwardLinearAdd() (gA, gB, gG, gP, lamL, lamB float64) {
 	j := (len(tape) - 1) % m
 	for t := len(tape) - 1; t >= 0; t-- {
 		st := &tape[t]
-		bt, yhat, a, e := st.b, st.yhat, st.a, st.e
+		bt, a, e := st.b, st.a, st.e
 		// Seasonal update.
 		ls := lam[j]
 		barSv := ls
@@ -502,8 +518,9 @@ func (p *problem) backwardLinearAdd() (gA, gB, gG, gP, lamL, lamB float64) {
 		de := dsse * 2 * e
 		var barY float64
 		if multErr {
-			barA += de / yhat
-			barY = -de*e/yhat + 2/yhat
+			iy := st.iy
+			barA += de * iy
+			barY = (2 - de*e) * iy
 		} else {
 			barA += de
 		}
@@ -535,13 +552,14 @@ func (p *problem) backwardLinearMul() (gA, gB, gG, gP, lamL, lamB float64) {
 	j := (len(tape) - 1) % m
 	for t := len(tape) - 1; t >= 0; t-- {
 		st := &tape[t]
-		bt, L, sv, yhat, a, e, q := st.b, st.L, st.sv, st.yhat, st.a, st.e, st.q
+		bt, L, sv, a, e, q, iL, isv := st.b, st.L, st.sv, st.a, st.e, st.q, st.iL, st.isv
 		// Seasonal update.
 		ls := lam[j]
-		u := a / L
+		u := a * iL
+		gl := gamma * ls * iL
 		barSv := ls
-		barA := gamma * ls / L
-		barL := -(gamma * ls * u / L)
+		barA := gl
+		barL := -(gl * u)
 		gG += u * ls
 		// Trend update.
 		barb := phi * lamB
@@ -553,14 +571,16 @@ func (p *problem) backwardLinearMul() (gA, gB, gG, gP, lamL, lamB float64) {
 		barQ += alpha * lamL
 		gA += q * lamL
 		// q from a.
-		barA += barQ / sv
-		barSv -= barQ * q / sv
+		bq := barQ * isv
+		barA += bq
+		barSv -= bq * q
 		// Innovation and likelihood terms.
 		de := dsse * 2 * e
 		var barY float64
 		if multErr {
-			barA += de / yhat
-			barY = -de*e/yhat + 2/yhat
+			iy := iL * isv
+			barA += de * iy
+			barY = (2 - de*e) * iy
 		} else {
 			barA += de
 		}
