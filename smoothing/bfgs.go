@@ -83,43 +83,80 @@ func (b *bfgsDirection) NextDirection(loc *optimize.Location, dir []float64) flo
 		}
 		b.first = false
 	}
-	if math.Abs(sy) != 0 {
-		yhy := 0.0
+	g := loc.Gradient[:n]
+	if math.Abs(sy) == 0 {
+		copy(b.x, loc.X)
+		copy(b.g, g)
 		for i := 0; i < n; i++ {
-			v := dot(h[i*n:i*n+n], y)
-			hy[i] = v
-			yhy += y[i] * v
+			dir[i] = -dot(h[i*n:i*n+n], g)
 		}
-		// H ← H + s uᵀ − v sᵀ with u = c·s − Hy/sᵀy, v = Hy/sᵀy.
-		c := (1 + yhy/sy) / sy
-		u, v := b.u[:n], hy
-		for j := range u {
-			v[j] /= sy
-			u[j] = c*s[j] - v[j]
-		}
-		for i := 0; i < n; i++ {
-			row := h[i*n : i*n+n]
-			si, vi := s[i], v[i]
-			u, s := u[:len(row)], s[:len(row)]
-			for j := range row {
-				row[j] += si*u[j] - vi*s[j]
-			}
+		return 1
+	}
+	// With u = c·s − v, v = Hy/sᵀy and c = (1 + yᵀHy/sᵀy)/sᵀy the update
+	// is H ← H + s uᵀ − v sᵀ, so the new direction −H∇f is
+	// −(H∇f + s·(uᵀ∇f) − v·(sᵀ∇f)) with the old H: one pass over H gives
+	// Hy and H∇f, a second makes the update.
+	hg := dir[:n]
+	yhy := 0.0
+	for i := 0; i < n; i++ {
+		hy[i], hg[i] = dot2(h[i*n:i*n+n], y, g)
+		yhy += y[i] * hy[i]
+	}
+	c := (1 + yhy/sy) / sy
+	u, v := b.u[:n], hy
+	ug, sg := 0.0, 0.0
+	for j := range u {
+		v[j] /= sy
+		u[j] = c*s[j] - v[j]
+		ug += u[j] * g[j]
+		sg += s[j] * g[j]
+	}
+	for i := range hg {
+		hg[i] = -(hg[i] + s[i]*ug - v[i]*sg)
+	}
+	for i := 0; i < n; i++ {
+		row := h[i*n : i*n+n]
+		si, vi := s[i], v[i]
+		u, s := u[:len(row)], s[:len(row)]
+		for j := range row {
+			row[j] += si*u[j] - vi*s[j]
 		}
 	}
 	copy(b.x, loc.X)
-	copy(b.g, loc.Gradient)
-	for i := 0; i < n; i++ {
-		dir[i] = -dot(h[i*n:i*n+n], loc.Gradient)
-	}
+	copy(b.g, g)
 	return 1
 }
 
-// dot returns Σ a_i·b_i over a's length (b at least as long).
+// dot returns Σ a_i·b_i over a's length (b at least as long), with two
+// partial sums so that the additions do not all wait for each other.
 func dot(a, b []float64) float64 {
 	b = b[:len(a)]
-	v := 0.0
-	for i, ai := range a {
-		v += ai * b[i]
+	var v0, v1 float64
+	i := 0
+	for ; i+1 < len(a); i += 2 {
+		v0 += a[i] * b[i]
+		v1 += a[i+1] * b[i+1]
 	}
-	return v
+	if i < len(a) {
+		v0 += a[i] * b[i]
+	}
+	return v0 + v1
+}
+
+// dot2 returns the dot products of a with x and with y, as dot does.
+func dot2(a, x, y []float64) (float64, float64) {
+	x, y = x[:len(a)], y[:len(a)]
+	var p0, p1, q0, q1 float64
+	i := 0
+	for ; i+1 < len(a); i += 2 {
+		p0 += a[i] * x[i]
+		q0 += a[i] * y[i]
+		p1 += a[i+1] * x[i+1]
+		q1 += a[i+1] * y[i+1]
+	}
+	if i < len(a) {
+		p0 += a[i] * x[i]
+		q0 += a[i] * y[i]
+	}
+	return p0 + p1, q0 + q1
 }
