@@ -25,6 +25,7 @@ type bfgsDirection struct {
 	s, y, hy, u []float64 // work vectors
 	h           []float64 // inverse Hessian approximation, dim×dim, row-major
 	first       bool      // the next update is the first
+	diag        []float64 // diagonal D of the initial inverse Hessian; nil for the identity
 	buf         []float64
 }
 
@@ -48,6 +49,14 @@ func (b *bfgsDirection) InitDirection(loc *optimize.Location, dir []float64) flo
 	copy(b.x, loc.X)
 	copy(b.g, loc.Gradient)
 	b.first = true
+	if b.diag != nil {
+		nrm := 0.0
+		for i, v := range loc.Gradient {
+			nrm += v * v * b.diag[i]
+			dir[i] = -v * b.diag[i]
+		}
+		return 1 / math.Sqrt(nrm)
+	}
 	for i, v := range loc.Gradient {
 		dir[i] = -v
 	}
@@ -71,7 +80,10 @@ func (b *bfgsDirection) NextDirection(loc *optimize.Location, dir []float64) flo
 	}
 	if b.first {
 		yy := 0.0
-		for _, v := range y {
+		for i, v := range y {
+			if b.diag != nil {
+				v *= math.Sqrt(b.diag[i])
+			}
 			yy += v * v
 		}
 		scale := sy / yy
@@ -80,6 +92,9 @@ func (b *bfgsDirection) NextDirection(loc *optimize.Location, dir []float64) flo
 		}
 		for i := 0; i < n; i++ {
 			h[i*n+i] = scale
+			if b.diag != nil {
+				h[i*n+i] = scale * b.diag[i]
+			}
 		}
 		b.first = false
 	}

@@ -110,14 +110,24 @@
 // update (Nocedal & Wright 2006, eqs. 6.17 and 6.20) computed on a plain
 // matrix (bfgsDirection): through mat and BLAS, with their argument
 // checks and strides, it cost about as much as a likelihood evaluation at
-// the 2 to 17 coordinates of an ETS model. The search is restarted once
+// the 2 to 17 coordinates of an ETS model. The initial inverse Hessian
+// is diagonal: the reciprocal curvatures of the coordinates, estimated
+// once per fit at the first start by forward differences of the adjoint
+// gradient (d + 1 gradient evaluations), instead of optimize.BFGS's
+// identity rescaled by one number after the first step (a diagonal start
+// matrix is common practice). The coordinates' curvatures differ by
+// orders of magnitude (for ETS(M,Ad,M) on AirPassengers at the first
+// start from about 10² for γ and φ to 10⁴ for the level and seasonal
+// states and 8·10⁵ for the trend); starting from them cut that fit's
+// likelihood evaluations from 543 to 340 and its gradients from 486 to
+// 305, the estimate's included. The search is restarted once
 // from its end point when it stops without converging; if it still has
 // not converged (a search stalled along the edge of the model's domain),
 // optimize.NelderMead runs from the BFGS end point, restarted with a
 // halved simplex while that helps, followed by one more BFGS run from the
 // simplex's end point (the simplex alone does not reliably reach the
 // optimum in 10 to 17 dimensions; TestSimplexFallback cuts every BFGS
-// search off and checks the completed fit, with three known gaps listed
+// search off and checks the completed fit, with five known gaps listed
 // there). HoltWinters.Estimate uses the same restarted NelderMead on R's
 // sum of squares. For the simplex, Settings.Concurrent is left at 0 and
 // no Runtime limit is set, so a fit is deterministic; the context is

@@ -34,6 +34,9 @@ type problem struct {
 	ws []float64   // seasonal ring, length m
 	aw *adjWork    // gradient workspace (sized by prepare)
 	ls *lineSearch // BFGS driver and its buffers (made on first use)
+	// h0 is the diagonal of the BFGS searches' initial inverse Hessian
+	// (curvature), set by the first search of the problem.
+	h0 []float64
 	// evals counts the evaluations of the objective (for tests).
 	evals int
 

@@ -75,6 +75,11 @@ func (p *problem) bfgs(ctx context.Context, x []float64, runs int) (float64, boo
 	// only the backward pass.
 	fx := p.objectiveGrad(x, ls.g)
 	copy(ls.cx, x)
+	if p.h0 == nil && fx < penalty {
+		p.h0 = p.curvature(x)
+		ls.cx[0] = math.NaN() // the tape no longer holds x
+	}
+	ls.bfgs.diag = p.h0
 	converged := false
 	for run := 0; run < runs && !converged && fx < penalty; run++ {
 		maxIter := 200 * d
@@ -102,6 +107,53 @@ func (p *problem) bfgs(ctx context.Context, x []float64, runs int) (float64, boo
 		}
 	}
 	return fx, converged, nil
+}
+
+// curvature returns the reciprocals of the diagonal of the objective's
+// Hessian at x, estimated by forward differences of the adjoint gradient
+// (step 1e-6·(1 + |x_k|); d + 1 gradient evaluations), for the diagonal
+// of the BFGS searches' initial inverse Hessian. Curvatures are taken in
+// absolute value and floored at 1e-6 of the largest (a coordinate whose
+// step leaves the model's domain, where the gradient is zero, gets the
+// large curvature |∂f/∂x_k|/step); a coordinate without a finite positive
+// value gets 1.
+//
+// The scales of the coordinates differ by orders of magnitude — in
+// ETS(M,Ad,M) on AirPassengers the curvatures at the first start range
+// from about 10² for γ and φ to 10⁴ for the level and seasonal states and
+// 8·10⁵ for the trend — which the identity start of BFGS, rescaled by one
+// number after the first step, learns only over many iterations.
+// Estimated once per problem, at the first start, this cut that fit's
+// likelihood evaluations from 543 to 340 and its gradients from 486 to
+// 305 with the estimate's included (the evaluation cost of the 390
+// ets_estimated fixture problems fell by 5 to 23% per dimension), and
+// moved end points as a different path through a non-convex likelihood
+// does: of 25,116 ETS fits to M3 series, 388 reached a higher and 275 a
+// lower maximum (1e-6 relative).
+func (p *problem) curvature(x []float64) []float64 {
+	d := len(x)
+	g0 := make([]float64, 3*d)
+	g1, out := g0[d:2*d], g0[2*d:]
+	g0 = g0[:d]
+	p.objectiveGrad(x, g0)
+	xp := slices.Clone(x)
+	mx := 0.0
+	for k := range d {
+		h := 1e-6 * (1 + math.Abs(x[k]))
+		xp[k] = x[k] + h
+		p.objectiveGrad(xp, g1)
+		xp[k] = x[k]
+		out[k] = math.Abs((g1[k] - g0[k]) / h)
+		mx = math.Max(mx, out[k])
+	}
+	for k, c := range out {
+		c = math.Max(c, 1e-6*mx)
+		if !(c > 0) || math.IsInf(c, 0) {
+			c = 1
+		}
+		out[k] = 1 / c
+	}
+	return out
 }
 
 // lineSearch drives gonum's optimize.LinesearchMethod with BFGS

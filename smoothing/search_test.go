@@ -66,10 +66,16 @@ func estimatedProblems(t *testing.T) (names []string, probs []*problem, starts [
 // alone from the start values it stops 6.4 short in the objective on
 // airpassengers_log_aaa; hence the BFGS run after it.)
 //
-// Known gap, not solved: on the three problems in fallbackGaps (of 390)
-// the completed fit ends in a worse local optimum. They are listed so the gap stays visible: the test fails
-// if any other problem falls short, and also if a listed one starts
-// reaching the optimum (then remove it from the list).
+// Known gap, not solved: on the five problems in fallbackGaps (of 390)
+// the completed fit ends in a worse local optimum. They are listed so the
+// gap stays visible: the test fails if any other problem falls short, and
+// also if a listed one starts reaching the optimum (then remove it from
+// the list). Since the searches start from the estimated curvature
+// (problem.curvature) the uninterrupted search reaches a slightly higher
+// maximum than before on four of them (by 1e-4 to 0.06 in the objective;
+// the fallback ends at the former maximum) and the fallback ends 0.53
+// short on sm18_n1402_madm; the three gaps listed before
+// (sm18_n1096_aadn, sm18_n1096_madn, sm18_n1686_aadn) are closed.
 func TestSimplexFallback(t *testing.T) {
 	names, probs, starts, _ := estimatedProblems(t)
 	for i, p := range probs {
@@ -110,7 +116,8 @@ func TestSimplexFallback(t *testing.T) {
 }
 
 var fallbackGaps = map[string]bool{
-	"sm18_n1096_aadn": true, "sm18_n1096_madn": true, "sm18_n1686_aadn": true,
+	"sm18_n1171_madm": true, "sm18_n1402_madm": true, "sm18_n2396_anm": true,
+	"sm18_n2680_anm": true, "sm18_n2680_mna": true,
 }
 
 // countdownCtx reports cancellation once Err has been called more than
