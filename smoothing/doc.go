@@ -149,25 +149,46 @@
 //
 // # Performance
 //
-// Measured with go test -bench -cpu 1 on a 2-core AMD EPYC box shared
-// with other jobs, so the figures are indicative: one likelihood
-// evaluation of ETS(M,Ad,M) on 144 monthly values 2.0–2.4 µs, with its
-// gradient 3.7–6 µs, 0 allocations. Before the four parameter starts,
-// fitting ETS(M,Ad,M) to AirPassengers (n = 144, m = 12) took 0.9–1.25
-// ms, ETS(A,N,N) 0.05–0.08 ms and Select (then 15 candidates) 6.3–8.2 ms
-// on one worker. The four starts cost more: counted in instructions
-// (valgrind --tool=callgrind on the benchmarks, 11 runs each, because
-// timings on the shared machine varied by a factor of ten), one
-// ETS(M,Ad,M) fit went from about 11 to 50 million instructions (×4.6,
-// so about 4–6 ms on one quiet core), ETS(A,N,N) from 1.4 to 3.7 million
-// (×2.7), and Select on AirPassengers (now 10 candidates) from 64 to 207
-// million (×3.2, about 20–26 ms). Targets: a single ETS(M,Ad,M) fit
-// within about 2 ms (not met: the extra starts are what reaches the
-// reference optima; screening the starts by a few iterations missed
-// optima on 6 to 12 fixtures, a looser tolerance for the non-final
-// searches on 5 while saving 12%), Select within about 25 ms. gonum's
-// Minimize allocates its channels, goroutines and work vectors, about
-// 1,600 allocations (97 kB) for one ETS(M,Ad,M) fit with four starts.
+// The development machine (2 cores) is shared with other jobs at load
+// averages of 10 to 22, which inflates wall-clock benchmark times by a
+// factor of two to five and makes them vary tenfold, so estimation is
+// measured by instruction counts (valgrind --tool=callgrind on the
+// benchmarks with -cpu 1: the difference between 11 and 1 benchmark
+// iterations, divided by 10) and by the CPU time of a process running
+// GOMAXPROCS 1 (getrusage; 25 rounds of 20 fits, minimum and median
+// given). Figures for ETS(M,Ad,M) and Select are on AirPassengers (n =
+// 144, m = 12), four parameter starts per model.
+//
+//   - One ETS(M,Ad,M) fit: 12.9 million instructions; 1.2–1.9 ms CPU
+//     (minimum of each run; medians 1.4–2.0 ms as the load varied).
+//     Before the work described under Numerical notes
+//     (optimize.Minimize's goroutines, gonum's BFGS matrix calls,
+//     switches in every step of the recursion, the identity start):
+//     54.6 million instructions, 4–6 ms on a quiet core (estimated from
+//     the instruction count), 11–18 ms CPU in the same loaded runs.
+//   - Select with one worker (10 candidates): 69 million instructions,
+//     7.2–10.6 ms CPU (medians 10.6–10.9 ms; before: 227 million, 20–26
+//     ms on a quiet core, 22–40 ms CPU in the same runs).
+//   - ETS(A,A,A): 6.7 million instructions (before 27.7); ETS(A,N,N):
+//     1.2 million (before 3.2).
+//   - One likelihood evaluation of ETS(M,Ad,M) (the value pass, which
+//     records the forward pass): 15,500 instructions; with its gradient
+//     30,600 instructions, about 3 µs wall-clock at the lower loads; 0
+//     allocations. A fit makes 340 value and 305 gradient evaluations
+//     (543 and 486 before the curvature start).
+//   - Allocations: 46 per ETS(M,Ad,M) fit (34 kB; 1,611 before, mostly
+//     Minimize's), 412 per Select.
+//   - Select on all 3,003 M3 training series, one worker: 24 s CPU (74 s
+//     before). About 40% of its likelihood evaluations go to simplex
+//     fallbacks, most of them from parameter starts whose recursion
+//     leaves the model's domain (ŷ ≤ 0 with multiplicative error).
+//
+// Screening the starts by a few iterations (missed optima on 6 to 12
+// fixtures) and a looser tolerance for the non-final searches (missed 5,
+// saved 12%) were tried and rejected before; stopping a start once it
+// comes near an earlier start's end point saved 4 to 11% of the
+// evaluations on the fixtures but changed the best end point on 3 to 32
+// of them, and was left out.
 //
 // Forecasts cost O(h) (O(h·m) for the class 2 variances and
 // HoltWinters' multiplicative variance): HoltWinters, ETS(M,N,N) and
