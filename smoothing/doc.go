@@ -132,12 +132,12 @@
 // sum of squares. For the simplex, Settings.Concurrent is left at 0 and
 // no Runtime limit is set, so a fit is deterministic; the context is
 // checked after every evaluation. Neither the likelihood nor its gradient
-// allocates (TestObjectiveAllocs), nor does a BFGS iteration. The Theta
-// method, Croston and TSB estimate
-// their constants with a grid refined by a bounded one-dimensional Brent
-// search (minimize1D in theta_ses.go on the project's internal/brent;
-// nested for TSB's two constants), because gonum has no bounded 1-D
-// minimiser.
+// allocates (TestObjectiveAllocs), nor does a BFGS search once its
+// buffers exist (TestSearchAllocs). The Theta method, Croston and TSB
+// estimate their constants with a grid refined by a bounded
+// one-dimensional Brent search (minimize1D in theta_ses.go on the
+// project's internal/brent; nested for TSB's two constants), because
+// gonum has no bounded 1-D minimiser.
 //
 // Both searches are local. Measured once before the former hand-written
 // BFGS/simplex pair was removed, on 14,953 ETS fits to M3 series (all
@@ -176,8 +176,8 @@
 //     30,600 instructions, about 3 µs wall-clock at the lower loads; 0
 //     allocations. A fit makes 340 value and 305 gradient evaluations
 //     (543 and 486 before the curvature start).
-//   - Allocations: 46 per ETS(M,Ad,M) fit (34 kB; 1,611 before, mostly
-//     Minimize's), 412 per Select.
+//   - Allocations: 41 per ETS(M,Ad,M) fit (34 kB; 1,611 before, mostly
+//     Minimize's), 362 per Select.
 //   - Select on all 3,003 M3 training series, one worker: 24 s CPU (74 s
 //     before). About 40% of its likelihood evaluations go to simplex
 //     fallbacks, most of them from parameter starts whose recursion

@@ -221,7 +221,9 @@ func (ls *lineSearch) run(ctx context.Context, p *problem, x0 []float64, f0 floa
 	if ls.next == nil {
 		ls.next = &ls.bfgs
 	}
-	ls.method = optimize.LinesearchMethod{NextDirectioner: ls.next, Linesearcher: &ls.bisect}
+	// Set the fields rather than the struct: Init keeps the method's
+	// buffers when they are large enough.
+	ls.method.NextDirectioner, ls.method.Linesearcher = ls.next, &ls.bisect
 	op, err := ls.method.Init(loc)
 	for {
 		if err != nil {
