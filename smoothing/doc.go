@@ -159,16 +159,17 @@
 // given). Figures for ETS(M,Ad,M) and Select are on AirPassengers (n =
 // 144, m = 12), four parameter starts per model.
 //
-//   - One ETS(M,Ad,M) fit: 12.9 million instructions; 1.2–1.9 ms CPU
-//     (minimum of each run; medians 1.4–2.0 ms as the load varied).
+//   - One ETS(M,Ad,M) fit: 12.9 million instructions; 1.1–1.9 ms CPU
+//     (minimum of each run; medians 1.2–2.0 ms as the load varied from
+//     11 to 22).
 //     Before the work described under Numerical notes
 //     (optimize.Minimize's goroutines, gonum's BFGS matrix calls,
 //     switches in every step of the recursion, the identity start):
 //     54.6 million instructions, 4–6 ms on a quiet core (estimated from
-//     the instruction count), 11–18 ms CPU in the same loaded runs.
+//     the instruction count), 10–18 ms CPU in the same loaded runs.
 //   - Select with one worker (10 candidates): 69 million instructions,
-//     7.2–10.6 ms CPU (medians 10.6–10.9 ms; before: 227 million, 20–26
-//     ms on a quiet core, 22–40 ms CPU in the same runs).
+//     6.3–10.6 ms CPU (medians 6.8–10.9 ms; before: 227 million, 20–26
+//     ms on a quiet core, 20–40 ms CPU in the same runs).
 //   - ETS(A,A,A): 6.7 million instructions (before 27.7); ETS(A,N,N):
 //     1.2 million (before 3.2).
 //   - One likelihood evaluation of ETS(M,Ad,M) (the value pass, which
