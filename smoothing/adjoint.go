@@ -46,7 +46,6 @@ func (p *problem) value(x []float64) float64 {
 	f := p.f
 	w := p.aw
 	w.ok = false
-	p.evals++
 	par, l, b, ok := p.decode(x)
 	if !ok || (p.bounds != UsualBounds && !admissible(f, par)) ||
 		(f.trend.multiplicative() && !(b > 0)) || (f.multiplicativeLevel() && !(l > 0)) {

@@ -37,8 +37,6 @@ type problem struct {
 	// h0 is the diagonal of the BFGS searches' initial inverse Hessian
 	// (curvature), set by the first search of the problem.
 	h0 []float64
-	// evals counts the evaluations of the objective (for tests).
-	evals int
 
 	// stall, when positive, cuts the next BFGS search off after that
 	// many iterations and sends optimise to its fallback (a test hook).
