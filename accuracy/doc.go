@@ -115,6 +115,11 @@
 // is 3.5e200 although their MSE is beyond the range, and MASE, RMSSE and
 // MSIS divide numerator and scale in the same scaled units. sMAPE terms
 // are formed without overflowing; Naive2 computes on rescaled data too.
+// The autocorrelations, partial autocorrelations and portmanteau tests do
+// not depend on the scale and are computed on rescaled data, so data like
+// ±1e308 give their values; Autocovariances maps the covariances back and
+// returns an error wrapping almanac.ErrNonFinite for one beyond the
+// float64 range (the variance of ±1e300).
 // The in-sample MASE of
 // the naive method's own one-step fitted values is exactly 1 (numerator
 // and scale are the same sum). CRPSNormal uses the closed form of
