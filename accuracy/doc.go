@@ -119,7 +119,11 @@
 // not depend on the scale and are computed on rescaled data, so data like
 // ±1e308 give their values; Autocovariances maps the covariances back and
 // returns an error wrapping almanac.ErrNonFinite for one beyond the
-// float64 range (the variance of ±1e300).
+// float64 range (the variance of ±1e300). The batch averages
+// (BatchComparison.Mean and Total) sum the series' scores rescaled the
+// same way, so MAEs of 1.5e308 on several series average to 1.5e308, not
+// +Inf; an infinite score (which the scores never hold) makes its average
+// NaN.
 // The in-sample MASE of
 // the naive method's own one-step fitted values is exactly 1 (numerator
 // and scale are the same sum). CRPSNormal uses the closed form of
