@@ -32,7 +32,9 @@
 // origin, so the candidates are compared on the same series; a series
 // left out (its data cannot hold the origins, or a candidate completed
 // none) is listed in BatchComparison.Failed with the reason, and its
-// per-series results are kept. Backtest.Progress reports each fit as it
+// per-series results are kept. OWA compares a candidate with Naive2 over
+// the origins both completed, so a failure never makes one look better
+// on cells the other forecast. Backtest.Progress reports each fit as it
 // finishes. A cancelled context (a deadline) stops the pool and returns
 // what was done, marked Partial, beside the context's error.
 //
