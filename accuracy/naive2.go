@@ -2,6 +2,7 @@ package accuracy
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -95,7 +96,13 @@ func (m Naive2) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, erro
 		}
 		dec, err := seasonal.Classical(v, p, true)
 		if err != nil {
-			return nil, fmt.Errorf("accuracy: naive2: %w: %v", almanac.ErrTooShort, err)
+			// The test above needs n ≥ 3m, so the decomposition has its
+			// two full periods: what is left is a component beyond the
+			// float64 range (seasonal.ErrOverflow).
+			if errors.Is(err, seasonal.ErrOverflow) {
+				return nil, fmt.Errorf("accuracy: naive2: seasonal adjustment: %w: %v", almanac.ErrNonFinite, err)
+			}
+			return nil, fmt.Errorf("accuracy: naive2: seasonal adjustment: %w: %v", almanac.ErrTooShort, err)
 		}
 		for i, s := range dec.Figure {
 			if !(s > 0) || math.IsInf(s, 0) {
