@@ -2,6 +2,7 @@ package accuracy
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -10,7 +11,6 @@ import (
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/arima"
 	"github.com/almanac-go/almanac/calendar"
-	"github.com/almanac-go/almanac/smoothing"
 )
 
 // Defaults of Calibrated.
@@ -33,12 +33,14 @@ type RefitRule int
 const (
 	// RollForward estimates the model once, at the first calibration
 	// origin, and brings that fit forward through the later origins
-	// without re-estimating it where the fitted model allows (exponential
-	// smoothing: smoothing.Fitted.Update; ARIMA: the same orders with
-	// every coefficient held fixed; a combination: its members so, the
-	// others refitted). A fit that cannot be brought forward is
-	// re-estimated at that origin and rolled on from there. The zero
-	// value.
+	// without re-estimating it where the fitted model allows: a model
+	// that implements almanac.Refresher (exponential smoothing, ARIMA,
+	// Box-Cox, combinations, a user's own) takes the new observations by
+	// almanac.Refresh. One that cannot refresh (almanac.ErrNotRefreshable)
+	// falls back: ARIMA is refitted with every coefficient held fixed, a
+	// combination brings forward the members it can and refits the
+	// others. A fit that cannot be brought forward is re-estimated at
+	// that origin and rolled on from there. The zero value.
 	RollForward RefitRule = iota
 	// RefitEach re-estimates the model at every calibration origin.
 	RefitEach
@@ -522,19 +524,32 @@ func bandForecast(f almanac.Fitted, h int, levels ...float64) (fc almanac.Foreca
 
 // extendFit brings fit, fitted to y[:from], forward to y[:to] without
 // re-estimating it, when its kind allows; ok is false otherwise.
+//
+// Every model that implements almanac.Refresher is refreshed with the
+// new observations (almanac.Refresh: its own filter run on at the
+// estimated parameters). Only a model that cannot refresh
+// (almanac.ErrNotRefreshable) takes a fallback: an ARIMA model (fitted by
+// conditional sums of squares, say) is refitted with every coefficient
+// held fixed, and a combination brings each member forward as far as it
+// can and refits the others. Any other failure leaves ok false, and the
+// origin is estimated afresh.
 func extendFit(ctx context.Context, fit almanac.Fitted, y almanac.Series, from, to int) (out almanac.Fitted, ok bool) {
 	defer func() {
 		if v := recover(); v != nil {
 			out, ok = nil, false
 		}
 	}()
-	switch f := fit.(type) {
-	case *smoothing.Fitted:
-		u, err := f.Update(y.Values[from:to])
-		if err != nil {
+	u, err := almanac.Refresh(fit, y.Values[from:to])
+	if err == nil {
+		if u == nil {
 			return nil, false
 		}
 		return u, true
+	}
+	if !errors.Is(err, almanac.ErrNotRefreshable) {
+		return nil, false
+	}
+	switch f := fit.(type) {
 	case *arima.Fitted:
 		spec := f.Spec()
 		if len(spec.Regressors) > 0 {

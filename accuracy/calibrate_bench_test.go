@@ -6,17 +6,20 @@ import (
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/accuracy"
+	"github.com/almanac-go/almanac/arima"
 	"github.com/almanac-go/almanac/smoothing"
 )
 
 // BenchmarkCalibrated measures the calibration of the damped-trend ETS
 // model on the 144 monthly AirPassengers values (18 steps, 20 origins):
 // one fit at the first origin rolled forward, against a re-estimation at
-// every origin, beside the model alone; and a forecast of 18 steps with
+// every origin, beside the model alone; the same rolled forward for the
+// airline ARIMA model (0,1,1)×(0,1,1)_12; and a forecast of 18 steps with
 // two bands from a pool of 2000 trajectories.
 func BenchmarkCalibrated(b *testing.B) {
 	y := airPassengers(b)
 	ets := smoothing.Spec{Error: smoothing.AdditiveError, Trend: smoothing.DampedTrend, Season: smoothing.NoSeason}
+	airline := arima.Spec{D: 1, Q: 1, SD: 1, SQ: 1}
 	ctx := context.Background()
 	for _, tc := range []struct {
 		name string
@@ -25,6 +28,8 @@ func BenchmarkCalibrated(b *testing.B) {
 		{"model alone", ets},
 		{"roll forward", accuracy.Calibrated{Model: ets, Horizon: 18}},
 		{"refit each", accuracy.Calibrated{Model: ets, Horizon: 18, Refit: accuracy.RefitEach}},
+		{"arima alone", airline},
+		{"arima roll forward", accuracy.Calibrated{Model: airline, Horizon: 18}},
 	} {
 		b.Run("fit/"+tc.name, func(b *testing.B) {
 			b.ReportAllocs()

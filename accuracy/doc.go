@@ -32,7 +32,9 @@
 // origin, so the candidates are compared on the same series; a series
 // left out (its data cannot hold the origins, or a candidate completed
 // none) is listed in BatchComparison.Failed with the reason, and its
-// per-series results are kept. Backtest.Progress reports each fit as it
+// per-series results are kept. OWA compares a candidate with Naive2 over
+// the origins both completed, so a failure never makes one look better
+// on cells the other forecast. Backtest.Progress reports each fit as it
 // finishes. A cancelled context (a deadline) stops the pool and returns
 // what was done, marked Partial, beside the context's error.
 //
@@ -115,6 +117,15 @@
 // is 3.5e200 although their MSE is beyond the range, and MASE, RMSSE and
 // MSIS divide numerator and scale in the same scaled units. sMAPE terms
 // are formed without overflowing; Naive2 computes on rescaled data too.
+// The autocorrelations, partial autocorrelations and portmanteau tests do
+// not depend on the scale and are computed on rescaled data, so data like
+// ±1e308 give their values; Autocovariances maps the covariances back and
+// returns an error wrapping almanac.ErrNonFinite for one beyond the
+// float64 range (the variance of ±1e300). The batch averages
+// (BatchComparison.Mean and Total) sum the series' scores rescaled the
+// same way, so MAEs of 1.5e308 on several series average to 1.5e308, not
+// +Inf; an infinite score (which the scores never hold) makes its average
+// NaN.
 // The in-sample MASE of
 // the naive method's own one-step fitted values is exactly 1 (numerator
 // and scale are the same sum). CRPSNormal uses the closed form of
