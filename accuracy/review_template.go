@@ -2,7 +2,10 @@ package accuracy
 
 import "html/template"
 
-// The review page. The markup is written so that the page is well-formed
+// The review page. The summary table's headings carry data-col names
+// (n, series, status, route, model, error, ratio, in-80%, ..., bias,
+// filled, flags) for programs and tests that drive the page. The markup
+// is written so that the page is well-formed
 // XML too (every element closed, attributes quoted, no named entities),
 // and the script sits in a CDATA section behind line comments, which
 // browsers ignore.
@@ -116,17 +119,17 @@ footer { color: var(--muted); font-size: 13px; margin-top: 40px; padding-bottom:
 <table id="summary">
 <caption hidden="hidden">Every series of the run; click a heading to sort</caption>
 <thead><tr>
-<th class="n"><button type="button" data-kind="num">#</button></th>
-<th><button type="button" data-kind="text">Series</button></th>
-<th><button type="button" data-kind="num">Status</button></th>
-<th><button type="button" data-kind="text">Chosen by</button></th>
-<th><button type="button" data-kind="text">Model</button></th>
-<th class="n" title="mean absolute error in the backtest, scaled by the naive forecast's in-sample error"><button type="button" data-kind="num">Backtest error</button></th>
-<th class="n" title="backtest error divided by the baseline benchmark's: below 1 beats it"><button type="button" data-kind="num">vs baseline</button></th>
-{{range .Levels}}<th class="n" title="share of backtest outcomes inside the {{.}} band"><button type="button" data-kind="num">in {{.}} band</button></th>
-{{end}}<th class="n" title="Trigg's tracking signal, from -1 to +1; sorts by size, either sign"><button type="button" data-kind="num">Bias signal</button></th>
-<th class="n"><button type="button" data-kind="num">Filled</button></th>
-<th><button type="button" data-kind="num">Flags</button></th>
+<th class="n" data-col="n"><button type="button" data-kind="num">#</button></th>
+<th data-col="series"><button type="button" data-kind="text">Series</button></th>
+<th data-col="status"><button type="button" data-kind="num">Status</button></th>
+<th data-col="route"><button type="button" data-kind="text">Chosen by</button></th>
+<th data-col="model"><button type="button" data-kind="text">Model</button></th>
+<th class="n" data-col="error" title="mean absolute error in the backtest, scaled by the naive forecast's in-sample error"><button type="button" data-kind="num">Backtest error</button></th>
+<th class="n" data-col="ratio" title="backtest error divided by the baseline benchmark's: below 1 beats it"><button type="button" data-kind="num">vs baseline</button></th>
+{{range .Levels}}<th class="n" data-col="in-{{.}}" title="share of backtest outcomes inside the {{.}} band"><button type="button" data-kind="num">in {{.}} band</button></th>
+{{end}}<th class="n" data-col="bias" title="Trigg's tracking signal, from -1 to +1; sorts by size, either sign"><button type="button" data-kind="num">Bias signal</button></th>
+<th class="n" data-col="filled"><button type="button" data-kind="num">Filled</button></th>
+<th data-col="flags"><button type="button" data-kind="num">Flags</button></th>
 </tr></thead>
 <tbody>
 {{range .Rows}}<tr id="row-{{.ID}}" data-i="{{.N}}" data-sec="{{.ID}}" data-flags="{{.FlagIDs}}" data-find="{{.Find}}">
