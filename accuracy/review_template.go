@@ -36,13 +36,16 @@ h3 { font-size: 15px; margin: 18px 0 6px; color: var(--muted); text-transform: l
 #shown { color: var(--muted); }
 .wrap { overflow-x: auto; border: 1px solid var(--line); border-radius: 8px; background: #fff; }
 table { border-collapse: collapse; width: 100%; }
-th, td { padding: 5px 9px; text-align: left; border-bottom: 1px solid #eeebe4; vertical-align: top; }
+th, td { padding: 5px 8px; text-align: left; border-bottom: 1px solid #eeebe4; vertical-align: top; }
 td.n, th.n { text-align: right; font-variant-numeric: tabular-nums; }
 #summary thead th { position: sticky; top: 0; background: #f3f1ea; z-index: 1; }
 #summary th button { font: inherit; font-weight: 600; border: 0; background: none; padding: 0; cursor: pointer; color: inherit; text-align: inherit; }
 #summary th button::after { content: " \2195"; color: #a7a195; font-weight: 400; }
 #summary th[aria-sort="ascending"] button::after { content: " \2191"; color: var(--teal); }
 #summary th[aria-sort="descending"] button::after { content: " \2193"; color: var(--teal); }
+#summary tbody td { white-space: nowrap; }
+#summary tbody td.model { white-space: normal; min-width: 10em; }
+#summary tbody td.flags { white-space: normal; min-width: 8em; }
 #summary tbody tr:hover { background: #f7f5ef; }
 #summary a { color: var(--teal); font-weight: 600; text-decoration: none; }
 #summary a:hover { text-decoration: underline; }
@@ -143,7 +146,7 @@ footer { color: var(--muted); font-size: 13px; margin-top: 40px; padding-bottom:
 {{range .Coverage}}{{template "cell" .}}
 {{end}}{{template "cell" .Bias}}
 {{template "cell" .Filled}}
-<td data-v="{{len .Flags}}">{{range .Flags}}<span class="chip flag-{{.ID}}" title="{{.Means}}">{{.Label}}</span>{{end}}</td>
+<td class="flags" data-v="{{len .Flags}}">{{range .Flags}}<span class="chip flag-{{.ID}}" title="{{.Means}}">{{.Label}}</span>{{end}}</td>
 </tr>
 {{end}}</tbody>
 </table>
