@@ -497,3 +497,36 @@ func TestSave(t *testing.T) {
 		t.Errorf("a file was written for an unknown format: %v", err)
 	}
 }
+
+// BenchmarkFan builds the fan chart of the sales (84 months, 12 steps,
+// three bands) at the default size and writes it as PNG or SVG.
+func BenchmarkFan(b *testing.B) {
+	y := sales()
+	fit, err := almanac.SeasonalNaive{}.Fit(context.Background(), y)
+	if err != nil {
+		b.Fatal(err)
+	}
+	fc, err := fit.Forecast(12, 50, 80, 95)
+	if err != nil {
+		b.Fatal(err)
+	}
+	fitted := fit.FittedValues()
+	for _, format := range []string{"png", "svg"} {
+		b.Run(format, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				pic, err := charts.Fan(y, fitted, fc, charts.Options{})
+				if err != nil {
+					b.Fatal(err)
+				}
+				write := pic.WriteSVG
+				if format == "png" {
+					write = pic.WritePNG
+				}
+				if err := write(io.Discard); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
