@@ -117,6 +117,11 @@
 // O(n log n). Portmanteau p-values are chi-square upper tails from
 // gonum's distuv.
 //
+// # Persistence
+//
+// A Naive2Fit is an almanac.Storable of kind "accuracy.naive2" (the
+// period and the data; fitting again is exact).
+//
 // # Concurrency
 //
 // Every function is safe for concurrent use. A Backtest value is a
