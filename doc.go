@@ -37,8 +37,11 @@
 // the members simulate — members drawn with common random numbers,
 // combined draw by draw, and shuffled onto comonotone margins so that
 // each step's quantile is the rule applied to the members' quantiles —
-// and from the members' quantiles combined the same way otherwise. See
-// Combination for the assumptions.
+// and from the members' quantiles combined the same way otherwise
+// (ForecastQuantiles asks for that cheaper form). See Combination for the
+// assumptions. CombinationFit.Update brings a fitted combination forward
+// to a longer series without re-estimating what its members allow, for
+// rolling-origin evaluations.
 //
 // # Persistence
 //
@@ -194,6 +197,14 @@
 // resolution per run): refreshing an ETS(A,Ad,A) or seasonal ARIMA model
 // with one month takes about 10–20 µs, loading its saved document
 // 0.2–0.4 ms, and fitting it again 2–4 ms.
+//
+// A Combination of the three benchmark methods Naive, Drift and
+// SeasonalNaive, fitted to 48 monthly values and forecasting 12 steps
+// with two bands from 1000 combined paths, costs about 26 million
+// instructions (valgrind --tool=callgrind; about 4.7 million with 200
+// paths): most of it is sorting the members' draws step by step for the
+// coupling, against about 60 thousand for one benchmark fit and
+// forecast. ForecastQuantiles, which draws no paths, avoids it.
 //
 // # References
 //

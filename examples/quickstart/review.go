@@ -28,16 +28,15 @@ func writeReview(dir string, nodes []almanac.Series, fits []almanac.Fitted, chos
 		e.Route = "lowest backtest error"
 		e.Repairs = repairs[y.Key]
 		e.Notes = []string{"The forecast drawn is reconciled (MinT, shrinkage, non-negative), so it adds up across products, categories and the total; the one-step fit is the model's own."}
-		if c := cmp.Series[i]; c != nil {
-			e.Backtest, e.Chosen = c, chosen[i]
-		} else { // as run plans it: see cmp.Failed
-			e.Route = "seasonal naive"
-			e.Fallbacks = []string{"the backtest failed, so no model was chosen by it: the seasonal naive method forecasts"}
-		}
+		e.Backtest, e.Chosen = cmp.Series[i], chosen[i]
 		for _, f := range cmp.Failed {
 			if f.Index == i {
 				e.BacktestErr = f.Err
 			}
+		}
+		if e.Backtest == nil || e.BacktestErr != nil { // as run plans it
+			e.Backtest, e.Chosen, e.Route = nil, "", "seasonal naive"
+			e.Fallbacks = []string{"the backtest failed, so no model was chosen by it: the seasonal naive method forecasts"}
 		}
 		entries[i] = e
 	}
