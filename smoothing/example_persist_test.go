@@ -42,5 +42,5 @@ func ExampleFitted_Refresh() {
 	fmt.Printf("%.3f %.3f\n", fc.Mean[0], fc.Mean[1])
 	// Output:
 	// ETS(M,N,M) 2024-07
-	// 268.997 205.360
+	// 268.998 205.360
 }
