@@ -47,6 +47,29 @@
 // assumes perfectly correlated step errors and overstates coverage
 // (TotalSource says which).
 //
+// WriteReview writes a review page: one static HTML file, for a planner
+// to open in a browser, about a batch run described by a Review — a
+// plain structure of one ReviewSeries per series (history, fitted values,
+// forecast, how the model was chosen, filled values, the backtest, or why
+// the series failed) that any batch can fill; NewReviewSeries and
+// ReviewFromBatch fill the common parts. The page holds a summary table
+// of every series, sortable and filterable (a few lines of inline
+// script), with flags for failures, fallbacks, bias, a model behind its
+// baseline, narrow bands, filled values and a missing backtest, explained
+// on the page; and for each series a chart (inline SVG: history, one-step
+// fit, forecast with its bands) and its details. The page loads nothing
+// from elsewhere, depends only on the Review (no clock), and is
+// well-formed XML too. It lives here, beside the text and CSV reports,
+// because it needs only the standard library (html/template and SVG
+// written by hand) and serves any program that forecasts with almanac;
+// richer pictures (PNG, gonum's plot package) are left to applications —
+// see the examples module. Like the text reports, its look and wording
+// are not a stable API; the fields of Review are.
+//
+// TriggSignal is Trigg's (1964) smoothed tracking signal of a sequence of
+// one-step errors, with TriggLimit its usual 95% bound; the review page
+// flags bias with it.
+//
 // # Calibrated bands
 //
 // Calibrated wraps any almanac.Model and sets its bands and sample paths
@@ -86,7 +109,9 @@
 // wrapping almanac.ErrAllMissing. The in-sample scale of MASE, RMSSE and
 // MSIS leaves out the differences that involve a NaN. ACF, PACF and the
 // portmanteau tests pass over NaN as R's acf does with na.pass (n counts
-// the observed values). ±Inf is never data: it is an error wrapping
+// the observed values). TriggSignal passes over a NaN error, leaving its
+// smoothed values unchanged. The review page draws missing values as
+// gaps in the history line. ±Inf is never data: it is an error wrapping
 // almanac.ErrNonFinite.
 //
 // # Undefined values
@@ -165,7 +190,11 @@
 // windows of the same series (drift beside the two default benchmarks,
 // 6 origins, 12 steps, an 80% band, one series in ten left out) takes
 // ≈ 10 ms, ≈ 0.1 ms a series, on one worker or two (fits this cheap
-// leave little to share).
+// leave little to share). WriteReview takes about 0.3 ms of CPU a series
+// (72 monthly observations, a 12-step forecast with two bands, a backtest
+// of four candidates; user CPU time of BenchmarkWriteReview over 200
+// series on one core, as wall times on the shared machine were several
+// times higher), and the page grows by about 7 KB a series.
 //
 // Calibrated on the same AirPassengers series (damped-trend ETS, 18
 // steps, 20 origins), counted in instructions (valgrind --tool=callgrind
@@ -203,6 +232,9 @@
 //     continuous probability distributions. Management Science 22,
 //     1087–1096 (CRPS); Winkler, R. L. (1972). A decision-theoretic
 //     approach to interval estimation. JASA 67, 187–191.
+//   - Trigg, D. W. (1964). Monitoring a forecasting system. Operational
+//     Research Quarterly 15, 271–274 (the smoothed tracking signal and
+//     its limits; details recalled from memory).
 //   - Tashman, L. J. (2000). Out-of-sample tests of forecasting accuracy:
 //     an analysis and review. IJF 16, 437–450 (rolling origins).
 //   - Williams, W. H. & Goodman, M. L. (1971). A simple method for the
