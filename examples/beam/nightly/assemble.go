@@ -96,7 +96,7 @@ func (f *assembleFn) ProcessElement(ctx context.Context, key string, obsIt func(
 		return
 	}
 	if bad := slices.ContainsFunc(places, func(p Place) bool { return p.Bad }); bad && within == "" {
-		fail(ReasonPlaces, "its row in the hierarchy file was rejected")
+		fail(ReasonBadPlace, "its row in the hierarchy file was rejected (see its dead-letter row)")
 		return
 	}
 	rec, reason, err := build(key, obs, f.FillGaps)

@@ -265,7 +265,12 @@ func (f *forecastFn) tree(ctx context.Context, rootName string, recs []SeriesRec
 	}
 
 	// The hierarchy of the series forecast, and its aggregates.
-	h, aggSeries, err := Aggregate(seriesOf(ok))
+	var h *reconcile.Hierarchy
+	var aggSeries []almanac.Series
+	var err error
+	if len(ok) > 0 {
+		h, aggSeries, err = Aggregate(seriesOf(ok))
+	}
 	if err != nil { // cannot happen: the paths were checked when read
 		for _, st := range okStat {
 			st.state, st.reason, st.detail = StateForecast, ReasonReconcile, err.Error()
