@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"strings"
 	"time"
+	"unicode/utf8"
 
 	"github.com/almanac-go/almanac"
 	"github.com/apache/beam/sdks/v2/go/pkg/beam"
@@ -175,28 +176,83 @@ func parseTime(s string) (time.Time, error) {
 			return t, nil
 		}
 	}
-	return time.Time{}, fmt.Errorf("period %q matches none of the layouts %q", s, almanac.DefaultTimeLayouts)
+	return time.Time{}, fmt.Errorf("period %s matches none of the layouts %q", quote(s), almanac.DefaultTimeLayouts)
 }
 
-// parseValue reads a value: a number, or one of the missing-value tokens
-// almanac.ReadCSV accepts (empty, NA, N/A, NaN, null, any case), which
-// give NaN.
+// parseValue reads a value as almanac.ReadCSV does: a plain decimal
+// number (optional sign, digits with an optional decimal point, optional
+// exponent; no hexadecimal, no digit separators), or one of the
+// missing-value tokens (empty, NA, N/A, NaN, null, any case), which give
+// NaN. Inf, Infinity and numbers beyond the float64 range are
+// ReasonNonFinite, anything else ReasonBadValue.
 func parseValue(s string) (float64, string, error) {
 	t := strings.TrimSpace(s)
 	if t == "" || strings.EqualFold(t, "NA") || strings.EqualFold(t, "N/A") || strings.EqualFold(t, "NaN") || strings.EqualFold(t, "null") {
 		return math.NaN(), "", nil
 	}
-	v, err := strconv.ParseFloat(t, 64)
-	switch {
-	case err == nil && !math.IsInf(v, 0) && !math.IsNaN(v):
-		return v, "", nil
-	case math.IsInf(v, 0) || errors.Is(err, strconv.ErrRange) && math.IsInf(v, 0):
-		return 0, ReasonNonFinite, fmt.Errorf("value %q is not finite", s)
-	case err == nil: // "nan" spelled another way, e.g. "+NaN"
-		return 0, ReasonNonFinite, fmt.Errorf("value %q is not a number", s)
-	default:
-		return 0, ReasonBadValue, fmt.Errorf("value %q is not a number or a missing-value token", s)
+	if u := strings.TrimLeft(t, "+-"); strings.EqualFold(u, "inf") || strings.EqualFold(u, "infinity") {
+		return 0, ReasonNonFinite, fmt.Errorf("value %s is not finite", quote(s))
 	}
+	if !isDecimal(t) {
+		return 0, ReasonBadValue, fmt.Errorf("value %s is not a decimal number or a missing-value token", quote(s))
+	}
+	v, err := strconv.ParseFloat(t, 64)
+	if math.IsInf(v, 0) {
+		return 0, ReasonNonFinite, fmt.Errorf("value %s is beyond the float64 range", quote(s))
+	}
+	if err != nil { // cannot happen for a decimal within range
+		return 0, ReasonBadValue, fmt.Errorf("value %s: %v", quote(s), err)
+	}
+	return v, "", nil
+}
+
+// isDecimal reports whether s is a plain decimal number: an optional
+// sign, at least one digit with an optional decimal point, and an
+// optional exponent (e or E, optional sign, digits).
+func isDecimal(s string) bool {
+	i, digits := 0, 0
+	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		i++
+	}
+	for ; i < len(s) && s[i] >= '0' && s[i] <= '9'; i++ {
+		digits++
+	}
+	if i < len(s) && s[i] == '.' {
+		for i++; i < len(s) && s[i] >= '0' && s[i] <= '9'; i++ {
+			digits++
+		}
+	}
+	if digits == 0 {
+		return false
+	}
+	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
+		i++
+		if i < len(s) && (s[i] == '+' || s[i] == '-') {
+			i++
+		}
+		exp := 0
+		for ; i < len(s) && s[i] >= '0' && s[i] <= '9'; i++ {
+			exp++
+		}
+		if exp == 0 {
+			return false
+		}
+	}
+	return i == len(s)
+}
+
+// quote quotes a cell for a message, cut to a short prefix when long so
+// that a huge bad cell does not fill the dead-letter file.
+func quote(s string) string {
+	const keep = 40
+	if len(s) <= keep {
+		return strconv.Quote(s)
+	}
+	cut := keep - 8
+	for cut > 0 && !utf8.RuneStart(s[cut]) {
+		cut--
+	}
+	return fmt.Sprintf("%s… (%d bytes)", strconv.Quote(s[:cut]), len(s))
 }
 
 // readPlacesFn reads the hierarchy file: one row per series naming its
