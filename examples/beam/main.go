@@ -56,7 +56,8 @@ var (
 	seed        = flag.Uint64("seed", 1, "seed of the reconciliation's random streams (and of -generate)")
 	fillGaps    = flag.Bool("fill-gaps", false, "fill missing periods inside a series with missing values instead of failing it")
 	shards      = flag.Int("shards", 4, "files per output")
-	workers     = flag.Int("fit-workers", 0, "goroutines fitting the series of one hierarchy (0: GOMAXPROCS)")
+	workers     = flag.Int("fit-workers", 0, "goroutines fitting the series of one group (0: GOMAXPROCS)")
+	buckets     = flag.Int("buckets", 256, "groups the series outside any hierarchy are dealt into")
 	generate    = flag.Int("generate", 0, "first write an invented catalogue of about this many series to WORK and run on it")
 	work        = flag.String("work", "", "directory for the generated catalogue (with -generate)")
 )
@@ -75,7 +76,7 @@ func run(ctx context.Context) error {
 		Input: *input, Hierarchy: *hierarchy, Output: *output,
 		Model: *model, Horizon: *horizon, Backtest: *backtest,
 		Reconcile: *method, NonNegative: *nonNegative, Paths: *paths, Seed: *seed,
-		FillGaps: *fillGaps, Shards: *shards, Workers: *workers,
+		FillGaps: *fillGaps, Shards: *shards, Workers: *workers, Buckets: *buckets,
 	}
 	for _, f := range strings.Split(*levels, ",") {
 		if f = strings.TrimSpace(f); f == "" {

@@ -53,6 +53,9 @@ type assembleFn struct {
 	// FillGaps fills missing periods with NaN instead of failing the
 	// series.
 	FillGaps bool
+	// Buckets is the number of groups series outside any hierarchy are
+	// dealt into.
+	Buckets int
 }
 
 // ProcessElement builds the series key from its rows and places. It
@@ -77,7 +80,7 @@ func (f *assembleFn) ProcessElement(ctx context.Context, key string, obsIt func(
 		st.reason, st.detail = reason, detail
 		st.report(ctx, out)
 		if within != "" {
-			emit(groupOf(key, within), SeriesRec{Key: key, Within: within, Failed: true, Reason: reason})
+			emit(groupOf(key, within, f.Buckets), SeriesRec{Key: key, Within: within, Failed: true, Reason: reason})
 		}
 	}
 	switch {
@@ -88,7 +91,7 @@ func (f *assembleFn) ProcessElement(ctx context.Context, key string, obsIt func(
 		st.state, st.reason, st.detail = StateSkipped, ReasonNoData, "the hierarchy file places it but there are no data rows"
 		st.report(ctx, out)
 		if within != "" {
-			emit(groupOf(key, within), SeriesRec{Key: key, Within: within, Failed: true, Reason: ReasonNoData})
+			emit(groupOf(key, within, f.Buckets), SeriesRec{Key: key, Within: within, Failed: true, Reason: ReasonNoData})
 		}
 		return
 	case f.Hierarchy && len(places) == 0:
@@ -105,7 +108,7 @@ func (f *assembleFn) ProcessElement(ctx context.Context, key string, obsIt func(
 		return
 	}
 	rec.Within = within
-	emit(groupOf(key, within), rec)
+	emit(groupOf(key, within, f.Buckets), rec)
 }
 
 // placeOf returns the one path the places give ("" for none); places
@@ -131,10 +134,11 @@ func root(within string) string {
 }
 
 // groupOf is the key that brings the series of one hierarchy together;
-// a series outside any hierarchy is a group of its own.
-func groupOf(key, within string) string {
+// series outside any hierarchy are dealt into buckets by key (so that a
+// worker fits a batch of them at once, on all its cores).
+func groupOf(key, within string, buckets int) string {
 	if within == "" {
-		return "series\x00" + key
+		return fmt.Sprintf("series\x00%d", shardOf(key, buckets))
 	}
 	return "tree\x00" + root(within)
 }

@@ -24,8 +24,8 @@
 //     key), sort them by period, infer the frequency, and build the
 //     series.
 //  3. Group the series by the root of their hierarchy (GroupByKey), so
-//     that each hierarchy is forecast and reconciled on one worker; a
-//     series outside any hierarchy is a group of its own.
+//     that each hierarchy is forecast and reconciled on one worker; the
+//     series outside any hierarchy are dealt into Options.Buckets groups.
 //  4. In each group: fit the model to every series (almanac.BatchFit),
 //     forecast, sum the series into the hierarchy's aggregates (Aggregate)
 //     and forecast those, reconcile all nodes' forecasts with joint
@@ -80,8 +80,9 @@
 //
 // # Concurrency
 //
-// The runner spreads the groups over its workers; within a group the
-// series are fitted on Options.Workers goroutines (almanac.BatchFit),
+// The runner spreads the groups over its workers; within a group (a
+// hierarchy, or a bucket of series outside any) the series are fitted on
+// Options.Workers goroutines (almanac.BatchFit),
 // with results that do not depend on their number. Reconciliation of one
 // hierarchy is sequential. A hierarchy's series are held in one worker's
 // memory at once, which suits hierarchies up to a few thousand nodes

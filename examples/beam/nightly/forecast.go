@@ -53,12 +53,7 @@ func (f *forecastFn) ProcessElement(ctx context.Context, group string, it func(*
 		f.tree(ctx, strings.TrimPrefix(group, "tree\x00"), recs, out)
 		return
 	}
-	for _, rec := range recs {
-		if rec.Failed {
-			continue // reported when assembled
-		}
-		f.lone(ctx, rec, out)
-	}
+	f.lone(ctx, slices.DeleteFunc(recs, func(r SeriesRec) bool { return r.Failed }), out)
 }
 
 func (r SeriesRec) series() almanac.Series {
@@ -78,27 +73,33 @@ func (f *forecastFn) fitAll(ctx context.Context, ys []almanac.Series) []almanac.
 	return res
 }
 
-// lone forecasts a series outside any hierarchy.
-func (f *forecastFn) lone(ctx context.Context, rec SeriesRec, out func(Record)) {
-	y := rec.series()
-	st := status{key: rec.Key, role: RoleInput, state: StateFailed, obs: len(y.Values)}
-	res := f.fitAll(ctx, []almanac.Series{y})[0]
-	if res.Err != nil {
-		st.reason, st.detail = reasonOf(res.Err), res.Err.Error()
-		st.report(ctx, out)
-		return
+// lone forecasts series outside any hierarchy (a bucket of them, fitted
+// together on Workers goroutines).
+func (f *forecastFn) lone(ctx context.Context, recs []SeriesRec, out func(Record)) {
+	ys := make([]almanac.Series, len(recs))
+	for i, r := range recs {
+		ys[i] = r.series()
 	}
-	st.model = res.Fitted.String()
-	fc, err := res.Fitted.Forecast(f.Horizon, f.Levels...)
-	if err != nil {
-		st.reason, st.detail = ReasonForecast, err.Error()
+	res := f.fitAll(ctx, ys)
+	for i, y := range ys {
+		st := status{key: y.Key, role: RoleInput, state: StateFailed, obs: len(y.Values)}
+		if res[i].Err != nil {
+			st.reason, st.detail = reasonOf(res[i].Err), res[i].Err.Error()
+			st.report(ctx, out)
+			continue
+		}
+		st.model = res[i].Fitted.String()
+		fc, err := res[i].Fitted.Forecast(f.Horizon, f.Levels...)
+		if err != nil {
+			st.reason, st.detail = ReasonForecast, err.Error()
+			st.report(ctx, out)
+			continue
+		}
+		f.emitForecast(y.Key, KindBase, fc, out)
+		st.state = StateForecast
 		st.report(ctx, out)
-		return
+		f.backtest(ctx, y, out)
 	}
-	f.emitForecast(rec.Key, KindBase, fc, out)
-	st.state = StateForecast
-	st.report(ctx, out)
-	f.backtest(ctx, y, out)
 }
 
 // reasonOf classifies a fitting error.

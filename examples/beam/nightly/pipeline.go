@@ -53,8 +53,15 @@ type Options struct {
 	// Shards is the number of files each output is split into; 0 means 4.
 	Shards int
 	// Workers is the number of goroutines fitting the series of one
-	// hierarchy; 0 means GOMAXPROCS. The results do not depend on it.
+	// group (a hierarchy, or a bucket of series outside any hierarchy); 0
+	// means GOMAXPROCS. The results do not depend on it.
 	Workers int
+	// Buckets is the number of groups the series outside any hierarchy
+	// are dealt into (by a hash of their key), each fitted as one batch
+	// on one worker; 0 means 256. More buckets spread a flat catalogue
+	// over more workers of a cluster; fewer give each worker larger
+	// batches.
+	Buckets int
 
 	// Column names; "" means the defaults: "series", "period", "value"
 	// (almanac's long format) and "within".
@@ -99,8 +106,11 @@ func (o Options) Resolve() (Options, error) {
 		o.Reconcile = ReconcileMinT
 	}
 	switch {
-	case o.Backtest < 0, o.Paths < 0, o.Shards < 0, o.Workers < 0:
-		return o, fmt.Errorf("%w: negative backtest origins, paths, shards or workers", ErrOption)
+	case o.Backtest < 0, o.Paths < 0, o.Shards < 0, o.Workers < 0, o.Buckets < 0:
+		return o, fmt.Errorf("%w: negative backtest origins, paths, shards, workers or buckets", ErrOption)
+	}
+	if o.Buckets == 0 {
+		o.Buckets = 256
 	}
 	if o.Shards == 0 {
 		o.Shards = 4
@@ -143,7 +153,7 @@ func Build(s beam.Scope, o Options) error {
 	}
 
 	joined := beam.CoGroupByKey(s, obs, places)
-	series, assembled := beam.ParDo2(s, &assembleFn{Hierarchy: o.Hierarchy != "", FillGaps: o.FillGaps}, joined)
+	series, assembled := beam.ParDo2(s, &assembleFn{Hierarchy: o.Hierarchy != "", FillGaps: o.FillGaps, Buckets: o.Buckets}, joined)
 	groups := beam.GroupByKey(s, series)
 	results := beam.ParDo(s, &forecastFn{
 		Model: o.Model, Horizon: o.Horizon, Levels: o.Levels, Backtest: o.Backtest,

@@ -515,3 +515,60 @@ func TestBuildRejectsBadOptions(t *testing.T) {
 		})
 	}
 }
+
+// TestPipelineWithoutHierarchy runs the pipeline with no hierarchy file:
+// every series is forecast on its own, bit for bit as the library
+// forecasts it, and nothing is reconciled.
+func TestPipelineWithoutHierarchy(t *testing.T) {
+	dir := t.TempDir()
+	in, out := filepath.Join(dir, "in"), filepath.Join(dir, "out")
+	lines, err := catalogue.Write(in, catalogue.Options{Stores: 2, Departments: 1, Lines: 2, Months: 36, Seed: 11})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, s := beam.NewPipelineWithRoot()
+	if err := nightly.Build(s, nightly.Options{Input: filepath.Join(in, catalogue.DataPattern), Output: out, Model: "theta", Horizon: testHorizon, Levels: testLevels}); err != nil {
+		t.Fatal(err)
+	}
+	res, err := beam.Run(context.Background(), "prism", p)
+	if err != nil {
+		t.Fatalf("pipeline failed: %v", err)
+	}
+	rows := map[string][]map[string]string{}
+	for _, r := range readShards(t, out, nightly.OutputForecasts) {
+		if r["kind"] != nightly.KindBase {
+			t.Errorf("%s: %s rows without a hierarchy", r["series"], r["kind"])
+		}
+		rows[r["series"]] = append(rows[r["series"]], r)
+	}
+	for _, ln := range lines {
+		rs := rows[ln.Key]
+		slices.SortFunc(rs, func(a, b map[string]string) int { return strings.Compare(a["period"], b["period"]) })
+		f, err := smoothing.Theta{}.Fit(context.Background(), almanac.Series{Key: ln.Key, Start: ln.Start, Freq: calendar.Monthly, Values: ln.Values})
+		if err != nil {
+			t.Fatal(err)
+		}
+		fc, err := f.Forecast(testHorizon, testLevels...)
+		if err != nil {
+			t.Fatal(err)
+		}
+		sameBits(t, ln.Key, "base", rs, fc)
+	}
+	if len(rows) != len(lines) {
+		t.Errorf("forecasts for %d series, want %d", len(rows), len(lines))
+	}
+	for _, r := range readShards(t, out, nightly.OutputStatus) {
+		if r["state"] != nightly.StateForecast || r["tree"] != "" || r["role"] != nightly.RoleInput {
+			t.Errorf("status %v, want an input forecast outside any tree", r)
+		}
+	}
+	var forecast int64
+	for _, c := range res.Metrics().AllMetrics().Counters() {
+		if c.Key.Namespace == "almanac" && c.Key.Name == "series_forecast" {
+			forecast += c.Committed
+		}
+	}
+	if forecast != int64(len(lines)) {
+		t.Errorf("series_forecast = %d, want %d", forecast, len(lines))
+	}
+}
