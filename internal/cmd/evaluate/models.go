@@ -1,0 +1,76 @@
+package main
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/accuracy"
+	"github.com/almanac-go/almanac/arima"
+	"github.com/almanac-go/almanac/internal/combine"
+	"github.com/almanac-go/almanac/smoothing"
+)
+
+// entry is a model the program can evaluate.
+type entry struct {
+	name  string
+	about string
+	model almanac.Model
+}
+
+// registry lists the models by the names -models accepts, in the order
+// -help prints them.
+func registry() []entry {
+	return []entry{
+		{"combo", "mean of the ETS selection, the ARIMA search and Theta", combine.Mean{Members: []combine.Member{
+			{Name: "ets", Model: smoothing.Select{Workers: 1}},
+			{Name: "arima", Model: arima.Search{}},
+			{Name: "theta", Model: smoothing.Theta{}},
+		}}},
+		{"ets", "ETS chosen by AICc (smoothing.Select)", smoothing.Select{Workers: 1}},
+		{"arima", "seasonal ARIMA with orders chosen by AICc (arima.Search)", arima.Search{}},
+		{"theta", "the Theta method (smoothing.Theta)", smoothing.Theta{}},
+		{"naive2", "M3/M4 Naive2: naive on the seasonally adjusted series", accuracy.Naive2{}},
+		{"snaive", "seasonal naive, the period from the frequency", almanac.SeasonalNaive{}},
+		{"naive", "naive (random walk)", almanac.Naive{}},
+		{"drift", "random walk with drift", almanac.Drift{}},
+		{"ses", "simple exponential smoothing, ETS(A,N,N)", smoothing.Spec{}},
+		{"damped", "damped trend, ETS(A,Ad,N)", smoothing.Spec{Trend: smoothing.DampedTrend}},
+	}
+}
+
+// pickModels resolves a comma-separated list of names.
+func pickModels(list string) ([]entry, error) {
+	all := registry()
+	var out []entry
+	seen := map[string]bool{}
+	for _, name := range strings.Split(list, ",") {
+		name = strings.TrimSpace(name)
+		if name == "" {
+			continue
+		}
+		if seen[name] {
+			return nil, fmt.Errorf("evaluate: model %q named twice", name)
+		}
+		seen[name] = true
+		found := false
+		for _, e := range all {
+			if e.name == name {
+				out = append(out, e)
+				found = true
+				break
+			}
+		}
+		if !found {
+			var names []string
+			for _, e := range all {
+				names = append(names, e.name)
+			}
+			return nil, fmt.Errorf("evaluate: unknown model %q (known: %s)", name, strings.Join(names, ", "))
+		}
+	}
+	if len(out) == 0 {
+		return nil, fmt.Errorf("evaluate: no model named")
+	}
+	return out, nil
+}
