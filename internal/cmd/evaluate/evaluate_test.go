@@ -351,3 +351,36 @@ func TestMissingTestValueAndConstantSeries(t *testing.T) {
 		t.Errorf("MASE = %v, want 1", r.MASE)
 	}
 }
+
+// TestForecastsFile: -forecasts writes one row per model, series and
+// step, with empty cells where the model failed.
+func TestForecastsFile(t *testing.T) {
+	dir, ss := synthDir(t)
+	file := filepath.Join(t.TempDir(), "f.csv")
+	rows := runJSON(t, "-data", dir, "-models", "naive,ses", "-forecasts", file)
+	fh, err := os.Open(file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer fh.Close()
+	recs, err := csv.NewReader(fh).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	steps := 0
+	for _, s := range ss {
+		steps += len(s.Test)
+	}
+	if len(recs) != 1+2*steps {
+		t.Fatalf("%d rows, want %d", len(recs), 1+2*steps)
+	}
+	failed := map[string]bool{}
+	for _, id := range find(t, rows, "ses", "all").FailedIDs {
+		failed[id] = true
+	}
+	for _, r := range recs[1:] {
+		if empty := r[5] == ""; empty != (r[0] == "ses" && failed[r[1]]) {
+			t.Fatalf("row %v: point cell empty = %v", r, empty)
+		}
+	}
+}

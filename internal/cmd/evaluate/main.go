@@ -19,6 +19,11 @@
 //	               (category "all" included) instead of the tables
 //	-workers N     series fitted at once (0: GOMAXPROCS)
 //	-why           print the error of every failed series
+//	-forecasts F   also write every forecast to the CSV file F, one row
+//	               per model, series and step (columns model, series,
+//	               category, step, actual, point, lower80, upper80,
+//	               lower95, upper95; empty where a model failed or gave
+//	               no bands), for studying combinations offline
 //	-list          list the model names and exit
 //
 // # Data
@@ -96,6 +101,7 @@ type options struct {
 	json    bool
 	workers int
 	why     bool
+	dump    string
 }
 
 func parseFlags(args []string, stderr io.Writer) (*options, error) {
@@ -110,6 +116,7 @@ func parseFlags(args []string, stderr io.Writer) (*options, error) {
 	fs.BoolVar(&o.json, "json", false, "print one JSON object per line per model and category")
 	fs.IntVar(&o.workers, "workers", 0, "series fitted at once (0: GOMAXPROCS)")
 	fs.BoolVar(&list, "list", false, "list the model names and exit")
+	fs.StringVar(&o.dump, "forecasts", "", "also write every forecast to `FILE` (CSV: model, series, category, step, actual, point, lower and upper bounds)")
 	fs.BoolVar(&o.why, "why", false, "print the error of every failed series (default: three per model)")
 	if err := fs.Parse(args); err != nil {
 		return nil, err
@@ -173,6 +180,11 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	}
 	if err := ctx.Err(); err != nil {
 		return err
+	}
+	if o.dump != "" {
+		if err := writeForecasts(o.dump, d, idx, runs); err != nil {
+			return err
+		}
 	}
 	rep := buildReport(d, idx, runs, ref, o.subset)
 	rep.showWhy = o.why

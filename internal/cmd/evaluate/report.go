@@ -1,10 +1,13 @@
 package main
 
 import (
+	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"io"
 	"math"
+	"os"
+	"strconv"
 	"strings"
 )
 
@@ -349,4 +352,39 @@ func (rp *report) writeJSON(w io.Writer) error {
 		}
 	}
 	return nil
+}
+
+// writeForecasts writes every forecast of every run to a CSV file.
+func writeForecasts(name string, d *dataset, idx []int, runs []modelRun) error {
+	fh, err := os.Create(name)
+	if err != nil {
+		return err
+	}
+	w := csv.NewWriter(fh)
+	w.Write([]string{"model", "series", "category", "step", "actual", "point", "lower80", "upper80", "lower95", "upper95"})
+	cell := func(xs []float64, j int) string {
+		if xs == nil || math.IsNaN(xs[j]) {
+			return ""
+		}
+		return strconv.FormatFloat(xs[j], 'g', -1, 64)
+	}
+	for _, r := range runs {
+		for _, i := range idx {
+			it, res := d.items[i], r.res[i]
+			for j := range it.test {
+				var pt []float64
+				if res.err == nil {
+					pt = res.point
+				}
+				w.Write([]string{r.e.name, it.id, it.category, strconv.Itoa(j + 1), cell(it.test, j), cell(pt, j),
+					cell(res.lo[0], j), cell(res.hi[0], j), cell(res.lo[1], j), cell(res.hi[1], j)})
+			}
+		}
+	}
+	w.Flush()
+	if err := w.Error(); err != nil {
+		fh.Close()
+		return err
+	}
+	return fh.Close()
 }

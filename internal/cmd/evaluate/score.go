@@ -37,6 +37,11 @@ type result struct {
 	totIn  [2]int     // 1 when the h-step total is inside its band
 	nTot   int        // 1 when the total could be scored
 	note   string     // what could not be scored, e.g. "no bands"
+
+	// The forecast itself, kept for -forecasts: point forecasts and the
+	// bands at each level (nil without bands).
+	point  []float64
+	lo, hi [2][]float64
 }
 
 // evaluateOne fits m to the training part of it, forecasts the test part
@@ -127,6 +132,7 @@ func evaluateOne(ctx context.Context, m almanac.Model, it item, seed uint64) (r 
 			}
 		}
 	}
+	r.point, r.lo, r.hi = fc.Mean, lo, hi
 	r.scoreTotal(fit, fc, it.test, seed)
 	return r
 }
