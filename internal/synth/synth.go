@@ -142,7 +142,9 @@ func holidaysBetween(from, to time.Time) map[time.Time]string {
 	return out
 }
 
-func day0(t time.Time) time.Time { return time.Date(t.Year(), t.Month(), t.Day(), 0, 0, 0, 0, time.UTC) }
+func day0(t time.Time) time.Time {
+	return time.Date(t.Year(), t.Month(), t.Day(), 0, 0, 0, 0, time.UTC)
+}
 
 // ar1 is a stationary AR(1) noise source.
 type ar1 struct {
