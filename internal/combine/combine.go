@@ -188,54 +188,42 @@ func (f *Fit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
 		return almanac.Forecast{}, fmt.Errorf("combine: %w", err)
 	}
 	mean := make([]float64, h)
-	fcs := make([]almanac.Forecast, len(f.fits))
 	for k, fit := range f.fits {
-		fc, err := fit.Forecast(h, 80)
-		if err != nil {
-			fc, err = fit.Forecast(h)
-		}
+		fc, err := fit.Forecast(h)
 		if err != nil {
 			return almanac.Forecast{}, fmt.Errorf("combine: member %s: %w", f.names[k], err)
 		}
 		if len(fc.Mean) != h {
 			return almanac.Forecast{}, fmt.Errorf("combine: member %s: %w: %d forecasts for %d steps", f.names[k], almanac.ErrLength, len(fc.Mean), h)
 		}
-		fcs[k] = fc
 		for j, v := range fc.Mean {
 			mean[j] += v / float64(len(f.fits))
 		}
 	}
+	start := f.y.Time(f.y.Len())
+	if len(levels) == 0 {
+		return almanac.NewForecast(start, f.y.Freq, mean, nil)
+	}
 	var dist almanac.Distribution
-	paths, err := f.Simulate(h, f.paths, rand.NewPCG(f.seed, 0x5bd1e995))
-	if err == nil {
+	if paths, err := f.Simulate(h, f.paths, rand.NewPCG(f.seed, 0x5bd1e995)); err == nil {
 		dist = &almanac.Sample{Paths: paths}
 	} else {
 		// Normal with the mean of the members' standard deviations,
 		// read off their 80% bands.
 		z := distuv.UnitNormal.Quantile(0.9)
 		sd := make([]float64, h)
-		for j := range sd {
-			have := 0
-			for _, fc := range fcs {
-				if len(fc.Intervals) == 1 {
-					sd[j] += (fc.Intervals[0].Upper[j] - fc.Intervals[0].Lower[j]) / (2 * z)
-					have++
-				}
+		for k, fit := range f.fits {
+			fc, err := fit.Forecast(h, 80)
+			if err != nil {
+				return almanac.Forecast{}, fmt.Errorf("combine: %w: member %s gives no bands: %w", almanac.ErrNoDistribution, f.names[k], err)
 			}
-			if have == 0 {
-				if len(levels) > 0 {
-					return almanac.Forecast{}, fmt.Errorf("combine: %w: no member gives bands", almanac.ErrNoDistribution)
-				}
-				sd = nil
-				break
+			for j := range sd {
+				sd[j] += (fc.Intervals[0].Upper[j] - fc.Intervals[0].Lower[j]) / (2 * z) / float64(len(f.fits))
 			}
-			sd[j] /= float64(have)
 		}
-		if sd != nil {
-			dist = &almanac.Normal{Mean: mean, SD: sd}
-		}
+		dist = &almanac.Normal{Mean: mean, SD: sd}
 	}
-	fc, err := almanac.NewForecast(f.y.Time(f.y.Len()), f.y.Freq, mean, dist, levels...)
+	fc, err := almanac.NewForecast(start, f.y.Freq, mean, dist, levels...)
 	if err != nil {
 		return almanac.Forecast{}, fmt.Errorf("combine: %w", err)
 	}
