@@ -22,6 +22,7 @@ type entry struct {
 // -help prints them.
 func registry() []entry {
 	return []entry{
+		{"auto", "the automatic forecaster (accuracy.Pilot)", accuracy.Pilot{}},
 		{"combo", "mean of the ETS selection, the ARIMA search and Theta", combine.Mean{Members: []combine.Member{
 			{Name: "ets", Model: smoothing.Select{Workers: 1}},
 			{Name: "arima", Model: arima.Search{}},

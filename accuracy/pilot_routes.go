@@ -1,0 +1,184 @@
+package accuracy
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/arima"
+	"github.com/almanac-go/almanac/decompose"
+	"github.com/almanac-go/almanac/internal/combine"
+	"github.com/almanac-go/almanac/smoothing"
+)
+
+// stage is one step of Pilot's plan for a series: a route and how to fit
+// it.
+type stage struct {
+	route         Route
+	periods       []float64
+	needsComplete bool // gaps are repaired before this stage
+	fit           func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error)
+}
+
+// maxCombinationPeriod is the largest whole period the combination
+// route models with seasonal ETS and ARIMA terms (smoothing.MaxPeriod);
+// longer cycles go by decomposition.
+const maxCombinationPeriod = smoothing.MaxPeriod
+
+// weeklyPeriod is the seasonal period of weekly data in whole weeks,
+// 365.25/7 rounded.
+const weeklyPeriod = 52
+
+// planRoutes lists the stages to try for y, best first, ending with the
+// benchmarks; decisions taken before fitting (a cycle the series is too
+// short for) are recorded in rep.Fallbacks.
+func planRoutes(y almanac.Series, rep *PilotReport, seed uint64) []stage {
+	var plan []stage
+	n := y.Len() - y.Missing()
+	if rep.Demand.Intermittent() {
+		plan = append(plan, intermittentStage(seed))
+	}
+	periods := y.Freq.SeasonalPeriods()
+	nonSeasonalFirst := false
+	switch {
+	case len(periods) == 0:
+		nonSeasonalFirst = true
+	case len(periods) == 1 && periods[0] == math.Round(periods[0]) && periods[0] <= maxCombinationPeriod:
+		m := int(periods[0])
+		if n < 2*m {
+			rep.Fallbacks = append(rep.Fallbacks, fmt.Sprintf("%v: %d observed values, fewer than two cycles of %d", RouteCombination, n, m))
+			nonSeasonalFirst = true
+			break
+		}
+		plan = append(plan, combinationStage(RouteCombination, m, seed))
+	case len(periods) == 1:
+		if n <= 2*weeklyPeriod {
+			rep.Fallbacks = append(rep.Fallbacks, fmt.Sprintf("%v: %d observed values, not more than two cycles of %d", RouteWeekly, n, weeklyPeriod))
+			nonSeasonalFirst = true
+			break
+		}
+		plan = append(plan, weeklyStage(seed))
+	default:
+		var usable []float64
+		for _, p := range periods {
+			if float64(n) > 2*math.Round(p) {
+				usable = append(usable, p)
+			}
+		}
+		if len(usable) == 0 {
+			rep.Fallbacks = append(rep.Fallbacks, fmt.Sprintf("%v: %d observed values, not more than two cycles of any period in %v", RouteMultiSeasonal, n, periods))
+			nonSeasonalFirst = true
+			break
+		}
+		plan = append(plan, multiSeasonalStage(usable, seed))
+	}
+	if nonSeasonalFirst {
+		st := combinationStage(RouteCombination, 1, seed)
+		plan = append(plan, st)
+	} else {
+		plan = append(plan, combinationStage(RouteNonSeasonal, 1, seed))
+	}
+	return append(plan, naiveStage(), lastValueStage())
+}
+
+// combine fits the members as an equal-weight mean and returns the fit
+// and the members left out.
+func combineMembers(ctx context.Context, y almanac.Series, seed uint64, members ...combine.Member) (almanac.Fitted, []string, error) {
+	fit, err := combine.Mean{Members: members, Seed: seed}.FitMembers(ctx, y)
+	if err != nil {
+		return nil, nil, err
+	}
+	var dropped []string
+	for _, f := range fit.Failed() {
+		dropped = append(dropped, fmt.Sprintf("%s: %v", f.Name, f.Err))
+	}
+	return fit, dropped, nil
+}
+
+// nonSeasonal are the members of the combination without seasonal
+// terms: ETS chosen among the non-seasonal forms, ARIMA without seasonal
+// terms, Theta without seasonal adjustment.
+func nonSeasonal() []combine.Member {
+	return []combine.Member{
+		{Name: "ets", Model: smoothing.Select{Seasons: []smoothing.SeasonType{smoothing.NoSeason}, Workers: 1}},
+		{Name: "arima", Model: arima.Search{Period: 1}},
+		{Name: "theta", Model: smoothing.Theta{Period: 1}},
+	}
+}
+
+// combinationStage is the mean of ETS, ARIMA and Theta with period m (1:
+// no seasonal terms).
+func combinationStage(r Route, m int, seed uint64) stage {
+	members := nonSeasonal()
+	var periods []float64
+	if m >= 2 {
+		periods = []float64{float64(m)}
+		members = []combine.Member{
+			{Name: "ets", Model: smoothing.Select{Period: m, Workers: 1}},
+			{Name: "arima", Model: arima.Search{Period: m}},
+			{Name: "theta", Model: smoothing.Theta{Period: m}},
+		}
+	}
+	return stage{route: r, periods: periods, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
+		return combineMembers(ctx, y, seed, members...)
+	}}
+}
+
+// weeklyStage combines the non-seasonal models of the STL-adjusted
+// series (52-week cycle) with Theta adjusted by a classical 52-week
+// decomposition.
+func weeklyStage(seed uint64) stage {
+	return stage{route: RouteWeekly, periods: []float64{365.25 / 7}, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
+		return combineMembers(ctx, y, seed,
+			combine.Member{Name: "stl", Model: decompose.Forecaster{
+				Method: decompose.STL{Period: weeklyPeriod, Robust: true},
+				Model:  combine.Mean{Members: nonSeasonal(), Seed: seed},
+			}},
+			combine.Member{Name: "theta", Model: smoothing.Theta{Period: weeklyPeriod}},
+		)
+	}}
+}
+
+// multiSeasonalStage adjusts the series by MSTL at the usable periods and
+// combines non-seasonal models of the adjusted series.
+func multiSeasonalStage(periods []float64, seed uint64) stage {
+	return stage{route: RouteMultiSeasonal, periods: slices.Clone(periods), needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
+		return combineMembers(ctx, y, seed,
+			combine.Member{Name: "mstl", Model: decompose.Forecaster{
+				Method: decompose.MSTL{Periods: periods},
+				Model:  combine.Mean{Members: nonSeasonal(), Seed: seed},
+			}},
+		)
+	}}
+}
+
+// naiveStage is the naive method (two observed values or more).
+func naiveStage() stage {
+	return stage{route: RouteBenchmark, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
+		f, err := almanac.Naive{}.Fit(ctx, y)
+		return f, nil, err
+	}}
+}
+
+// lastValueStage forecasts the last observed value with bands of zero
+// width: with one observation nothing measures the spread.
+func lastValueStage() stage {
+	return stage{route: RouteBenchmark, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
+		return newLastValue(y), nil, nil
+	}}
+}
+
+// membersOf lists the fitted models behind fit, flattening combinations.
+func membersOf(fit almanac.Fitted) []string {
+	if c, ok := fit.(*combine.Fit); ok {
+		_, fits := c.Members()
+		var out []string
+		for _, m := range fits {
+			out = append(out, membersOf(m)...)
+		}
+		return out
+	}
+	return []string{fit.String()}
+}
