@@ -26,6 +26,20 @@
 // another, as for multiplicative-error or transformed models; the
 // ResponseResiduals function falls back to Residuals).
 //
+// # Combinations
+//
+// Combination fits several models to one series and combines their
+// forecasts: the mean (default), the median, a weighted mean with weights
+// given, or weights inverse to each member's mean squared error in a
+// small rolling-origin evaluation run inside Fit. A member that fails is
+// left out and reported (CombinationFit.Failures); only when every member
+// fails is the fit an error. Bands come from combined sample paths when
+// the members simulate — members drawn with common random numbers,
+// combined draw by draw, and shuffled onto comonotone margins so that
+// each step's quantile is the rule applied to the members' quantiles —
+// and from the members' quantiles combined the same way otherwise. See
+// Combination for the assumptions.
+//
 // # Benchmarks
 //
 // Naive, SeasonalNaive, Drift and Mean forecast with normal intervals
@@ -124,6 +138,35 @@
 // R. J. Hyndman and G. Athanasopoulos (2021), Forecasting: Principles and
 // Practice, 3rd ed., OTexts, §5.5 (prediction intervals of the benchmark
 // methods) and §5.6 (bias-adjusted back-transformation).
+//
+// J. M. Bates and C. W. J. Granger (1969), The combination of forecasts,
+// Operational Research Quarterly 20, 451–468 (inverse-error weights).
+//
+// R. T. Clemen (1989), Combining forecasts: a review and annotated
+// bibliography, International Journal of Forecasting 5, 559–583.
+//
+// J. Smith and K. F. Wallis (2009), A simple explanation of the forecast
+// combination puzzle, Oxford Bulletin of Economics and Statistics 71,
+// 331–355 (why equal weights are hard to beat).
+//
+// K. C. Lichtendahl, Y. Grushka-Cockayne and R. L. Winkler (2013), Is it
+// better to average probabilities or quantiles?, Management Science 59,
+// 1594–1611 (quantile averaging).
+//
+// M. Clark, S. Gangopadhyay, L. Hay, B. Rajagopalan and R. Wilby (2004),
+// The Schaake shuffle: a method for reconstructing space–time variability
+// in forecasted precipitation and temperature fields, Journal of
+// Hydrometeorology 5, 243–262; R. Schefzik, T. L. Thorarinsdottir and
+// T. Gneiting (2013), Uncertainty quantification in complex simulation
+// models using ensemble copula coupling, Statistical Science 28, 616–640
+// (reordering draws onto a dependence template).
+//
+// S. Makridakis and M. Hibon (2000), The M3-Competition: results,
+// conclusions and implications, International Journal of Forecasting 16,
+// 451–476; S. Makridakis, E. Spiliotis and V. Assimakopoulos (2020), The
+// M4 Competition: 100,000 time series and 61 forecasting methods,
+// International Journal of Forecasting 36, 54–74 (combinations among the
+// most accurate methods).
 //
 // R. J. Hyndman and Y. Fan (1996), Sample quantiles in statistical
 // packages, The American Statistician 50, 361–365 (type 7 quantiles of

@@ -101,6 +101,17 @@ type Backtest struct {
 	// Workers is the number of goroutines fitting (candidate, origin)
 	// pairs. 0 means runtime.GOMAXPROCS(0). Results do not depend on it.
 	Workers int
+	// Progress, when not nil, is called after each (series, candidate,
+	// origin) fit is finished — completed, failed, or skipped after
+	// cancellation — with the number finished so far and the total. Calls
+	// never overlap and done increases by one each call; they come from
+	// the worker goroutines, so Progress must not block for long.
+	Progress func(done, total int)
+	// Paths is the number of sample paths drawn, for the band of the
+	// horizon total, from a fitted model that implements
+	// almanac.Simulator when its forecast holds no paths of its own. 0
+	// means DefaultTotalPaths. Negative is invalid.
+	Paths int
 }
 
 // Origin describes one forecast origin of a backtest of one series.
@@ -114,22 +125,41 @@ type Origin struct {
 }
 
 // Run is one candidate's results on one series.
+//
+// A candidate that fails to fit or forecast at an origin (or panics) is
+// scored over the origins it completed: Done is false at that origin, the
+// failure is in Failures, its Fits entry is "", its Forecasts entry the
+// zero Forecast and its Errors row NaN. After a cancellation the origins
+// not reached are not Done either, but are not failures.
 type Run struct {
 	Name string
 	// Fits holds the fitted model's published notation (Fitted.String) at
-	// each origin.
+	// each origin ("" where not Done).
 	Fits []string
 	// Forecasts holds the forecast made at each origin.
 	Forecasts []almanac.Forecast
 	// Errors[o][h] is actual − forecast at origin o and step h+1 (NaN
-	// where the actual value is missing).
+	// where the actual value is missing or the origin not Done).
 	Errors [][]float64
-	// ByStep[h] scores step h+1 over all origins.
+	// Done[o] reports whether the candidate was fitted and forecast at
+	// origin o.
+	Done []bool
+	// Failures lists the origins at which the candidate failed, in origin
+	// order (empty when it failed nowhere).
+	Failures []FitFailure
+	// ByStep[h] scores step h+1 over the origins Done.
 	ByStep []Scores
-	// Overall scores every (origin, step) cell.
+	// Overall scores every (origin, step) cell of the origins Done.
 	Overall Scores
-	// Relative holds Overall divided by the baseline's Overall.
+	// Relative holds Overall divided by the baseline's, both scored over
+	// the origins Done by this candidate and the baseline alike.
 	Relative Ratios
+	// Totals[o] is the forecast of the total over the Horizon steps made
+	// at origin o (see HorizonTotal).
+	Totals []HorizonTotal
+	// Total scores the forecasts of the horizon totals over the origins
+	// Done (see TotalScores).
+	Total TotalScores
 }
 
 // Comparison is the result of a backtest on one series: every
@@ -144,6 +174,10 @@ type Comparison struct {
 	Actual   [][]float64 // Actual[o][h]: the observation forecast at origin o, step h+1
 	Runs     []Run       // the models in the order given, then the benchmarks
 	Baseline string      // name of the run the relative scores are against
+	// Partial reports that the backtest was cancelled before every
+	// (candidate, origin) pair of this series was fitted; Run.Done says
+	// which were.
+	Partial bool
 }
 
 // Run returns the run named name.
@@ -154,6 +188,34 @@ func (c *Comparison) Run(name string) (*Run, bool) {
 		}
 	}
 	return nil, false
+}
+
+// Failures returns every candidate's failures, candidate by candidate in
+// the order of Runs, each in origin order.
+func (c *Comparison) Failures() []FitFailure {
+	var out []FitFailure
+	for _, r := range c.Runs {
+		out = append(out, r.Failures...)
+	}
+	return out
+}
+
+// FitFailure is a candidate that could not be fitted, or could not
+// forecast, at one origin of a backtest.
+type FitFailure struct {
+	Series    int       // position of the series in the batch (0 for Run)
+	Key       string    // its key
+	Candidate string    // the candidate's name
+	Origin    int       // index into Comparison.Origins
+	Time      time.Time // time of the origin's first forecast step
+	// Stage is "fit", "forecast" or "panic".
+	Stage string
+	// Cause is the model's own error (for a panic, an error wrapping
+	// almanac.ErrNotFitted with the recovered value).
+	Cause error
+	// Err wraps ErrBacktest and Cause, with the series, model and origin
+	// in its text.
+	Err error
 }
 
 // plan is a resolved backtest of one series.
@@ -239,6 +301,8 @@ func (b Backtest) check() error {
 		return bad("period", b.Period)
 	case b.Workers < 0:
 		return bad("worker count", b.Workers)
+	case b.Paths < 0:
+		return bad("path count", b.Paths)
 	case b.Window != Expanding && b.Window != Sliding:
 		return fmt.Errorf("accuracy: backtest: %w: window %v", almanac.ErrInvalid, b.Window)
 	case b.Window == Sliding && b.First > 0 && b.Length > b.First:
@@ -321,21 +385,25 @@ func (b Backtest) layout(y almanac.Series) (*plan, error) {
 // job is one (series, candidate, origin) fit.
 type job struct{ series, cand, origin int }
 
-// outcome is the result of one job.
+// outcome is the result of one job: done with a forecast, failed with
+// err, or neither (not reached before cancellation).
 type outcome struct {
+	done     bool
 	fit      string
 	forecast almanac.Forecast
-	err      error
+	total    totalBand
+	err      error  // wraps ErrBacktest and cause
+	stage    string // of the failure
+	cause    error  // the model's own error
 }
 
 // execute runs every job of the plans (nil plans are skipped) on the
-// worker pool and returns the outcomes in job order together with, per
-// plan, the error of its first failed job in job order (candidate, then
-// origin), or nil. Once a job of a plan has failed, the plan's later jobs
-// are skipped; earlier ones still run, so the error recorded, like the
-// results, does not depend on scheduling. The last result is the
-// cancellation of ctx, wrapped, when it happened.
-func (b Backtest) execute(ctx context.Context, plans []*plan) ([][][]outcome, []error, error) {
+// worker pool and returns the outcomes by (plan, candidate, origin). Every
+// job runs whatever the others gave, so the results do not depend on
+// scheduling. When ctx is cancelled no further job is started, jobs
+// stopped by the cancellation are left not done, and the second result is
+// the context's error, wrapped.
+func (b Backtest) execute(ctx context.Context, plans []*plan) ([][][]outcome, error) {
 	var jobs []job
 	out := make([][][]outcome, len(plans))
 	for s, p := range plans {
@@ -350,67 +418,69 @@ func (b Backtest) execute(ctx context.Context, plans []*plan) ([][][]outcome, []
 			}
 		}
 	}
-	// firstFail[s] is the lowest job index of plan s that failed so far
-	// (len(jobs) while none has).
-	firstFail := make([]atomic.Int64, len(plans))
-	for s := range firstFail {
-		firstFail[s].Store(int64(len(jobs)))
+	paths := b.Paths
+	if paths == 0 {
+		paths = DefaultTotalPaths
 	}
 	workers := b.Workers
 	if workers == 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	workers = min(workers, len(jobs))
-	var next atomic.Int64
+	workers = max(min(workers, len(jobs)), 1)
+	var (
+		next     atomic.Int64
+		mu       sync.Mutex
+		finished int
+	)
+	progress := func(k int) {
+		if b.Progress == nil || k <= 0 {
+			return
+		}
+		mu.Lock()
+		defer mu.Unlock()
+		for range k {
+			finished++
+			b.Progress(finished, len(jobs))
+		}
+	}
+	var started atomic.Int64
 	var wg sync.WaitGroup
 	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
+		wg.Go(func() {
+			for ctx.Err() == nil {
 				i := int(next.Add(1) - 1)
-				if i >= len(jobs) || ctx.Err() != nil {
+				if i >= len(jobs) {
 					return
 				}
+				started.Add(1)
 				j := jobs[i]
-				ff := &firstFail[j.series]
-				if int64(i) > ff.Load() {
-					continue // a lower-numbered job of this series already failed
+				r := runOne(ctx, plans[j.series], j.cand, j.origin, paths)
+				if r.err != nil && ctx.Err() != nil {
+					r = outcome{} // stopped by the cancellation: not reached
 				}
-				p := plans[j.series]
-				r := &out[j.series][j.cand][j.origin]
-				*r = runOne(ctx, p, p.candidates[j.cand], p.origins[j.origin])
-				if r.err != nil {
-					for {
-						cur := ff.Load()
-						if int64(i) >= cur || ff.CompareAndSwap(cur, int64(i)) {
-							break
-						}
-					}
-				}
+				out[j.series][j.cand][j.origin] = r
+				progress(1)
 			}
-		}()
+		})
 	}
 	wg.Wait()
 	if err := ctx.Err(); err != nil {
-		return nil, nil, fmt.Errorf("accuracy: backtest: %w", err)
+		// Jobs never started count as finished for Progress, as in
+		// almanac.BatchFit.
+		progress(len(jobs) - int(started.Load()))
+		return out, fmt.Errorf("accuracy: backtest: %w", err)
 	}
-	errs := make([]error, len(plans))
-	for s := range plans {
-		if f := int(firstFail[s].Load()); f < len(jobs) {
-			j := jobs[f]
-			errs[s] = out[j.series][j.cand][j.origin].err
-		}
-	}
-	return out, errs, nil
+	return out, nil
 }
 
-// runOne fits candidate c to the training window of origin o and
-// forecasts from it. A panic inside the model is recovered and reported
-// as an error wrapping ErrBacktest and almanac.ErrNotFitted.
-func runOne(ctx context.Context, p *plan, c Candidate, o Origin) (res outcome) {
+// runOne fits candidate ci to the training window of origin oi and
+// forecasts from it, with the band of the horizon total. A panic inside
+// the model is recovered and reported as an error wrapping ErrBacktest
+// and almanac.ErrNotFitted.
+func runOne(ctx context.Context, p *plan, ci, oi, paths int) (res outcome) {
+	c, o := p.candidates[ci], p.origins[oi]
 	fail := func(what string, err error) outcome {
-		return outcome{err: fmt.Errorf("accuracy: %w: series %q, model %q, origin %d (%s): %s: %w",
+		return outcome{stage: what, cause: err, err: fmt.Errorf("accuracy: %w: series %q, model %q, origin %d (%s): %s: %w",
 			ErrBacktest, p.y.Key, c.Name, o.Index, o.Time.Format(time.DateOnly), what, err)}
 	}
 	defer func() {
@@ -433,11 +503,12 @@ func runOne(ctx context.Context, p *plan, c Candidate, o Origin) (res outcome) {
 	if len(fc.Mean) != p.h {
 		return fail("forecast", fmt.Errorf("%w: %d forecasts for horizon %d", almanac.ErrLength, len(fc.Mean), p.h))
 	}
-	return outcome{fit: fit.String(), forecast: fc}
+	return outcome{done: true, fit: fit.String(), forecast: fc, total: bandOfTotal(fit, fc, p.levels, paths, ci, oi)}
 }
 
-// assemble turns the outcomes of one plan into a Comparison.
-func (b Backtest) assemble(p *plan, outs [][]outcome) *Comparison {
+// assemble turns the outcomes of one plan, series number series of the
+// batch, into a Comparison.
+func (b Backtest) assemble(p *plan, outs [][]outcome, series int) *Comparison {
 	h := p.h
 	no := len(p.origins)
 	c := &Comparison{
@@ -449,33 +520,43 @@ func (b Backtest) assemble(p *plan, outs [][]outcome) *Comparison {
 	for o, org := range p.origins {
 		c.Actual[o] = slices.Clone(p.y.Values[org.Index : org.Index+h])
 	}
-	cl := &cells{h: h, levels: b.Levels}
-	size := no * h
-	cl.actual = make([]float64, size)
-	cl.mean = make([]float64, size)
-	cl.scale = make([]float64, size)
-	cl.scaleSq = make([]float64, size)
-	cl.crps = make([]float64, size)
-	cl.lower = make([][]float64, len(b.Levels))
-	cl.upper = make([][]float64, len(b.Levels))
-	for k := range b.Levels {
-		cl.lower[k] = make([]float64, size)
-		cl.upper[k] = make([]float64, size)
-	}
+	nan := math.NaN()
 	var sorted []float64
+	all := make([]*cells, len(p.candidates))
 	for ci, cand := range p.candidates {
-		r := Run{Name: cand.Name, Fits: make([]string, no), Forecasts: make([]almanac.Forecast, no), Errors: make([][]float64, no)}
+		cl := newCells(h, no, b.Levels)
+		all[ci] = cl
+		r := Run{Name: cand.Name, Fits: make([]string, no), Forecasts: make([]almanac.Forecast, no),
+			Errors: make([][]float64, no), Done: make([]bool, no), Totals: make([]HorizonTotal, no)}
 		for o, org := range p.origins {
 			oc := outs[ci][o]
-			r.Fits[o] = oc.fit
-			r.Forecasts[o] = oc.forecast
 			r.Errors[o] = make([]float64, h)
+			r.Done[o] = oc.done
+			switch {
+			case oc.done:
+				r.Fits[o] = oc.fit
+				r.Forecasts[o] = oc.forecast
+			case oc.err != nil:
+				r.Failures = append(r.Failures, FitFailure{Series: series, Key: p.y.Key, Candidate: cand.Name, Origin: o, Time: org.Time, Stage: oc.stage, Cause: oc.cause, Err: oc.err})
+			default:
+				c.Partial = true
+			}
+			r.Totals[o] = oc.total.horizonTotal(c.Actual[o], oc.forecast.Mean, b.Levels)
 			for s := range h {
 				i := o*h + s
-				a, f := c.Actual[o][s], oc.forecast.Mean[s]
+				a := c.Actual[o][s]
+				cl.actual[i], cl.scale[i], cl.scaleSq[i] = a, org.Scale, org.ScaleSq
+				if !oc.done {
+					r.Errors[o][s] = nan
+					cl.mean[i], cl.crps[i] = nan, nan
+					for k := range b.Levels {
+						cl.lower[k][i], cl.upper[k][i] = nan, nan
+					}
+					continue
+				}
+				f := oc.forecast.Mean[s]
 				r.Errors[o][s] = a - f
-				cl.actual[i], cl.mean[i] = a, f
-				cl.scale[i], cl.scaleSq[i] = org.Scale, org.ScaleSq
+				cl.mean[i] = f
 				cl.crps[i], sorted = cellCRPS(a, oc.forecast, s, sorted)
 				for k, level := range b.Levels {
 					cl.lower[k][i], cl.upper[k][i] = boundsAt(oc.forecast, level, s)
@@ -483,13 +564,47 @@ func (b Backtest) assemble(p *plan, outs [][]outcome) *Comparison {
 			}
 		}
 		r.ByStep, r.Overall = cl.byStep(no)
+		r.Total = scoreTotals(r.Totals, p.origins, h, b.Levels)
 		c.Runs = append(c.Runs, r)
 	}
-	base := c.Runs[p.baseline].Overall
+	base := p.baseline
 	for i := range c.Runs {
-		c.Runs[i].Relative = c.Runs[i].Overall.RelativeTo(base)
+		if slices.Equal(c.Runs[i].Done, c.Runs[base].Done) {
+			c.Runs[i].Relative = c.Runs[i].Overall.RelativeTo(c.Runs[base].Overall)
+			continue
+		}
+		// Score both over the cells of the origins both completed.
+		var idx []int
+		for o := range no {
+			if c.Runs[i].Done[o] && c.Runs[base].Done[o] {
+				for s := range h {
+					idx = append(idx, o*h+s)
+				}
+			}
+		}
+		mine := all[i].summarize(idx)
+		theirs := all[base].summarize(idx)
+		c.Runs[i].Relative = mine.RelativeTo(theirs)
 	}
 	return c
+}
+
+// newCells allocates the score inputs of no origins of h steps.
+func newCells(h, no int, levels []float64) *cells {
+	size := no * h
+	cl := &cells{h: h, levels: levels}
+	cl.actual = make([]float64, size)
+	cl.mean = make([]float64, size)
+	cl.scale = make([]float64, size)
+	cl.scaleSq = make([]float64, size)
+	cl.crps = make([]float64, size)
+	cl.lower = make([][]float64, len(levels))
+	cl.upper = make([][]float64, len(levels))
+	for k := range levels {
+		cl.lower[k] = make([]float64, size)
+		cl.upper[k] = make([]float64, size)
+	}
+	return cl
 }
 
 // cellCRPS is the CRPS of forecast step s at y for a normal or sample
@@ -547,77 +662,120 @@ func (b Backtest) resolve(y almanac.Series, models []Candidate) (*plan, error) {
 // Run backtests the models on y, together with the benchmarks, and
 // returns every candidate's forecasts and scores at the same origins.
 //
-// Special cases: an invalid series or specification gives an error
-// wrapping the root sentinel (ErrTooShort when the series cannot hold the
-// origins, ErrInvalid for a bad option, ErrLevel for a bad level); a
-// model that fails to fit or forecast at some origin, or panics, gives an
-// error wrapping ErrBacktest and the model's own error (the failure of
-// the first candidate, then the earliest origin); a cancelled ctx gives
-// ctx.Err() wrapped. Unlike RunBatch, which sets a failing series aside
-// and scores the others, Run has nothing else to score, so any failure is
-// its error.
+// A candidate that fails to fit or forecast at some origins (or panics)
+// does not stop the backtest: it is scored over the origins it completed
+// and its failures are listed in its Run (Comparison.Failures gathers
+// them).
+//
+// Special cases: an invalid series or specification gives a nil
+// Comparison and an error wrapping the root sentinel (ErrTooShort when
+// the series cannot hold the origins, ErrInvalid for a bad option,
+// ErrLevel for a bad level). In two cases the Comparison comes back with
+// an error, holding what was done: a cancelled ctx gives ctx.Err()
+// wrapped (Comparison.Partial is set and Run.Done says which pairs were
+// fitted); a candidate that completed none of the origins gives an error
+// wrapping ErrBacktest and that candidate's first failure (the first such
+// candidate in the order of Runs), as RunBatch does when it leaves a
+// series out of its summaries.
 func (b Backtest) Run(ctx context.Context, y almanac.Series, models ...Candidate) (*Comparison, error) {
 	p, err := b.resolve(y, models)
 	if err != nil {
 		return nil, err
 	}
-	outs, errs, err := b.execute(ctx, []*plan{p})
-	if err != nil {
-		return nil, err
+	outs, cerr := b.execute(ctx, []*plan{p})
+	c := b.assemble(p, outs[0], 0)
+	if cerr != nil {
+		return c, cerr
 	}
-	if errs[0] != nil {
-		return nil, errs[0]
+	if err := c.unscored(nil); err != nil {
+		return c, err
 	}
-	return b.assemble(p, outs[0]), nil
+	return c, nil
 }
 
-// SeriesFailure is a series left out of a batch backtest.
+// unscored returns nil when every candidate completed at least one
+// origin; otherwise an error about the first that did not: wrapping
+// ErrBacktest and its first failure, or cancelled (wrapping cancelled)
+// when it failed nowhere but was not reached.
+func (c *Comparison) unscored(cancelled error) error {
+	for _, r := range c.Runs {
+		if slices.Contains(r.Done, true) {
+			continue
+		}
+		if len(r.Failures) > 0 {
+			return fmt.Errorf("%w; model %q completed none of the %d origins", r.Failures[0].Err, r.Name, len(c.Origins))
+		}
+		return fmt.Errorf("accuracy: backtest: series %q: model %q not fitted before the cancellation: %w", c.Key, r.Name, cancelled)
+	}
+	return nil
+}
+
+// SeriesFailure is a series left out of the summaries of a batch
+// backtest.
 type SeriesFailure struct {
 	Index int    // position of the series in the input
 	Key   string // its key
-	// Err is what Run returns for this series alone: an error about the
-	// series (for instance almanac.ErrTooShort when it cannot hold the
-	// origins, almanac.ErrNonFinite) or one wrapping ErrBacktest and the
-	// model's own error when a candidate failed to fit or forecast at
-	// some origin.
+	// Err says why: an error about the series (for instance
+	// almanac.ErrTooShort when it cannot hold the origins,
+	// almanac.ErrNonFinite), one wrapping ErrBacktest and a candidate's
+	// first failure when that candidate completed none of the origins (the
+	// error Run gives for the series alone), or the context's error when
+	// the batch was cancelled before a candidate was fitted on it.
 	Err error
 }
 
 // BatchComparison is the result of a backtest of many series.
 //
-// A series on which the backtest fails — its data cannot hold the
-// origins, or any candidate fails to fit or forecast at any origin — is
-// left out: its Series entry is nil and it is listed in Failed. The
-// summaries (Mean, Relative, AvgRelMAE, and OWA) cover only the series
-// scored for every candidate, so the candidates are compared on the same
-// series.
+// The summaries (Mean, Counts, Relative, AvgRelMAE, Total, and OWA) cover
+// the compared series: those on which every candidate completed at least
+// one origin, so the candidates are compared on the same series. A series
+// left out of them is listed in Failed; its Comparison is kept in Series
+// (nil only when the series could not be laid out). A candidate that
+// failed at some origins of a compared series is scored there over the
+// origins it completed; every such failure is in FitFailures.
 type BatchComparison struct {
 	// Series holds one comparison per input series, in input order; nil
-	// for a series that was left out (see Failed).
+	// for a series whose data cannot hold the backtest.
 	Series []*Comparison
-	// Failed lists the series left out, in input order (empty when every
-	// series was scored).
+	// Failed lists the series left out of the summaries, in input order
+	// (empty when every series was compared).
 	Failed []SeriesFailure
+	// FitFailures lists every (series, candidate, origin) that failed, by
+	// series, then candidate, then origin.
+	FitFailures []FitFailure
+	// Partial reports that the batch was cancelled before every fit was
+	// done; the summaries then cover what was done.
+	Partial bool
 	// Names lists the candidates in the order of each Comparison's Runs.
 	Names    []string
 	Baseline string
-	// Mean[c] averages candidate c's Overall scores over the scored
-	// series, measure by measure (NaN when the measure is NaN for any of
-	// them; N is the total number of cells).
+	// Mean[c] averages candidate c's Overall scores over the compared
+	// series, measure by measure, each over the series where it is
+	// defined (Counts[c] says over how many; NaN when over none). N is
+	// the total number of cells. TrackingSignal is not averaged (NaN): a
+	// sum of errors means something for one series, not across them.
 	Mean []Scores
+	// Counts[c] says over how many compared series each average of
+	// Mean[c], AvgRelMAE[c] and Total[c] was taken.
+	Counts []SeriesCounts
 	// Relative[c] is Mean[c] divided by the baseline's Mean, measure by
 	// measure: the ratio of averages across series, as the M4 competition
 	// relates sMAPE and MASE to its benchmark.
 	Relative []Ratios
-	// AvgRelMAE[c] is the geometric mean over the scored series of
+	// AvgRelMAE[c] is the geometric mean over the compared series of
 	// candidate c's MAE relative to the baseline's, each series weighted
 	// by its number of scored cells: (Π_i r_i^{n_i})^{1/Σ n_i} (Davydenko
-	// & Fildes 2013, recalled from memory). NaN when a ratio is undefined
-	// (a baseline MAE of 0, a model MAE of 0, or no cells).
+	// & Fildes 2013, recalled from memory). Series where the ratio is
+	// undefined (a baseline MAE of 0, a model MAE of 0) are left out and
+	// counted in Counts; NaN when none is left.
 	AvgRelMAE []float64
+	// Total[c] averages candidate c's horizon-total scores over the
+	// compared series, as Mean does.
+	Total []TotalScores
 }
 
-// Scored returns the number of series scored (not left out).
+// Scored returns the number of series compared (not left out of the
+// summaries).
 func (b *BatchComparison) Scored() int { return len(b.Series) - len(b.Failed) }
 
 // RunBatch backtests the models on every series, fitting all (series,
@@ -625,20 +783,22 @@ func (b *BatchComparison) Scored() int { return len(b.Series) - len(b.Failed) }
 // applies to each series (origins are laid out per series, so series may
 // differ in length).
 //
-// A failure never stops the other series: a series whose data cannot
-// hold the backtest, or on which any candidate fails (or panics) at any
-// origin, is recorded in Failed with the error Run would give for it
-// alone, and the summaries average over the series that were scored for
-// every candidate. Which series fail, and why, does not depend on
-// Workers.
+// A failure never stops the other fits: a candidate that fails at an
+// origin is scored over the origins it completed (see
+// BatchComparison); a series whose data cannot hold the backtest, or on
+// which some candidate completed no origin, is left out of the summaries
+// and listed in Failed with the error Run would give for it alone. Which
+// series and fits fail, and why, does not depend on Workers.
 //
 // Special cases: no series gives an error wrapping almanac.ErrEmpty; an
 // invalid specification (bad option or level, no candidate, duplicate or
 // unknown names, candidate sets that differ between series because the
 // default benchmarks follow the period) an error wrapping the root
-// sentinel, as for Run; a cancelled ctx ctx.Err() wrapped; and when no
-// series at all can be scored, an error wrapping ErrBacktest and the
-// first series' failure. There is never a result alongside an error.
+// sentinel, as for Run; these come with a nil result. A cancelled ctx
+// gives the partial result (Partial set, summaries over what was done)
+// and ctx.Err() wrapped; when no series at all can be compared, the
+// result comes with an error wrapping ErrBacktest and the first left-out
+// series' reason.
 func (b Backtest) RunBatch(ctx context.Context, ys []almanac.Series, models ...Candidate) (*BatchComparison, error) {
 	if len(ys) == 0 {
 		return nil, fmt.Errorf("accuracy: backtest: %w: no series", almanac.ErrEmpty)
@@ -673,63 +833,90 @@ func (b Backtest) RunBatch(ctx context.Context, ys []almanac.Series, models ...C
 		}
 		plans[i] = p
 	}
-	outs, runErrs, err := b.execute(ctx, plans)
-	if err != nil {
-		return nil, err
-	}
-	bc := &BatchComparison{Series: make([]*Comparison, len(ys))}
-	var scored []*Comparison
-	for i, p := range plans {
-		if errs[i] == nil {
-			errs[i] = runErrs[i]
+	if ref < 0 {
+		// No series can hold the backtest: the candidates still follow
+		// from the specification alone when it names them.
+		if _, _, err := b.candidates(models, max(b.Period, 1)); err != nil {
+			return nil, err
 		}
+	}
+	outs, cerr := b.execute(ctx, plans)
+	bc := &BatchComparison{Series: make([]*Comparison, len(ys)), Partial: cerr != nil}
+	var compared []*Comparison
+	for i, p := range plans {
 		if errs[i] != nil {
 			bc.Failed = append(bc.Failed, SeriesFailure{Index: i, Key: ys[i].Key, Err: errs[i]})
 			continue
 		}
-		bc.Series[i] = b.assemble(p, outs[i])
-		scored = append(scored, bc.Series[i])
-	}
-	if len(scored) == 0 {
-		f := bc.Failed[0]
-		return nil, fmt.Errorf("accuracy: %w: none of the %d series could be scored; series %d (%q): %w", ErrBacktest, len(ys), f.Index, f.Key, f.Err)
-	}
-	r := plans[ref]
-	bc.Baseline = r.candidates[r.baseline].Name
-	for _, c := range r.candidates {
-		bc.Names = append(bc.Names, c.Name)
-	}
-	per := make([]Scores, len(scored))
-	for c := range bc.Names {
-		for i, cmp := range scored {
-			per[i] = cmp.Runs[c].Overall
+		c := b.assemble(p, outs[i], i)
+		bc.Series[i] = c
+		bc.FitFailures = append(bc.FitFailures, c.Failures()...)
+		if err := c.unscored(cerr); err != nil {
+			bc.Failed = append(bc.Failed, SeriesFailure{Index: i, Key: ys[i].Key, Err: err})
+			continue
 		}
-		bc.Mean = append(bc.Mean, meanScores(per))
+		compared = append(compared, c)
 	}
-	base := bc.Mean[r.baseline]
-	for c := range bc.Names {
-		bc.Relative = append(bc.Relative, bc.Mean[c].RelativeTo(base))
-		bc.AvgRelMAE = append(bc.AvgRelMAE, avgRelMAE(scored, c, r.baseline))
+	if ref >= 0 {
+		r := plans[ref]
+		bc.Baseline = r.candidates[r.baseline].Name
+		for _, c := range r.candidates {
+			bc.Names = append(bc.Names, c.Name)
+		}
+		bc.summarize(compared, r.baseline, r.h)
+	}
+	if cerr != nil {
+		return bc, cerr
+	}
+	if len(compared) == 0 {
+		f := bc.Failed[0]
+		return bc, fmt.Errorf("accuracy: %w: none of the %d series could be compared; series %d (%q): %w", ErrBacktest, len(ys), f.Index, f.Key, f.Err)
 	}
 	return bc, nil
 }
 
+// summarize sets the summaries of the batch over the compared series.
+func (bc *BatchComparison) summarize(compared []*Comparison, base, h int) {
+	nc := len(bc.Names)
+	bc.Mean = make([]Scores, nc)
+	bc.Counts = make([]SeriesCounts, nc)
+	bc.Relative = make([]Ratios, nc)
+	bc.AvgRelMAE = make([]float64, nc)
+	bc.Total = make([]TotalScores, nc)
+	per := make([]Scores, len(compared))
+	tot := make([]TotalScores, len(compared))
+	for c := range nc {
+		for i, cmp := range compared {
+			per[i] = cmp.Runs[c].Overall
+			tot[i] = cmp.Runs[c].Total
+		}
+		bc.Mean[c], bc.Counts[c] = averageScores(per)
+		bc.Total[c], bc.Counts[c].Total = averageTotals(tot)
+	}
+	for c := range nc {
+		bc.Relative[c] = bc.Mean[c].RelativeTo(bc.Mean[base])
+		bc.AvgRelMAE[c], bc.Counts[c].AvgRelMAE = avgRelMAE(compared, c, base)
+	}
+}
+
 // avgRelMAE is the cell-weighted geometric mean over the series of run
-// c's MAE divided by run base's.
-func avgRelMAE(series []*Comparison, c, base int) float64 {
+// c's MAE divided by run base's, leaving out the series where the ratio
+// is undefined, and the number of series used.
+func avgRelMAE(series []*Comparison, c, base int) (float64, int) {
 	var sumLog float64
-	var cells int
+	var cells, used int
 	for _, cmp := range series {
 		a, b := cmp.Runs[c].Overall, cmp.Runs[base].Overall
 		r := a.MAE / b.MAE
 		if a.N == 0 || !(r > 0) || math.IsInf(r, 0) {
-			return math.NaN()
+			continue
 		}
 		sumLog += float64(a.N) * math.Log(r)
 		cells += a.N
+		used++
 	}
 	if cells == 0 {
-		return math.NaN()
+		return math.NaN(), 0
 	}
-	return math.Exp(sumLog / float64(cells))
+	return math.Exp(sumLog / float64(cells)), used
 }

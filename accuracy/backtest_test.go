@@ -47,7 +47,16 @@ func lhSeries(t testing.TB) almanac.Series {
 	return almanac.Series{Key: "lh", Start: time.Date(1, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Yearly, Values: f.Floats(t, "input")}
 }
 
-var equateNaN = cmp.Options{cmpopts.EquateNaNs(), cmp.AllowUnexported()}
+var equateNaN = cmp.Options{cmpopts.EquateNaNs(), cmp.AllowUnexported(), cmp.Comparer(sameError)}
+
+// sameError compares errors by their text (wrapped errors have
+// unexported fields cmp cannot read).
+func sameError(a, b error) bool {
+	if a == nil || b == nil {
+		return a == nil && b == nil
+	}
+	return a.Error() == b.Error()
+}
 
 // TestInSampleMASEIsOne: the in-sample MASE of the naive method's own
 // one-step fitted values is exactly 1, and that of the seasonal naive
@@ -328,7 +337,7 @@ func TestBacktestSlidingWindow(t *testing.T) {
 func TestBacktestErrors(t *testing.T) {
 	y := airPassengers(t)
 	ctx := context.Background()
-	failing := windowRecorder{mu: &sync.Mutex{}, seen: map[time.Time]int{}, failAt: 130}
+	failing := windowRecorder{mu: &sync.Mutex{}, seen: map[time.Time]int{}, failAt: 1}
 	cancelled, cancel := context.WithCancel(ctx)
 	cancel()
 	tests := []struct {
@@ -338,30 +347,34 @@ func TestBacktestErrors(t *testing.T) {
 		y       almanac.Series
 		models  []accuracy.Candidate
 		wantErr error
+		// withResult: the error comes with the comparison of what was
+		// done (a cancellation, a candidate that completed no origin).
+		withResult bool
 	}{
-		{"too many origins", accuracy.Backtest{Horizon: 12, Origins: 200}, ctx, y, nil, almanac.ErrTooShort},
-		{"first too late", accuracy.Backtest{Horizon: 12, First: 140}, ctx, y, nil, almanac.ErrTooShort},
+		{"too many origins", accuracy.Backtest{Horizon: 12, Origins: 200}, ctx, y, nil, almanac.ErrTooShort, false},
+		{"first too late", accuracy.Backtest{Horizon: 12, First: 140}, ctx, y, nil, almanac.ErrTooShort, false},
 		// Options so large that a sum or product of them overflows int
 		// once panicked (makeslice) or laid out no origin at all.
-		{"huge horizon", accuracy.Backtest{Horizon: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort},
-		{"huge horizon, first given", accuracy.Backtest{Horizon: math.MaxInt - 10, First: 20}, ctx, y, nil, almanac.ErrTooShort},
-		{"huge period", accuracy.Backtest{Period: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort},
-		{"huge first", accuracy.Backtest{First: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort},
-		{"huge origin count", accuracy.Backtest{Origins: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort},
-		{"huge step", accuracy.Backtest{Origins: 3, Step: math.MaxInt/2 + 1}, ctx, y, nil, almanac.ErrTooShort},
-		{"one origin too many at step 5", accuracy.Backtest{Horizon: 12, Step: 5, Origins: 28}, ctx, y, nil, almanac.ErrTooShort},
-		{"negative step", accuracy.Backtest{Step: -1}, ctx, y, nil, almanac.ErrInvalid},
-		{"bad level", accuracy.Backtest{Levels: []float64{150}}, ctx, y, nil, almanac.ErrLevel},
-		{"unknown baseline", accuracy.Backtest{Baseline: "oracle"}, ctx, y, nil, almanac.ErrInvalid},
-		{"duplicate name", accuracy.Backtest{}, ctx, y, []accuracy.Candidate{{Name: "naive", Model: almanac.Naive{}}}, almanac.ErrInvalid},
-		{"nil model", accuracy.Backtest{}, ctx, y, []accuracy.Candidate{{Name: "x"}}, almanac.ErrInvalid},
-		{"nothing to run", accuracy.Backtest{NoBenchmarks: true}, ctx, y, nil, almanac.ErrInvalid},
-		{"sliding too long", accuracy.Backtest{First: 50, Window: accuracy.Sliding, Length: 60}, ctx, y, nil, almanac.ErrInvalid},
-		{"bad window kind", accuracy.Backtest{Window: 7}, ctx, y, nil, almanac.ErrInvalid},
-		{"empty series", accuracy.Backtest{}, ctx, almanac.Series{Freq: calendar.Monthly}, nil, almanac.ErrEmpty},
-		{"model fails", accuracy.Backtest{Horizon: 6, First: 120, Workers: 4}, ctx, y, []accuracy.Candidate{{Name: "flaky", Model: failing}}, accuracy.ErrBacktest},
-		{"model fails, inner sentinel", accuracy.Backtest{Horizon: 6, First: 120, Workers: 4}, ctx, y, []accuracy.Candidate{{Name: "flaky", Model: failing}}, almanac.ErrNotFitted},
-		{"cancelled", accuracy.Backtest{}, cancelled, y, nil, context.Canceled},
+		{"huge horizon", accuracy.Backtest{Horizon: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort, false},
+		{"huge horizon, first given", accuracy.Backtest{Horizon: math.MaxInt - 10, First: 20}, ctx, y, nil, almanac.ErrTooShort, false},
+		{"huge period", accuracy.Backtest{Period: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort, false},
+		{"huge first", accuracy.Backtest{First: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort, false},
+		{"huge origin count", accuracy.Backtest{Origins: math.MaxInt}, ctx, y, nil, almanac.ErrTooShort, false},
+		{"huge step", accuracy.Backtest{Origins: 3, Step: math.MaxInt/2 + 1}, ctx, y, nil, almanac.ErrTooShort, false},
+		{"one origin too many at step 5", accuracy.Backtest{Horizon: 12, Step: 5, Origins: 28}, ctx, y, nil, almanac.ErrTooShort, false},
+		{"negative step", accuracy.Backtest{Step: -1}, ctx, y, nil, almanac.ErrInvalid, false},
+		{"bad level", accuracy.Backtest{Levels: []float64{150}}, ctx, y, nil, almanac.ErrLevel, false},
+		{"unknown baseline", accuracy.Backtest{Baseline: "oracle"}, ctx, y, nil, almanac.ErrInvalid, false},
+		{"duplicate name", accuracy.Backtest{}, ctx, y, []accuracy.Candidate{{Name: "naive", Model: almanac.Naive{}}}, almanac.ErrInvalid, false},
+		{"nil model", accuracy.Backtest{}, ctx, y, []accuracy.Candidate{{Name: "x"}}, almanac.ErrInvalid, false},
+		{"nothing to run", accuracy.Backtest{NoBenchmarks: true}, ctx, y, nil, almanac.ErrInvalid, false},
+		{"sliding too long", accuracy.Backtest{First: 50, Window: accuracy.Sliding, Length: 60}, ctx, y, nil, almanac.ErrInvalid, false},
+		{"bad window kind", accuracy.Backtest{Window: 7}, ctx, y, nil, almanac.ErrInvalid, false},
+		{"empty series", accuracy.Backtest{}, ctx, almanac.Series{Freq: calendar.Monthly}, nil, almanac.ErrEmpty, false},
+		{"negative path count", accuracy.Backtest{Paths: -1}, ctx, y, nil, almanac.ErrInvalid, false},
+		{"model fails at every origin", accuracy.Backtest{Horizon: 6, First: 120, Workers: 4}, ctx, y, []accuracy.Candidate{{Name: "flaky", Model: failing}}, accuracy.ErrBacktest, true},
+		{"model fails at every origin, inner sentinel", accuracy.Backtest{Horizon: 6, First: 120, Workers: 4}, ctx, y, []accuracy.Candidate{{Name: "flaky", Model: failing}}, almanac.ErrNotFitted, true},
+		{"cancelled", accuracy.Backtest{}, cancelled, y, nil, context.Canceled, true},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -369,8 +382,8 @@ func TestBacktestErrors(t *testing.T) {
 			if !errors.Is(err, tt.wantErr) {
 				t.Fatalf("error %v, want %v", err, tt.wantErr)
 			}
-			if c != nil {
-				t.Error("result alongside an error")
+			if (c != nil) != tt.withResult {
+				t.Errorf("result %t alongside the error, want %t", c != nil, tt.withResult)
 			}
 		})
 	}
@@ -394,20 +407,72 @@ func TestBacktestLatestOrigins(t *testing.T) {
 // failing origin, whatever the number of workers.
 func TestBacktestFailureDeterministic(t *testing.T) {
 	y := airPassengers(t)
-	var first string
+	var ref *accuracy.Comparison
 	for _, w := range []int{1, 3, 8} {
 		failing := windowRecorder{mu: &sync.Mutex{}, seen: map[time.Time]int{}, failAt: 125}
-		bt := accuracy.Backtest{Horizon: 3, First: 110, Workers: w}
-		_, err := bt.Run(context.Background(), y, accuracy.Candidate{Name: "flaky", Model: failing})
-		if err == nil {
-			t.Fatal("no error")
+		bt := accuracy.Backtest{Horizon: 3, First: 110, Workers: w, Levels: []float64{80}}
+		c, err := bt.Run(context.Background(), y, accuracy.Candidate{Name: "flaky", Model: failing})
+		if err != nil {
+			t.Fatalf("workers %d: %v", w, err)
 		}
-		if first == "" {
-			first = err.Error()
-		} else if err.Error() != first {
-			t.Errorf("workers %d: %q, want %q", w, err, first)
+		if ref == nil {
+			ref = c
+			continue
+		}
+		if d := cmp.Diff(failureTexts(ref.Failures()), failureTexts(c.Failures())); d != "" {
+			t.Errorf("workers %d: failures differ (-1 +%d):\n%s", w, w, d)
+		}
+		if d := cmp.Diff(ref, c, equateNaN, cmpopts.IgnoreFields(accuracy.FitFailure{}, "Err")); d != "" {
+			t.Errorf("workers %d: results differ:\n%s", w, d)
 		}
 	}
+	// Origins 110..141; the model refuses windows of 125 or more.
+	r, _ := ref.Run("flaky")
+	if len(r.Failures) != 17 || r.Failures[0].Origin != 15 || ref.Origins[r.Failures[0].Origin].Index != 125 {
+		t.Fatalf("%d failures from origin %+v, want 17 from the origin at 125", len(r.Failures), r.Failures[0])
+	}
+	for o, done := range r.Done {
+		if done != (ref.Origins[o].Index < 125) {
+			t.Errorf("origin %d (index %d): done %t", o, ref.Origins[o].Index, done)
+		}
+	}
+	if r.Overall.N != 15*3 || r.Fits[20] != "" || !math.IsNaN(r.Errors[20][0]) {
+		t.Errorf("scored %d cells (want 45 of the origins completed); fit %q at a failed origin", r.Overall.N, r.Fits[20])
+	}
+	// Scored over the origins completed: the same as a backtest of those
+	// origins alone.
+	alone, err := accuracy.Backtest{Horizon: 3, First: 110, Origins: 15, Levels: []float64{80}}.Run(context.Background(), y,
+		accuracy.Candidate{Name: "flaky", Model: windowRecorder{mu: &sync.Mutex{}, seen: map[time.Time]int{}}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, _ := alone.Run("flaky")
+	if d := cmp.Diff(a.Overall, r.Overall, equateNaN); d != "" {
+		t.Errorf("scores over the completed origins differ from a backtest of those alone:\n%s", d)
+	}
+	// The benchmarks failed nowhere and keep every origin; the relative
+	// scores compare the candidate with the baseline on the same origins.
+	sn, _ := ref.Run(accuracy.SeasonalNaiveName)
+	if sn.Overall.N != 32*3 || len(sn.Failures) != 0 {
+		t.Errorf("seasonal naive scored %d cells with %d failures", sn.Overall.N, len(sn.Failures))
+	}
+	b, _ := alone.Run(accuracy.SeasonalNaiveName)
+	if math.Abs(r.Relative.MAE-a.Overall.MAE/b.Overall.MAE) > 1e-12 {
+		t.Errorf("relative MAE %v, want %v over the common origins", r.Relative.MAE, a.Overall.MAE/b.Overall.MAE)
+	}
+	for _, f := range r.Failures {
+		if !errors.Is(f.Err, accuracy.ErrBacktest) || !errors.Is(f.Err, almanac.ErrNotFitted) || f.Candidate != "flaky" {
+			t.Errorf("failure %+v", f)
+		}
+	}
+}
+
+func failureTexts(fs []accuracy.FitFailure) []string {
+	var out []string
+	for _, f := range fs {
+		out = append(out, fmt.Sprintf("%d|%s|%s|%d|%v", f.Series, f.Key, f.Candidate, f.Origin, f.Err))
+	}
+	return out
 }
 
 // cancelling is a test-only model that cancels the backtest's context
@@ -435,11 +500,24 @@ func TestBacktestCancelledMidway(t *testing.T) {
 	m := cancelling{cancel: cancel, calls: &calls, mu: &sync.Mutex{}}
 	bt := accuracy.Backtest{Horizon: 1, Origins: 50, Workers: 2, NoBenchmarks: true}
 	c, err := bt.Run(ctx, airPassengers(t), accuracy.Candidate{Name: "c", Model: m})
-	if !errors.Is(err, context.Canceled) || c != nil {
-		t.Fatalf("error %v, result %v; want context.Canceled and no result", err, c != nil)
+	if !errors.Is(err, context.Canceled) || c == nil {
+		t.Fatalf("error %v, result %v; want context.Canceled and the partial result", err, c != nil)
 	}
 	if calls >= 50 {
 		t.Errorf("%d fits after cancellation at the third, want the pool to stop early", calls)
+	}
+	// The first two fits were done and are scored; the third cancels the
+	// context and its naive fit then returns the cancellation, as does any
+	// later one: not reached, and not failures.
+	r := c.Runs[0]
+	done := 0
+	for _, d := range r.Done {
+		if d {
+			done++
+		}
+	}
+	if !c.Partial || done != 2 || r.Overall.N != 2 || len(r.Failures) != 0 {
+		t.Errorf("partial %t, %d origins done, %d scored, %d failures; want partial, 2, 2, 0", c.Partial, done, r.Overall.N, len(r.Failures))
 	}
 }
 

@@ -17,8 +17,10 @@
 // side with benchmarks — by default the naive and seasonal naive methods,
 // optionally Naive2, the M4 competition's seasonally adjusted naive, with
 // OWA — and reports per-origin forecasts, errors per horizon step, Scores
-// per step and overall, and Ratios to a baseline. RunBatch does the same
-// for many series and averages the scores. Comparison.WriteText prints a
+// per step and overall, scores of the horizon totals, and Ratios to a
+// baseline. RunBatch does the same for many series and averages the
+// scores, each measure over the series where it is defined
+// (BatchComparison.Counts says over how many). Comparison.WriteText prints a
 // table for the terminal and WriteCSV a long CSV; these printed layouts
 // are our own and are not a stable API (read the fields instead).
 //
@@ -32,16 +34,26 @@
 // fitted, censors forecasts of non-negative data at zero, and reports
 // what it did per series (PilotFit.Report).
 //
-// A failure in a batch never aborts the other series: a series whose data
-// cannot hold the origins, or on which any candidate fails to fit or
-// forecast (or panics) at any origin, is left out — a nil entry in
-// BatchComparison.Series and a SeriesFailure in Failed, carrying the
-// error Run gives for that series alone — and the averages cover only the
-// series scored for every candidate, so the candidates are compared on
-// the same series; the renderings say how many were left out and why.
-// RunBatch returns an error only for a bad specification, a cancelled
-// context, or when no series can be scored. Run, with one series, returns
-// any failure as its error.
+// A failure never aborts the other fits. A candidate that fails to fit or
+// forecast at an origin (or panics) is scored over the origins it
+// completed; the failure is listed in its Run (Run.Done, Run.Failures)
+// and, for a batch, in BatchComparison.FitFailures. The batch summaries
+// cover the series on which every candidate completed at least one
+// origin, so the candidates are compared on the same series; a series
+// left out (its data cannot hold the origins, or a candidate completed
+// none) is listed in BatchComparison.Failed with the reason, and its
+// per-series results are kept. Backtest.Progress reports each fit as it
+// finishes. A cancelled context (a deadline) stops the pool and returns
+// what was done, marked Partial, beside the context's error.
+//
+// Beside the per-step scores, each run scores the forecast of the total
+// over the horizon at each origin (Run.Totals, Run.Total): its error and,
+// per level, the coverage and interval score of the total's band — from
+// the quantiles of the totals of sample paths (those the forecast holds,
+// or Backtest.Paths drawn by the fitted model's Simulate), or, for a
+// model that gives no paths, from the sum of the steps' bounds, which
+// assumes perfectly correlated step errors and overstates coverage
+// (TotalSource says which).
 //
 // # The automatic forecaster
 //
@@ -78,7 +90,12 @@
 // result overflows to NaN (errors of +Inf and −Inf summed, Inf/Inf) give
 // an error wrapping almanac.ErrNonFinite; sMAPE terms are scaled so that
 // they never overflow. Summary tables (Scores) hold NaN for such a
-// measure and keep the others.
+// measure and keep the others. Batch averages take each measure over the
+// series where it is defined, so one series with a zero does not make
+// MAPE undefined for a whole catalogue; BatchComparison.Counts and the
+// renderings say over how many series each average was taken. The
+// tracking signal is shown per series, with its meaning, and never
+// averaged across series.
 //
 // # Numerical notes
 //
@@ -95,13 +112,15 @@
 // Every function is safe for concurrent use. A Backtest value is a
 // specification, safe to share; Run fits the (model, origin) pairs on a
 // pool of Workers goroutines and writes each result by index, so the
-// output is bit-identical for any number of workers, including which
-// series of a batch fail and with which error (the first failing
-// candidate, then origin, of each series). Nothing else in the package
-// starts goroutines: a Pilot fit runs its models one after another on the
-// calling goroutine (BatchFit spreads series over cores), and its sample
-// paths come from a generator seeded by Pilot.Seed, so a series gets
-// bit-identical forecasts however a batch is scheduled.
+// output is bit-identical for any number of workers, including which fits
+// fail and with which error (every fit runs whatever the others gave; the
+// sample paths of the horizon totals are seeded by candidate and origin).
+// Only a cancellation makes the result depend on timing: which fits were
+// done by then. Nothing else in the package starts goroutines: a Pilot
+// fit runs its models one after another on the calling goroutine
+// (BatchFit spreads series over cores), and its sample paths come from a
+// generator seeded by Pilot.Seed, so a series gets bit-identical
+// forecasts however a batch is scheduled.
 //
 // # Performance
 //

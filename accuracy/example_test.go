@@ -112,7 +112,7 @@ func ExampleBacktest_Run() {
 // The comparison as a table for the terminal (its layout is not a stable
 // API).
 func ExampleComparison_WriteText() {
-	bt := accuracy.Backtest{Horizon: 3, Origins: 6}
+	bt := accuracy.Backtest{Horizon: 3, Origins: 6, Levels: []float64{80}}
 	c, err := bt.Run(context.Background(), citySeries())
 	if err != nil {
 		fmt.Println(err)
@@ -124,31 +124,41 @@ func ExampleComparison_WriteText() {
 	// Output:
 	// backtest of bus passes: 6 origins, 3 steps ahead each, expanding window, errors scaled by lag-12 naive
 	//
-	//                                       naive [seasonal naive]
-	// bias (mean error)                     7.889           18.323
-	// mean absolute error                  35.547           18.323
-	// root mean squared error              42.055           19.263
-	// median absolute error                30.717           17.940
-	// mean absolute % error                 6.738            3.581
-	// symmetric % error (M3)                6.889            3.654
-	// scaled abs error (MASE)               1.972            1.018
-	// scaled sq error (RMSSE)               2.215            1.016
-	// tracking signal                       3.995           18.000
-	// CRPS                                 24.039           11.462
+	//                                                   naive   seasonal naive
+	//                                                               (baseline)
+	// bias (mean error)                                 7.889           18.323
+	// mean absolute error                              35.547           18.323
+	// root mean squared error                          42.055           19.263
+	// median absolute error                            30.717           17.940
+	// mean absolute % error                             6.738            3.581
+	// symmetric % error (M3)                            6.889            3.654
+	// scaled abs error (MASE)                           1.972            1.018
+	// scaled sq error (RMSSE)                           2.215            1.016
+	// tracking signal (a)                               3.995           18.000
+	// CRPS                                             24.039           11.462
+	// 3-step total: mean abs error                    105.089           54.968
+	// 3-step total: scaled abs error                    1.943            1.018
+	// 80% band, each step: inside                       0.833            0.722
+	// 80% band, each step: interval score             139.704           53.646
+	// 80% band, each step: scaled (MSIS)                7.754            2.979
+	// 80% band, 3-step total: inside                    0.667            0.000
+	// 80% band, 3-step total: scaled (MSIS)             6.116            3.812
 	//
-	// ratio to [seasonal naive], below 1 is better:
-	//   absolute error                      1.940            1.000
-	//   squared error (root)                2.183            1.000
-	//   symmetric % error                   1.885            1.000
-	//   scaled abs error                    1.938            1.000
-	//   CRPS                                2.097            1.000
+	// ratio to seasonal naive, the baseline (below 1 is better):
+	//   absolute error                                  1.940            1.000
+	//   squared error (root)                            2.183            1.000
+	//   symmetric % error                               1.885            1.000
+	//   scaled abs error                                1.938            1.000
+	//   CRPS                                            2.097            1.000
 	//
 	// scaled abs error by step ahead:
-	//   step 1                              1.360            0.929
-	//   step 2                              2.112            1.073
-	//   step 3                              2.445            1.051
+	//   step 1                                          1.360            0.929
+	//   step 2                                          2.112            1.073
+	//   step 3                                          2.445            1.051
 	//
 	// lowest scaled abs error: seasonal naive
+	//
+	// (a) tracking signal = sum of the errors / mean absolute error (the cumulative form, Brown 1959, of the signal Trigg 1964 smooths): near 0 the forecasts are unbiased; beyond about +4 they run persistently low, below -4 persistently high
 }
 
 // A batch backtest over a small product range, with the M4 competition's

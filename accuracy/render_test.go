@@ -54,13 +54,83 @@ func TestWriteText(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := buf.String()
-	for _, want := range []string{"drift", "[naive]", "n/a", "80% band", "step 2", "lh"} {
+	for _, want := range []string{"drift", "(baseline)", "n/a", "80% band, each step: inside", "80% band, 2-step total: inside", "step 2", "lh", "tracking signal (a)", "(a) tracking signal = "} {
 		if !strings.Contains(out, want) {
 			t.Errorf("text lacks %q:\n%s", want, out)
 		}
 	}
 	if c.String() != out {
 		t.Error("String differs from WriteText")
+	}
+	// The baseline is marked under its own column and nowhere else.
+	lines := strings.Split(out, "\n")
+	for i, l := range lines {
+		if strings.Contains(l, "drift") && strings.Contains(l, "naive") {
+			col := strings.Index(l, "naive") + len("naive")
+			tag := lines[i+1]
+			if strings.Count(out, "(baseline)") != 1 || !strings.HasSuffix(strings.TrimRight(tag, " "), "(baseline)") || len(strings.TrimRight(tag, " ")) != col {
+				t.Errorf("baseline marker %q not under the column ending at %d", tag, col)
+			}
+			break
+		}
+	}
+}
+
+// TestBatchAveragesWhereDefined (issue 11): one series with a zero makes
+// its MAPE undefined; the batch average is taken over the other series,
+// the table says over how many and why, and the tracking signal is not
+// averaged.
+func TestBatchAveragesWhereDefined(t *testing.T) {
+	y := lhSeries(t)
+	ys := []almanac.Series{y, zeroedLh(t), y.Head(46)}
+	ys[1].Key, ys[2].Key = "zeroed", "shorter"
+	bt := accuracy.Backtest{Horizon: 2, First: 30, Levels: []float64{80}}
+	b, err := bt.RunBatch(context.Background(), ys, accuracy.Candidate{Name: "drift", Model: almanac.Drift{}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for c, name := range b.Names {
+		m, cnt := b.Mean[c], b.Counts[c]
+		want := (b.Series[0].Runs[c].Overall.MAPE + b.Series[2].Runs[c].Overall.MAPE) / 2
+		if cnt.Series != 3 || cnt.MAPE != 2 || cnt.MAE != 3 || math.Abs(m.MAPE-want) > 1e-12 {
+			t.Errorf("%s: MAPE %v over %d series (want %v over 2), counts %+v", name, m.MAPE, cnt.MAPE, want, cnt)
+		}
+		if !math.IsNaN(m.TrackingSignal) {
+			t.Errorf("%s: tracking signal averaged: %v", name, m.TrackingSignal)
+		}
+		wantMAE := 0.0
+		for _, cmp := range b.Series {
+			wantMAE += cmp.Runs[c].Overall.MAE / 3
+		}
+		if math.Abs(m.MAE-wantMAE) > 1e-12 {
+			t.Errorf("%s: MAE %v, want %v", name, m.MAE, wantMAE)
+		}
+	}
+	var buf bytes.Buffer
+	if err := b.WriteText(&buf); err != nil {
+		t.Fatal(err)
+	}
+	text := buf.String()
+	for _, want := range []string{"mean absolute % error (a)", "(a) mean absolute % error: averaged over the series where it is defined, of 3: drift 2, naive 2; it is undefined on a series where an actual value is 0"} {
+		if !strings.Contains(text, want) {
+			t.Errorf("text lacks %q:\n%s", want, text)
+		}
+	}
+	if strings.Contains(text, "tracking signal") {
+		t.Errorf("the batch table shows the tracking signal:\n%s", text)
+	}
+	buf.Reset()
+	if err := b.WriteCSV(&buf); err != nil {
+		t.Fatal(err)
+	}
+	csvText := buf.String()
+	for _, want := range []string{accuracy.BatchMeanKey + ",drift,all,series_mape,2\n", accuracy.BatchMeanKey + ",drift,all,series_mae,3\n", accuracy.BatchMeanKey + ",drift,total,total_coverage_80,", "zeroed,drift,all,tracking_signal,"} {
+		if !strings.Contains(csvText, want) {
+			t.Errorf("CSV lacks %q", want)
+		}
+	}
+	if strings.Contains(csvText, accuracy.BatchMeanKey+",drift,all,tracking_signal") {
+		t.Error("CSV averages the tracking signal")
 	}
 }
 
