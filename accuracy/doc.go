@@ -60,9 +60,9 @@
 // Pilot's routes and fallback chain are listed on its type. Its bands
 // are quantiles of sample paths of the fitted route, so the bands of one
 // step and of sums over several steps come from one joint distribution.
-// A combination's paths are the members' paths pooled (an equal-weight
-// mixture), so they carry the members' disagreement as well as their own
-// uncertainty. Which route and which models serve which kind of series
+// A combination's paths are those of almanac.Combination (the members'
+// quantiles averaged step by step, the paths keeping the dependence
+// across steps). Which route and which models serve which kind of series
 // was decided by measuring on whole data sets with the evaluation program
 // (internal/cmd/evaluate): the M3 competition data and invented weekly,
 // daily and hourly series (internal/synth); the README gives the figures.

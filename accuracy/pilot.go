@@ -28,7 +28,8 @@ import (
 //   - Yearly, quarterly, monthly and other series with one whole seasonal
 //     period of at most 24: the mean of the forecasts of the automatic
 //     ETS choice (smoothing.Select), the automatic ARIMA (arima.Search)
-//     and the Theta method (RouteCombination).
+//     and the Theta method (RouteCombination), combined by
+//     almanac.Combination.
 //   - Weekly series (a year of 365.25/7 weeks): decomposition-based
 //     forecasts with STL at 52 weeks, Theta with a 52-week seasonal
 //     adjustment, combined (RouteWeekly).
@@ -213,7 +214,7 @@ func (p Pilot) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 	rep.NonNegative = !slices.ContainsFunc(work.Values, func(v float64) bool { return v < 0 })
 	rep.Demand = classifyDemand(work.Values)
 
-	plan := planRoutes(work, rep, p.Seed)
+	plan := planRoutes(work, rep, routeOpts{seed: p.Seed, paths: f.paths})
 	var inner almanac.Fitted
 	for k, st := range plan {
 		if st.needsComplete && work.Missing() > 0 && rep.Repairs == nil {
@@ -285,20 +286,21 @@ func (f *PilotFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) 
 	if err != nil {
 		return almanac.Forecast{}, fmt.Errorf("accuracy: pilot: %w", err)
 	}
-	mean := slices.Clone(fc.Mean)
-	if len(mean) != h {
-		return almanac.Forecast{}, fmt.Errorf("accuracy: pilot: %w: %s gave %d forecasts for %d steps", almanac.ErrLength, f.inner, len(mean), h)
+	if err := f.checkPoints(fc, h); err != nil {
+		return almanac.Forecast{}, err
 	}
+	mean := slices.Clone(fc.Mean)
 	for j, v := range mean {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return almanac.Forecast{}, fmt.Errorf("accuracy: pilot: %w: %s forecast %v at step %d", almanac.ErrNotFitted, f.inner, v, j+1)
-		}
 		if f.report.NonNegative {
 			mean[j] = math.Max(v, 0)
 		}
 	}
-	paths, err := f.Simulate(h, f.paths, rand.NewPCG(f.seed, pilotStream))
-	if err != nil {
+	// The route's forecast usually holds its sample paths already (a
+	// combination's do); otherwise they are drawn.
+	paths := fc.SamplePaths()
+	if len(paths) > 0 {
+		paths = f.tidy(clonePaths(paths), fc.Mean)
+	} else if paths, err = f.Simulate(h, f.paths, rand.NewPCG(f.seed, pilotStream)); err != nil {
 		return almanac.Forecast{}, err
 	}
 	out, err := almanac.NewForecast(fc.Start, fc.Freq, mean, &almanac.Sample{Paths: paths}, levels...)
@@ -329,6 +331,9 @@ func (f *PilotFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
 	if err != nil {
 		return nil, fmt.Errorf("accuracy: pilot: %w", err)
 	}
+	if err := f.checkPoints(fc, h); err != nil {
+		return nil, err
+	}
 	sim, ok := f.inner.(almanac.Simulator)
 	if !ok {
 		return nil, fmt.Errorf("accuracy: pilot: %w: %s cannot simulate", almanac.ErrNoDistribution, f.inner)
@@ -344,14 +349,45 @@ func (f *PilotFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
 		if len(p) != h {
 			return nil, fmt.Errorf("accuracy: pilot: %w: a path of %d steps for %d", almanac.ErrLength, len(p), h)
 		}
+	}
+	return f.tidy(paths, fc.Mean), nil
+}
+
+// checkPoints rejects a route forecast of the wrong length or with a
+// value that is not finite.
+func (f *PilotFit) checkPoints(fc almanac.Forecast, h int) error {
+	if len(fc.Mean) != h {
+		return fmt.Errorf("accuracy: pilot: %w: %s gave %d forecasts for %d steps", almanac.ErrLength, f.inner, len(fc.Mean), h)
+	}
+	for j, v := range fc.Mean {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("accuracy: pilot: %w: %s forecast %v at step %d", almanac.ErrNonFinite, f.inner, v, j+1)
+		}
+	}
+	return nil
+}
+
+// tidy replaces path values that are not finite (a multiplicative model
+// leaving its domain) by the point forecast of their step and, for
+// non-negative data, raises negative values to zero. It works in place.
+func (f *PilotFit) tidy(paths [][]float64, mean []float64) [][]float64 {
+	for _, p := range paths {
 		for j, v := range p {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				p[j] = fc.Mean[j]
+				p[j] = mean[j]
 			}
 			if f.report.NonNegative && p[j] < 0 {
 				p[j] = 0
 			}
 		}
 	}
-	return paths, nil
+	return paths
+}
+
+func clonePaths(paths [][]float64) [][]float64 {
+	out := make([][]float64, len(paths))
+	for i, p := range paths {
+		out[i] = slices.Clone(p)
+	}
+	return out
 }

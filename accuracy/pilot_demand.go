@@ -115,7 +115,7 @@ func classifyDemand(y []float64) DemandClass {
 // intermittentStage fits the Syntetos–Boylan approximation with its
 // constant estimated (0.1 when the series is too short to estimate it),
 // with sample paths from a bootstrap of the fitted process.
-func intermittentStage(seed uint64) stage {
+func intermittentStage() stage {
 	return stage{route: RouteIntermittent, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
 		var dropped []string
 		fit, err := smoothing.Croston{Variant: smoothing.CrostonSBA, EstimateAlpha: true}.Fit(ctx, y)

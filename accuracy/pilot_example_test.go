@@ -45,9 +45,9 @@ func ExamplePilot() {
 	// Output:
 	// route: combination [12]
 	// models: 3 filled: 2
-	// 2025-01 122.321 [120.187, 124.588]
-	// 2025-02 128.113 [125.550, 130.768]
-	// 2025-03 154.668 [151.341, 159.315]
+	// 2025-01 122.321 [120.291, 124.253]
+	// 2025-02 128.113 [125.534, 130.573]
+	// 2025-03 154.668 [151.642, 157.606]
 }
 
 // The README's first program: read a catalogue in long CSV, fit every
@@ -75,8 +75,8 @@ func ExamplePilot_catalogue() {
 		fmt.Printf("%s: %v, next month %.3f [%.3f, %.3f]\n", r.Key, route, fc.Mean[0], fc.Intervals[0].Lower[0], fc.Intervals[0].Upper[0])
 	}
 	// Output:
-	// rakes: combination, next month 83.833 [80.495, 86.632]
-	// seed trays: combination, next month 335.832 [323.826, 342.844]
+	// rakes: combination, next month 83.833 [81.830, 85.875]
+	// seed trays: combination, next month 335.832 [327.334, 344.406]
 	// spare blades: intermittent, next month 0.688 [0.000, 2.056]
 }
 

@@ -9,7 +9,6 @@ import (
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/arima"
 	"github.com/almanac-go/almanac/decompose"
-	"github.com/almanac-go/almanac/internal/combine"
 	"github.com/almanac-go/almanac/smoothing"
 )
 
@@ -20,6 +19,12 @@ type stage struct {
 	periods       []float64
 	needsComplete bool // gaps are repaired before this stage
 	fit           func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error)
+}
+
+// routeOpts are the options every route passes to its combinations.
+type routeOpts struct {
+	seed  uint64
+	paths int
 }
 
 // maxCombinationPeriod is the largest whole period the combination
@@ -34,11 +39,11 @@ const weeklyPeriod = 52
 // planRoutes lists the stages to try for y, best first, ending with the
 // benchmarks; decisions taken before fitting (a cycle the series is too
 // short for) are recorded in rep.Fallbacks.
-func planRoutes(y almanac.Series, rep *PilotReport, seed uint64) []stage {
+func planRoutes(y almanac.Series, rep *PilotReport, o routeOpts) []stage {
 	var plan []stage
 	n := y.Len() - y.Missing()
 	if rep.Demand.Intermittent() {
-		plan = append(plan, intermittentStage(seed))
+		plan = append(plan, intermittentStage())
 	}
 	periods := y.Freq.SeasonalPeriods()
 	nonSeasonalFirst := false
@@ -52,14 +57,14 @@ func planRoutes(y almanac.Series, rep *PilotReport, seed uint64) []stage {
 			nonSeasonalFirst = true
 			break
 		}
-		plan = append(plan, combinationStage(RouteCombination, m, seed))
+		plan = append(plan, combinationStage(RouteCombination, m, o))
 	case len(periods) == 1:
 		if n <= 2*weeklyPeriod {
 			rep.Fallbacks = append(rep.Fallbacks, fmt.Sprintf("%v: %d observed values, not more than two cycles of %d", RouteWeekly, n, weeklyPeriod))
 			nonSeasonalFirst = true
 			break
 		}
-		plan = append(plan, weeklyStage(seed))
+		plan = append(plan, weeklyStage(o))
 	default:
 		var usable []float64
 		for _, p := range periods {
@@ -72,27 +77,27 @@ func planRoutes(y almanac.Series, rep *PilotReport, seed uint64) []stage {
 			nonSeasonalFirst = true
 			break
 		}
-		plan = append(plan, multiSeasonalStage(usable, seed))
+		plan = append(plan, multiSeasonalStage(usable, o))
 	}
 	if nonSeasonalFirst {
-		st := combinationStage(RouteCombination, 1, seed)
+		st := combinationStage(RouteCombination, 1, o)
 		plan = append(plan, st)
 	} else {
-		plan = append(plan, combinationStage(RouteNonSeasonal, 1, seed))
+		plan = append(plan, combinationStage(RouteNonSeasonal, 1, o))
 	}
 	return append(plan, naiveStage(), lastValueStage())
 }
 
-// combine fits the members as an equal-weight mean and returns the fit
-// and the members left out.
-func combineMembers(ctx context.Context, y almanac.Series, seed uint64, members ...combine.Member) (almanac.Fitted, []string, error) {
-	fit, err := combine.Mean{Members: members, Seed: seed}.FitMembers(ctx, y)
+// combineMembers fits the members as an equal-weight mean
+// (almanac.Combination) and returns the fit and the members left out.
+func combineMembers(ctx context.Context, y almanac.Series, o routeOpts, members ...almanac.Model) (almanac.Fitted, []string, error) {
+	fit, err := almanac.Combination{Members: members, Seed: o.seed, Paths: o.paths}.Fit(ctx, y)
 	if err != nil {
 		return nil, nil, err
 	}
 	var dropped []string
-	for _, f := range fit.Failed() {
-		dropped = append(dropped, fmt.Sprintf("%s: %v", f.Name, f.Err))
+	for _, f := range fit.(*almanac.CombinationFit).Failures() {
+		dropped = append(dropped, f.Error())
 	}
 	return fit, dropped, nil
 }
@@ -100,56 +105,56 @@ func combineMembers(ctx context.Context, y almanac.Series, seed uint64, members 
 // nonSeasonal are the members of the combination without seasonal
 // terms: ETS chosen among the non-seasonal forms, ARIMA without seasonal
 // terms, Theta without seasonal adjustment.
-func nonSeasonal() []combine.Member {
-	return []combine.Member{
-		{Name: "ets", Model: smoothing.Select{Seasons: []smoothing.SeasonType{smoothing.NoSeason}, Workers: 1}},
-		{Name: "arima", Model: arima.Search{Period: 1}},
-		{Name: "theta", Model: smoothing.Theta{Period: 1}},
+func nonSeasonal() []almanac.Model {
+	return []almanac.Model{
+		smoothing.Select{Seasons: []smoothing.SeasonType{smoothing.NoSeason}, Workers: 1},
+		arima.Search{Period: 1},
+		smoothing.Theta{Period: 1},
 	}
 }
 
 // combinationStage is the mean of ETS, ARIMA and Theta with period m (1:
 // no seasonal terms).
-func combinationStage(r Route, m int, seed uint64) stage {
+func combinationStage(r Route, m int, o routeOpts) stage {
 	members := nonSeasonal()
 	var periods []float64
 	if m >= 2 {
 		periods = []float64{float64(m)}
-		members = []combine.Member{
-			{Name: "ets", Model: smoothing.Select{Period: m, Workers: 1}},
-			{Name: "arima", Model: arima.Search{Period: m}},
-			{Name: "theta", Model: smoothing.Theta{Period: m}},
+		members = []almanac.Model{
+			smoothing.Select{Period: m, Workers: 1},
+			arima.Search{Period: m},
+			smoothing.Theta{Period: m},
 		}
 	}
 	return stage{route: r, periods: periods, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
-		return combineMembers(ctx, y, seed, members...)
+		return combineMembers(ctx, y, o, members...)
 	}}
 }
 
 // weeklyStage combines the non-seasonal models of the STL-adjusted
 // series (52-week cycle) with Theta adjusted by a classical 52-week
 // decomposition.
-func weeklyStage(seed uint64) stage {
+func weeklyStage(o routeOpts) stage {
 	return stage{route: RouteWeekly, periods: []float64{365.25 / 7}, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
-		return combineMembers(ctx, y, seed,
-			combine.Member{Name: "stl", Model: decompose.Forecaster{
+		return combineMembers(ctx, y, o,
+			decompose.Forecaster{
 				Method: decompose.STL{Period: weeklyPeriod, Robust: true},
-				Model:  combine.Mean{Members: nonSeasonal(), Seed: seed},
-			}},
-			combine.Member{Name: "theta", Model: smoothing.Theta{Period: weeklyPeriod}},
+				Model:  almanac.Combination{Members: nonSeasonal(), Seed: o.seed, Paths: o.paths},
+			},
+			smoothing.Theta{Period: weeklyPeriod},
 		)
 	}}
 }
 
 // multiSeasonalStage adjusts the series by MSTL at the usable periods and
 // combines non-seasonal models of the adjusted series.
-func multiSeasonalStage(periods []float64, seed uint64) stage {
+func multiSeasonalStage(periods []float64, o routeOpts) stage {
 	return stage{route: RouteMultiSeasonal, periods: slices.Clone(periods), needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
-		return combineMembers(ctx, y, seed,
-			combine.Member{Name: "mstl", Model: decompose.Forecaster{
+		return combineMembers(ctx, y, o,
+			decompose.Forecaster{
 				Method: decompose.MSTL{Periods: periods},
-				Model:  combine.Mean{Members: nonSeasonal(), Seed: seed},
-			}},
+				Model:  almanac.Combination{Members: nonSeasonal(), Seed: o.seed, Paths: o.paths},
+			},
 		)
 	}}
 }
@@ -172,11 +177,10 @@ func lastValueStage() stage {
 
 // membersOf lists the fitted models behind fit, flattening combinations.
 func membersOf(fit almanac.Fitted) []string {
-	if c, ok := fit.(*combine.Fit); ok {
-		_, fits := c.Members()
+	if c, ok := fit.(*almanac.CombinationFit); ok {
 		var out []string
-		for _, m := range fits {
-			out = append(out, membersOf(m)...)
+		for _, m := range c.Members() {
+			out = append(out, membersOf(m.Fitted)...)
 		}
 		return out
 	}

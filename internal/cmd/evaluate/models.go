@@ -7,7 +7,6 @@ import (
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/accuracy"
 	"github.com/almanac-go/almanac/arima"
-	"github.com/almanac-go/almanac/internal/combine"
 	"github.com/almanac-go/almanac/smoothing"
 )
 
@@ -23,10 +22,8 @@ type entry struct {
 func registry() []entry {
 	return []entry{
 		{"auto", "the automatic forecaster (accuracy.Pilot)", accuracy.Pilot{}},
-		{"combo", "mean of the ETS selection, the ARIMA search and Theta", combine.Mean{Members: []combine.Member{
-			{Name: "ets", Model: smoothing.Select{Workers: 1}},
-			{Name: "arima", Model: arima.Search{}},
-			{Name: "theta", Model: smoothing.Theta{}},
+		{"combo", "mean of the ETS selection, the ARIMA search and Theta (almanac.Combination)", almanac.Combination{Members: []almanac.Model{
+			smoothing.Select{Workers: 1}, arima.Search{}, smoothing.Theta{},
 		}}},
 		{"ets", "ETS chosen by AICc (smoothing.Select)", smoothing.Select{Workers: 1}},
 		{"arima", "seasonal ARIMA with orders chosen by AICc (arima.Search)", arima.Search{}},
