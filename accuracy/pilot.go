@@ -152,6 +152,7 @@ type PilotReport struct {
 // concurrent use.
 type PilotFit struct {
 	inner  almanac.Fitted
+	backup almanac.Fitted // the end of the fallback chain, should inner fail to forecast
 	report PilotReport
 	y      almanac.Series // as given
 	fitted []float64
@@ -242,6 +243,13 @@ func (p Pilot) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 		break
 	}
 	f.inner = inner
+	if rep.Route == RouteBenchmark {
+		f.backup = inner
+	} else if nv, err := (almanac.Naive{}).Fit(ctx, work); err == nil {
+		f.backup = nv
+	} else {
+		f.backup = newLastValue(work)
+	}
 	n := y.Len()
 	f.fitted = make([]float64, n)
 	f.resid = make([]float64, n)
@@ -271,7 +279,10 @@ func repairGaps(y almanac.Series) (almanac.Series, []decompose.Change, error) {
 // levels (percentages in (0, 100)). The bands are quantiles of sample
 // paths of the fitted route (censored at zero for non-negative data);
 // the point forecast is the route's own (the mean of the members'),
-// censored the same way.
+// censored the same way. Should the route's forecast fail at this
+// horizon (a model whose forecast overflows far ahead), the forecast is
+// that of the benchmark at the end of the fallback chain (the naive
+// method, or the last value), so a fitted series always gets one.
 //
 // Special cases: h < 1 or beyond almanac.MaxHorizon gives an error
 // wrapping almanac.ErrHorizon, a bad level one wrapping almanac.ErrLevel.
@@ -282,11 +293,19 @@ func (f *PilotFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) 
 	if err := almanac.CheckLevels(levels...); err != nil {
 		return almanac.Forecast{}, fmt.Errorf("accuracy: pilot: %w", err)
 	}
-	fc, err := f.inner.Forecast(h)
+	out, err := f.forecastWith(f.inner, h, levels)
+	if err != nil && f.backup != nil {
+		out, err = f.forecastWith(f.backup, h, levels)
+	}
+	return out, err
+}
+
+func (f *PilotFit) forecastWith(inner almanac.Fitted, h int, levels []float64) (almanac.Forecast, error) {
+	fc, err := inner.Forecast(h)
 	if err != nil {
 		return almanac.Forecast{}, fmt.Errorf("accuracy: pilot: %w", err)
 	}
-	if err := f.checkPoints(fc, h); err != nil {
+	if err := checkPoints(inner, fc, h); err != nil {
 		return almanac.Forecast{}, err
 	}
 	mean := slices.Clone(fc.Mean)
@@ -300,7 +319,7 @@ func (f *PilotFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) 
 	paths := fc.SamplePaths()
 	if len(paths) > 0 {
 		paths = f.tidy(clonePaths(paths), fc.Mean)
-	} else if paths, err = f.Simulate(h, f.paths, rand.NewPCG(f.seed, pilotStream)); err != nil {
+	} else if paths, err = f.simulateWith(inner, fc, h, f.paths, rand.NewPCG(f.seed, pilotStream)); err != nil {
 		return almanac.Forecast{}, err
 	}
 	out, err := almanac.NewForecast(fc.Start, fc.Freq, mean, &almanac.Sample{Paths: paths}, levels...)
@@ -314,9 +333,10 @@ func (f *PilotFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) 
 const pilotStream = 0x2545f4914f6cdd1d
 
 // Simulate draws n sample paths of h steps from the fitted route
-// (censored at zero for non-negative data). A path step that is not a
-// finite number (a multiplicative model leaving its domain) is replaced
-// by the point forecast of that step; see the route's models.
+// (censored at zero for non-negative data; from the benchmark when the
+// route fails, as Forecast). A path step that is not a finite number (a
+// multiplicative model leaving its domain) is replaced by the point
+// forecast of that step.
 //
 // Special cases: h < 1 wraps almanac.ErrHorizon; n < 1 or a nil src
 // almanac.ErrInvalid.
@@ -328,15 +348,25 @@ func (f *PilotFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
 		return nil, fmt.Errorf("accuracy: pilot: %w: %d paths or a nil source", almanac.ErrInvalid, n)
 	}
 	fc, err := f.inner.Forecast(h)
-	if err != nil {
-		return nil, fmt.Errorf("accuracy: pilot: %w", err)
+	if err == nil {
+		err = checkPoints(f.inner, fc, h)
 	}
-	if err := f.checkPoints(fc, h); err != nil {
-		return nil, err
+	var paths [][]float64
+	if err == nil {
+		paths, err = f.simulateWith(f.inner, fc, h, n, src)
 	}
-	sim, ok := f.inner.(almanac.Simulator)
+	if err != nil && f.backup != nil {
+		if fc, err = f.backup.Forecast(h); err == nil {
+			paths, err = f.simulateWith(f.backup, fc, h, n, src)
+		}
+	}
+	return paths, err
+}
+
+func (f *PilotFit) simulateWith(inner almanac.Fitted, fc almanac.Forecast, h, n int, src rand.Source) ([][]float64, error) {
+	sim, ok := inner.(almanac.Simulator)
 	if !ok {
-		return nil, fmt.Errorf("accuracy: pilot: %w: %s cannot simulate", almanac.ErrNoDistribution, f.inner)
+		return nil, fmt.Errorf("accuracy: pilot: %w: %s cannot simulate", almanac.ErrNoDistribution, inner)
 	}
 	paths, err := sim.Simulate(h, n, src)
 	if err != nil {
@@ -353,15 +383,15 @@ func (f *PilotFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
 	return f.tidy(paths, fc.Mean), nil
 }
 
-// checkPoints rejects a route forecast of the wrong length or with a
-// value that is not finite.
-func (f *PilotFit) checkPoints(fc almanac.Forecast, h int) error {
+// checkPoints rejects a forecast of the wrong length or with a value
+// that is not finite.
+func checkPoints(inner almanac.Fitted, fc almanac.Forecast, h int) error {
 	if len(fc.Mean) != h {
-		return fmt.Errorf("accuracy: pilot: %w: %s gave %d forecasts for %d steps", almanac.ErrLength, f.inner, len(fc.Mean), h)
+		return fmt.Errorf("accuracy: pilot: %w: %s gave %d forecasts for %d steps", almanac.ErrLength, inner, len(fc.Mean), h)
 	}
 	for j, v := range fc.Mean {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return fmt.Errorf("accuracy: pilot: %w: %s forecast %v at step %d", almanac.ErrNonFinite, f.inner, v, j+1)
+			return fmt.Errorf("accuracy: pilot: %w: %s forecast %v at step %d", almanac.ErrNonFinite, inner, v, j+1)
 		}
 	}
 	return nil

@@ -8,6 +8,7 @@ import (
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/arima"
+	"github.com/almanac-go/almanac/calendar"
 	"github.com/almanac-go/almanac/decompose"
 	"github.com/almanac-go/almanac/smoothing"
 )
@@ -77,7 +78,7 @@ func planRoutes(y almanac.Series, rep *PilotReport, o routeOpts) []stage {
 			nonSeasonalFirst = true
 			break
 		}
-		plan = append(plan, multiSeasonalStage(usable, o))
+		plan = append(plan, multiSeasonalStage(usable, y.Freq.Unit == calendar.Day, o))
 	}
 	if nonSeasonalFirst {
 		st := combinationStage(RouteCombination, 1, o)
@@ -147,15 +148,21 @@ func weeklyStage(o routeOpts) stage {
 }
 
 // multiSeasonalStage adjusts the series by MSTL at the usable periods and
-// combines non-seasonal models of the adjusted series.
-func multiSeasonalStage(periods []float64, o routeOpts) stage {
+// combines non-seasonal models of the adjusted series. For daily data
+// Theta with a classical adjustment at 7 days joins (measured on the
+// invented daily series of internal/synth: the mean of the two cut the
+// error of the MSTL combination by 4%; on hourly data Theta at 24 hours,
+// blind to the weekly cycle, made it worse by 23%).
+func multiSeasonalStage(periods []float64, daily bool, o routeOpts) stage {
 	return stage{route: RouteMultiSeasonal, periods: slices.Clone(periods), needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
-		return combineMembers(ctx, y, o,
-			decompose.Forecaster{
-				Method: decompose.MSTL{Periods: periods},
-				Model:  almanac.Combination{Members: nonSeasonal(), Seed: o.seed, Paths: o.paths},
-			},
-		)
+		members := []almanac.Model{decompose.Forecaster{
+			Method: decompose.MSTL{Periods: periods},
+			Model:  almanac.Combination{Members: nonSeasonal(), Seed: o.seed, Paths: o.paths},
+		}}
+		if daily {
+			members = append(members, smoothing.Theta{Period: int(math.Round(periods[0]))})
+		}
+		return combineMembers(ctx, y, o, members...)
 	}}
 }
 

@@ -375,10 +375,10 @@ func TestPilotGapsAndShortSeries(t *testing.T) {
 // in a batch fitted with one worker or four.
 func TestPilotDeterministic(t *testing.T) {
 	var ys []almanac.Series
-	for i := range 6 {
-		y, _ := inventedWeekly(120+20*i, 0, uint64(i))
+	for i := range 4 {
+		y, _ := inventedWeekly(110+10*i, 0, uint64(i))
 		if i%2 == 1 {
-			y = inventedCycles(calendar.Daily, 300+10*i, uint64(i))
+			y = inventedCycles(calendar.Daily, 60+10*i, uint64(i))
 		}
 		ys = append(ys, y)
 	}
@@ -404,5 +404,35 @@ func TestPilotDeterministic(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// brokenFit forecasts NaN, as a model whose forecast overflows would.
+type brokenFit struct{ almanac.Fitted }
+
+func (brokenFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	return almanac.Forecast{Mean: []float64{math.NaN()}}, nil
+}
+func (brokenFit) String() string { return "broken" }
+
+// TestPilotBackup: when the route's forecast is not usable, the forecast
+// (and the sample paths) come from the benchmark kept at fit time.
+func TestPilotBackup(t *testing.T) {
+	y := almanac.Series{Key: "b", Start: date(2020, 1, 1), Freq: calendar.Yearly, Values: []float64{3, 4, 6, 5, 7}}
+	nv, err := almanac.Naive{}.Fit(context.Background(), y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := accuracy.PilotFitWith(y, brokenFit{nv}, nv)
+	fc, err := f.Forecast(3, 80)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fc.Mean[2] != 7 || !(fc.Intervals[0].Lower[2] < 7) {
+		t.Errorf("forecast %v, band %v", fc.Mean, fc.Intervals[0])
+	}
+	paths, err := f.Simulate(3, 10, rand.NewPCG(1, 2))
+	if err != nil || len(paths) != 10 {
+		t.Errorf("paths %d, err %v", len(paths), err)
 	}
 }
