@@ -384,3 +384,19 @@ func TestForecastsFile(t *testing.T) {
 		}
 	}
 }
+
+// TestAutoScoresEverySeries: the automatic forecaster forecasts every
+// invented weekly, daily and hourly series, gaps, short series and
+// counts included, with bands and horizon totals.
+func TestAutoScoresEverySeries(t *testing.T) {
+	dir := t.TempDir()
+	ss := synth.Generate(synth.Config{Seed: 11, Weekly: 6, Daily: 3, Hourly: 2})
+	if err := synth.WriteDir(dir, ss); err != nil {
+		t.Fatal(err)
+	}
+	rows := runJSON(t, "-data", dir, "-models", "auto")
+	r := find(t, rows, "auto", "all")
+	if r.Series != len(ss) || r.Failed != 0 || r.Coverage80 == nil || r.Total80 == nil {
+		t.Errorf("%+v", r)
+	}
+}
