@@ -24,12 +24,15 @@ import (
 //   - Intermittent demand: a non-negative series with an average interval
 //     between demands of at least 1.32 periods, the cut-off of Syntetos,
 //     Boylan & Croston (2005), is forecast by the Syntetos–Boylan
-//     approximation (SBA); see DemandClass.
+//     approximation (SBA); see DemandClass. Demand that follows the
+//     series' cycle (it passes the 90% autocorrelation test at the
+//     period, as hourly counts that vanish at night do) goes by frequency
+//     instead.
 //   - Yearly, quarterly, monthly and other series with one whole seasonal
 //     period of at most 24: the mean of the forecasts of the automatic
-//     ETS choice (smoothing.Select), the automatic ARIMA (arima.Search)
-//     and the Theta method (RouteCombination), combined by
-//     almanac.Combination.
+//     ETS choice (smoothing.Select among models without an undamped
+//     trend), the automatic ARIMA (arima.Search) and the Theta method
+//     (RouteCombination), combined by almanac.Combination.
 //   - Weekly series (a year of 365.25/7 weeks): decomposition-based
 //     forecasts with STL at 52 weeks, Theta with a 52-week seasonal
 //     adjustment, combined (RouteWeekly).

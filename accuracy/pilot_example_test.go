@@ -45,9 +45,9 @@ func ExamplePilot() {
 	// Output:
 	// route: combination [12]
 	// models: 3 filled: 2
-	// 2025-01 122.321 [120.291, 124.253]
-	// 2025-02 128.113 [125.534, 130.573]
-	// 2025-03 154.668 [151.642, 157.606]
+	// 2025-01 122.166 [120.095, 124.134]
+	// 2025-02 127.969 [125.351, 130.462]
+	// 2025-03 154.531 [151.475, 157.516]
 }
 
 // The README's first program: read a catalogue in long CSV, fit every
@@ -76,8 +76,8 @@ func ExamplePilot_catalogue() {
 	}
 	// Output:
 	// rakes: combination, next month 83.833 [81.830, 85.875]
-	// seed trays: combination, next month 335.832 [327.334, 344.406]
-	// spare blades: intermittent, next month 0.688 [0.000, 2.056]
+	// seed trays: combination, next month 335.520 [326.935, 344.183]
+	// spare blades: intermittent, next month 0.617 [0.000, 3.058]
 }
 
 // catalogueCSV writes the invented catalogue of ExamplePilot_catalogue.
@@ -94,7 +94,7 @@ func catalogueCSV() string {
 			case 1:
 				v = 200 + 2*float64(i) + 40*math.Cos(2*math.Pi*float64(i)/12) + float64((i*5)%9)
 			default:
-				if i%4 == 1 || i%7 == 3 {
+				if (i*i*7+3)%11 < 3 { // now and then, with no yearly pattern
 					v = float64(1 + i%3)
 				}
 			}

@@ -10,6 +10,7 @@ import (
 	"github.com/almanac-go/almanac/arima"
 	"github.com/almanac-go/almanac/calendar"
 	"github.com/almanac-go/almanac/decompose"
+	"github.com/almanac-go/almanac/internal/seasonal"
 	"github.com/almanac-go/almanac/smoothing"
 )
 
@@ -43,10 +44,14 @@ const weeklyPeriod = 52
 func planRoutes(y almanac.Series, rep *PilotReport, o routeOpts) []stage {
 	var plan []stage
 	n := y.Len() - y.Missing()
-	if rep.Demand.Intermittent() {
-		plan = append(plan, intermittentStage())
-	}
 	periods := y.Freq.SeasonalPeriods()
+	if rep.Demand.Intermittent() {
+		if m := y.Period(); m >= 2 && cyclic(y, m) {
+			rep.Fallbacks = append(rep.Fallbacks, fmt.Sprintf("%v: %v demand, but with a significant cycle of %d periods", RouteIntermittent, rep.Demand, m))
+		} else {
+			plan = append(plan, intermittentStage())
+		}
+	}
 	nonSeasonalFirst := false
 	switch {
 	case len(periods) == 0:
@@ -89,6 +94,23 @@ func planRoutes(y almanac.Series, rep *PilotReport, o routeOpts) []stage {
 	return append(plan, naiveStage(), lastValueStage())
 }
 
+// cyclic reports whether y, with gaps filled linearly, passes the
+// autocorrelation test for a cycle of m periods at the 90% level (the
+// test of Naive2 and Theta; needs n ≥ 3m). Demand that comes and goes
+// with the hour of the day or the day of the week is better forecast by
+// a seasonal route than by a flat intermittent-demand rate.
+func cyclic(y almanac.Series, m int) bool {
+	x := y.Slice()
+	if y.Missing() > 0 {
+		filled, _, err := decompose.Repair{Period: 1}.Fill(y)
+		if err != nil {
+			return false
+		}
+		x = filled.Values
+	}
+	return seasonal.IsSeasonal(x, m, 1.645)
+}
+
 // combineMembers fits the members as an equal-weight mean
 // (almanac.Combination) and returns the fit and the members left out.
 func combineMembers(ctx context.Context, y almanac.Series, o routeOpts, members ...almanac.Model) (almanac.Fitted, []string, error) {
@@ -103,12 +125,20 @@ func combineMembers(ctx context.Context, y almanac.Series, o routeOpts, members 
 	return fit, dropped, nil
 }
 
+// etsTrends are the trends the route's ETS member chooses from: none or
+// damped. Measured on all 3,003 M3 series with the evaluation program,
+// leaving out the undamped additive trend took smoothing.Select from
+// sMAPE 13.59 to 13.12 (yearly 17.58 to 16.74) and the combination from
+// 12.76 to 12.68: on short series the undamped trend is chosen often and
+// extrapolates too far.
+var etsTrends = []smoothing.TrendType{smoothing.NoTrend, smoothing.DampedTrend}
+
 // nonSeasonal are the members of the combination without seasonal
 // terms: ETS chosen among the non-seasonal forms, ARIMA without seasonal
 // terms, Theta without seasonal adjustment.
 func nonSeasonal() []almanac.Model {
 	return []almanac.Model{
-		smoothing.Select{Seasons: []smoothing.SeasonType{smoothing.NoSeason}, Workers: 1},
+		smoothing.Select{Trends: etsTrends, Seasons: []smoothing.SeasonType{smoothing.NoSeason}, Workers: 1},
 		arima.Search{Period: 1},
 		smoothing.Theta{Period: 1},
 	}
@@ -122,7 +152,7 @@ func combinationStage(r Route, m int, o routeOpts) stage {
 	if m >= 2 {
 		periods = []float64{float64(m)}
 		members = []almanac.Model{
-			smoothing.Select{Period: m, Workers: 1},
+			smoothing.Select{Trends: etsTrends, Period: m, Workers: 1},
 			arima.Search{Period: m},
 			smoothing.Theta{Period: m},
 		}

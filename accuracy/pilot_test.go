@@ -436,3 +436,26 @@ func TestPilotBackup(t *testing.T) {
 		t.Errorf("paths %d, err %v", len(paths), err)
 	}
 }
+
+// TestPilotCyclicCounts: hourly counts that vanish every night are
+// intermittent by ADI but follow the day; they go the multi-seasonal
+// route, and the report says why.
+func TestPilotCyclicCounts(t *testing.T) {
+	r := rand.New(rand.NewPCG(9, 9))
+	v := make([]float64, 24*21)
+	for i := range v {
+		if h := i % 24; h >= 8 && h < 18 && r.Float64() < 0.6 {
+			v[i] = float64(1 + r.IntN(4))
+		}
+	}
+	y := almanac.Series{Key: "trips", Start: date(2022, 5, 2), Freq: calendar.Hourly, Values: v}
+	f := fitPilot(t, y)
+	rep := f.Report()
+	if !rep.Demand.Intermittent() || rep.Route != accuracy.RouteMultiSeasonal || len(rep.Fallbacks) == 0 || !strings.Contains(rep.Fallbacks[0], "cycle") {
+		t.Fatalf("report %+v", rep)
+	}
+	fc := checkForecast(t, f, 24)
+	if night, day := mean(fc.Mean[0:8]), mean(fc.Mean[8:18]); !(day > night+0.5) {
+		t.Errorf("forecast at night %.2f, by day %.2f: the daily cycle is lost", night, day)
+	}
+}
