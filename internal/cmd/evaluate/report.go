@@ -7,6 +7,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 )
@@ -196,6 +197,7 @@ func (rp *report) writeText(w io.Writer) error {
 	block("failed series", 0, func(s summary) float64 { return float64(s.failed) })
 	block("seconds, summed over series", 2, func(s summary) float64 { return s.secs })
 
+	rp.writeRoutes(&b)
 	b.WriteString("\nRun time per model (wall-clock, process CPU-seconds, workers):\n")
 	for _, r := range rp.runs {
 		fmt.Fprintf(&b, "  %-32s %8.1f s %8.1f CPU-s  %d\n", r.e.name, r.wall, r.cpu, r.workers)
@@ -203,6 +205,42 @@ func (rp *report) writeText(w io.Writer) error {
 	rp.writeNotes(&b)
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+// writeRoutes counts, for models that report a route (the automatic
+// forecaster), the series of each category that took each route.
+func (rp *report) writeRoutes(b *strings.Builder) {
+	for _, r := range rp.runs {
+		count := map[string]map[string]int{}
+		var names []string
+		for i, res := range r.res {
+			if res.err != nil || res.route == "" {
+				continue
+			}
+			if count[res.route] == nil {
+				count[res.route] = map[string]int{}
+				names = append(names, res.route)
+			}
+			count[res.route][rp.d.items[i].category]++
+			count[res.route]["all"]++
+		}
+		if len(names) == 0 {
+			continue
+		}
+		slices.Sort(names)
+		fmt.Fprintf(b, "\n%-34s", "routes taken by "+r.e.name)
+		for _, c := range rp.cols {
+			fmt.Fprintf(b, "%10s", c)
+		}
+		b.WriteString("\n")
+		for _, n := range names {
+			fmt.Fprintf(b, "  %-32s", n)
+			for _, c := range rp.cols {
+				fmt.Fprintf(b, "%10d", count[n][c])
+			}
+			b.WriteString("\n")
+		}
+	}
 }
 
 // writeNotes lists the failed series and what could not be scored.

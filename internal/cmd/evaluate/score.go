@@ -37,6 +37,7 @@ type result struct {
 	totIn  [2]int     // 1 when the h-step total is inside its band
 	nTot   int        // 1 when the total could be scored
 	note   string     // what could not be scored, e.g. "no bands"
+	route  string     // the automatic forecaster's route ("" for other models)
 
 	// The forecast itself, kept for -forecasts: point forecasts and the
 	// bands at each level (nil without bands).
@@ -73,6 +74,9 @@ func evaluateOne(ctx context.Context, m almanac.Model, it item, seed uint64) (r 
 	}
 	r.secs = time.Since(t0).Seconds()
 	r.fit = fit.String()
+	if pf, ok := fit.(*accuracy.PilotFit); ok {
+		r.route = pf.Report().Route.String()
+	}
 	if len(fc.Mean) != h {
 		return result{err: fmt.Errorf("forecast: %w: %d values for %d steps", almanac.ErrLength, len(fc.Mean), h)}
 	}
