@@ -21,6 +21,14 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 	if err := y.Validate(); err != nil {
 		return nil, fmt.Errorf("arima: %w", err)
 	}
+	given := s
+	var tm *timed
+	if len(s.Calendar.Effects) > 0 {
+		var err error
+		if s.Regressors, s.Fixed, tm, err = expandCalendar(s.Calendar, s.Regressors, s.Fixed, y); err != nil {
+			return nil, err
+		}
+	}
 	lay, err := s.resolve(y)
 	if err != nil {
 		return nil, err
@@ -151,7 +159,7 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 		}
 	}
 
-	f := &Fitted{spec: s, lay: lay, key: y.Key, start: y.Start, freq: y.Freq, n: n, method: method, nUsed: pr.nUsed}
+	f := &Fitted{spec: given, timed: tm, lay: lay, key: y.Key, start: y.Start, freq: y.Freq, n: n, method: method, nUsed: pr.nUsed}
 	f.y = y.Slice()
 	f.x = xGiven
 	coef := start

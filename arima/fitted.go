@@ -36,6 +36,7 @@ type Fitted struct {
 	covFn   func() *mat.SymDense
 	cov     *mat.SymDense
 	kal     *kalman // filtered state after the last observation
+	timed   *timed  // regressors built from Spec.Calendar (nil: none)
 	resid   []float64
 
 	sigma2, loglik float64
@@ -209,6 +210,7 @@ func (f *Fitted) String() string {
 	if len(f.lay.regNames) > 0 {
 		b.WriteString(" + regressors(" + strings.Join(f.lay.regNames, ", ") + ")")
 	}
+	b.WriteString(f.leftOutString())
 	return b.String()
 }
 
@@ -223,8 +225,8 @@ func (f *Fitted) String() string {
 // ErrNeedRegressors (use ForecastWith); h < 1 wraps almanac.ErrHorizon; a
 // level outside (0, 100) wraps almanac.ErrLevel.
 func (f *Fitted) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
-	if len(f.lay.regNames) > 0 {
-		return almanac.Forecast{}, fmt.Errorf("arima: %w: %s was fitted with regressors %s; call ForecastWith with their future values", ErrNeedRegressors, f, quoteJoin(f.lay.regNames))
+	if user := f.lay.regNames[:len(f.lay.regNames)-f.numTimed()]; len(user) > 0 {
+		return almanac.Forecast{}, fmt.Errorf("arima: %w: %s was fitted with regressors %s; call ForecastWith with their future values", ErrNeedRegressors, f, quoteJoin(user))
 	}
 	return f.ForecastWith(h, nil, levels...)
 }
@@ -244,7 +246,7 @@ func (f *Fitted) ForecastWith(h int, future [][]float64, levels ...float64) (alm
 	if err := almanac.CheckLevels(levels...); err != nil {
 		return almanac.Forecast{}, fmt.Errorf("arima: %w", err)
 	}
-	nreg := len(f.lay.regNames)
+	nreg := len(f.lay.regNames) - f.numTimed() // the calendar's columns are built here
 	if len(future) != nreg {
 		return almanac.Forecast{}, fmt.Errorf("arima: %w: %d future regressor columns given, the model has %d", ErrNeedRegressors, len(future), nreg)
 	}
@@ -260,6 +262,10 @@ func (f *Fitted) ForecastWith(h int, future [][]float64, levels ...float64) (alm
 	}
 	if f.kal == nil {
 		return almanac.Forecast{}, fmt.Errorf("arima: %w: %s has a non-stationary AR part, no state-space forecast", ErrNonStationary, f.lay.orders())
+	}
+	future, err := f.withTimed(h, future)
+	if err != nil {
+		return almanac.Forecast{}, err
 	}
 	k := f.kal.clone()
 	mean := make([]float64, h)

@@ -11,6 +11,7 @@ import (
 	"sync"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
 	"gonum.org/v1/gonum/mat"
 )
 
@@ -160,6 +161,10 @@ type Search struct {
 	// on a constant and the regressors, and forecasts need future values
 	// (SearchResult.ForecastWith).
 	Regressors []Regressor
+	// Calendar holds regressors given as rules on the time axis, as in
+	// Spec.Calendar: every candidate has them, and the chosen model
+	// builds their future values itself.
+	Calendar calendar.Design
 }
 
 var _ almanac.Model = Search{}
@@ -292,7 +297,7 @@ func limit(v, def int) int {
 //   - when no candidate can be fitted the error wraps almanac.ErrNotFitted
 //     and the first candidate's error; there is never a silent fallback.
 func (s Search) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
-	r, err := s.search(ctx, y)
+	r, err := s.searchTimed(ctx, y)
 	if err != nil {
 		return nil, err
 	}

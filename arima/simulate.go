@@ -23,8 +23,8 @@ var _ almanac.Simulator = (*Fitted)(nil)
 // ErrNeedRegressors (use SimulateWith); h < 1 wraps almanac.ErrHorizon;
 // n < 1 or a nil src wraps almanac.ErrInvalid.
 func (f *Fitted) Simulate(h, n int, src rand.Source) ([][]float64, error) {
-	if len(f.lay.regNames) > 0 {
-		return nil, fmt.Errorf("arima: %w: %s was fitted with regressors %s; call SimulateWith with their future values", ErrNeedRegressors, f, quoteJoin(f.lay.regNames))
+	if user := f.lay.regNames[:len(f.lay.regNames)-f.numTimed()]; len(user) > 0 {
+		return nil, fmt.Errorf("arima: %w: %s was fitted with regressors %s; call SimulateWith with their future values", ErrNeedRegressors, f, quoteJoin(user))
 	}
 	return f.SimulateWith(h, n, nil, src)
 }

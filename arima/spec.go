@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
 )
 
 // Method is the estimation method of a Spec. Programs should not rely on
@@ -144,6 +145,15 @@ type Spec struct {
 	// Regressors are the columns of x_t (regression with ARIMA errors).
 	// Forecasts then need future values: use Fitted.ForecastWith.
 	Regressors []Regressor
+	// Calendar holds regressors given as rules on the time axis
+	// (holidays, events, Fourier cycles; see calendar.Design): Fit builds
+	// their values for the series' own periods and the fitted model
+	// builds their future values itself, so Forecast and Simulate need
+	// nothing more. Their columns follow Regressors in the regression. A
+	// column constant over the observed values cannot be estimated from
+	// this series and is left out (Fitted.LeftOut, and String says so).
+	// The zero value has none.
+	Calendar calendar.Design
 	// Fixed holds values for coefficients that are not estimated, keyed
 	// by name: "ar1".."arp", "ma1".., "sar1".., "sma1".., "mean",
 	// "drift", or a regressor name. nil fixes nothing.

@@ -106,6 +106,36 @@
 //	fit, err := arima.Spec{P: 1, Regressors: regs}.Fit(ctx, y)
 //	fc, err := fit.(*arima.Fitted).ForecastWith(13, future, 80, 95)
 //
+// # Regressors as rules
+//
+// A Grid column is built for one grid; a model that is refitted on other
+// windows (a backtest, a nightly refit) needs the rule instead. An
+// [Effect] builds its named columns for any grid, and a [Design] is a set
+// of effects with the grid's Stamp; a model holding a Design (the arima
+// package's Spec.Calendar) builds its regressors for whatever periods it
+// is fitted on and for any forecast horizon:
+//
+//	d := calendar.Design{Effects: []calendar.Effect{
+//		calendar.HolidayCount{Calendar: region},
+//		calendar.Event{Name: "quay works", Shape: calendar.Shift, From: first, Through: last},
+//		calendar.Event{Name: "strike", Shape: calendar.Decay, From: day}, // rate 0.7
+//		calendar.Cycle{Period: 365.25 / 7, Harmonics: 4},
+//	}}
+//	cols, err := d.Build(y.Start, y.Freq, len(y.Values), 13)
+//
+// [HolidayCount] and [WorkingDayCount] count days per period,
+// [WeekdayCounts] gives Monday … Saturday counts (Sunday the baseline),
+// [Event] is a Pulse, Step, Shift, Ramp or Decay (its dates may lie
+// outside the grid: the column then holds the part of the profile inside
+// it, zeros when none), and [Cycle] gives Fourier terms whose phase is
+// counted from [CycleOrigin] (Monday 3 January 2000) rather than from
+// the start of the series, so a window starting anywhere gets the same
+// season; for monthly and longer frequencies the phase counts whole
+// months from January 2000. The anchoring is checked against Fourier terms R 4.2 computed
+// from the dates themselves (testdata/gen_cycle.R: difftime from the
+// origin; weekly, also stamped on Sundays, daily, hourly and monthly
+// grids) to 1e-9.
+//
 // # Missing values
 //
 // Nothing here takes observations; times are never missing. Regressor
@@ -141,7 +171,8 @@
 // HolidayColumns 0.27 ms (seven names), Weekdays 0.16 ms (seven
 // columns), Pulse 10 µs and Decay 15 µs (one allocation: the column).
 // Ten years of weekly data (535 periods) take from 1.2 µs (Pulse) to
-// 0.12 ms (HolidayColumns); Holidays about 30 µs.
+// 0.12 ms (HolidayColumns); Holidays about 30 µs. An Effect costs what
+// the Grid method it calls costs; a Cycle the cost of Fourier.
 //
 // # References
 //
@@ -162,6 +193,10 @@
 // practice in regression with ARIMA errors; see e.g. G. E. P. Box and
 // G. C. Tiao (1975), Intervention analysis with applications to economic
 // and environmental problems, JASA 70:70–79 (recalled from memory).
+//
+// C. Chen and L.-M. Liu (1993), Joint estimation of model parameters and
+// outlier effects in time series, JASA 88:284–297 (the decay rate 0.7 of
+// a temporary change, DefaultDecayRate; recalled from memory).
 //
 // A. C. Harvey (1989), Forecasting, Structural Time Series Models and the
 // Kalman Filter, Cambridge University Press (trigonometric seasonality).

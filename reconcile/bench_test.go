@@ -96,3 +96,41 @@ func BenchmarkForecastsGaussian(b *testing.B) {
 		}
 	})
 }
+
+// BenchmarkForecastsSamplePaths: 1000 sample paths of 12 steps per node
+// (n = 211), reconciled by MinT (shrinkage) after the joint draws of each
+// kind, or as given.
+func BenchmarkForecastsSamplePaths(b *testing.B) {
+	h, base, resid := benchSetup(b, 200)
+	n := h.Len()
+	const np, steps = 1000, 12
+	rng := rand.New(rand.NewPCG(5, 6))
+	fcs := make([]almanac.Forecast, n)
+	for i := range fcs {
+		mean := mat.Col(nil, i, base)
+		paths := make([][]float64, np)
+		for p := range paths {
+			paths[p] = make([]float64, steps)
+			x := 0.0
+			for k := range paths[p] {
+				x += rng.NormFloat64()
+				paths[p][k] = mean[k] + x
+			}
+		}
+		f, err := almanac.NewForecast(start, calendar.Monthly, mean, &almanac.Sample{Paths: paths})
+		if err != nil {
+			b.Fatal(err)
+		}
+		fcs[i] = f
+	}
+	for _, draw := range []reconcile.Draw{reconcile.JointBootstrap, reconcile.JointGaussian, reconcile.IndependentPaths} {
+		b.Run(fmt.Sprintf("%s/n=%d/h=%d/paths=%d", draw, n, steps, np), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := reconcile.Forecasts(h, fcs, reconcile.Spec{Residuals: resid, Draw: draw}, 80); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

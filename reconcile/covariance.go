@@ -77,27 +77,53 @@ func EstimateCovariance(st Structure, residuals mat.Matrix, kind Covariance) (Co
 	if err != nil {
 		return CovarianceEstimate{}, err
 	}
-	return estimateCov(c, residuals, kind)
+	est, err := estimateCov(c, residuals, kind)
+	if err != nil {
+		return CovarianceEstimate{}, err
+	}
+	// Back to the residuals' own unit: W·2^(2e).
+	w := est.W
+	for i := 0; i < c.n(); i++ {
+		for j := i; j < c.n(); j++ {
+			v := math.Ldexp(w.At(i, j), 2*est.exp)
+			if math.IsInf(v, 0) {
+				return CovarianceEstimate{}, fmt.Errorf("reconcile: %w: the covariance of the residuals of %q and %q is beyond the float64 range (residuals near ±1.3e154 or more square to more than 1.8e308)", almanac.ErrNonFinite, c.names[i], c.names[j])
+			}
+			w.SetSym(i, j, v)
+		}
+	}
+	return est.CovarianceEstimate, nil
 }
 
-func estimateCov(c *core, residuals mat.Matrix, kind Covariance) (CovarianceEstimate, error) {
+// covEst is a covariance estimate in a unit of its own: W and the
+// complete residual rows are those of the residuals divided by 2^exp
+// (scale.go), so that squares of residuals near the float64 limit do not
+// overflow. The reconciliation does not depend on the unit of W.
+type covEst struct {
+	CovarianceEstimate
+	rows [][]float64 // complete residual rows, divided by 2^exp
+	exp  int
+}
+
+func estimateCov(c *core, residuals mat.Matrix, kind Covariance) (covEst, error) {
 	if kind == CovarianceAuto {
 		kind = Shrinkage
 	}
 	if kind < Shrinkage || kind > DiagonalVariance {
-		return CovarianceEstimate{}, fmt.Errorf("reconcile: %w: unknown covariance estimator %v", almanac.ErrInvalid, kind)
+		return covEst{}, fmt.Errorf("reconcile: %w: unknown covariance estimator %v", almanac.ErrInvalid, kind)
 	}
 	rows, err := completeRows(c, residuals, "residuals")
 	if err != nil {
-		return CovarianceEstimate{}, err
+		return covEst{}, err
 	}
 	n, T := c.n(), len(rows)
 	switch {
 	case kind == SampleCovariance && T < n:
-		return CovarianceEstimate{}, fmt.Errorf("reconcile: %w: the sample covariance of %d nodes needs at least %d complete residual rows, have %d (use the shrinkage estimator)", almanac.ErrTooShort, n, n, T)
+		return covEst{}, fmt.Errorf("reconcile: %w: the sample covariance of %d nodes needs at least %d complete residual rows, have %d (use the shrinkage estimator)", almanac.ErrTooShort, n, n, T)
 	case kind == Shrinkage && T < 2:
-		return CovarianceEstimate{}, fmt.Errorf("reconcile: %w: the shrinkage estimator needs at least 2 complete residual rows, have %d", almanac.ErrTooShort, T)
+		return covEst{}, fmt.Errorf("reconcile: %w: the shrinkage estimator needs at least 2 complete residual rows, have %d", almanac.ErrTooShort, T)
 	}
+	exp := scaleRows(rows)
 	e := mat.NewDense(T, n, nil)
 	for t, r := range rows {
 		e.SetRow(t, r)
@@ -106,18 +132,27 @@ func estimateCov(c *core, residuals mat.Matrix, kind Covariance) (CovarianceEsti
 	w1.SymOuterK(1/float64(T), e.T())
 	for i := 0; i < n; i++ {
 		if !(w1.At(i, i) > 0) {
-			return CovarianceEstimate{}, fmt.Errorf("reconcile: %w: the residuals of node %q are all zero, so its variance is zero", ErrSingular, c.names[i])
+			for _, r := range rows {
+				if r[i] != 0 {
+					return covEst{}, fmt.Errorf("reconcile: %w: the residuals of node %q are too small next to the largest residual of another node (a ratio beyond about 1e160) for their variance to be represented", ErrSingular, c.names[i])
+				}
+			}
+			return covEst{}, fmt.Errorf("reconcile: %w: the residuals of node %q are all zero, so its variance is zero", ErrSingular, c.names[i])
 		}
 	}
+	out := covEst{rows: rows, exp: exp}
+	out.Rows = T
 	switch kind {
 	case SampleCovariance:
-		return CovarianceEstimate{W: w1, Lambda: 0, Rows: T}, nil
+		out.W = w1
+		return out, nil
 	case DiagonalVariance:
 		w := mat.NewSymDense(n, nil)
 		for i := 0; i < n; i++ {
 			w.SetSym(i, i, w1.At(i, i))
 		}
-		return CovarianceEstimate{W: w, Lambda: 1, Rows: T}, nil
+		out.W, out.Lambda = w, 1
+		return out, nil
 	}
 	lambda := shrinkIntensity(e, w1)
 	w := mat.NewSymDense(n, nil)
@@ -127,7 +162,8 @@ func estimateCov(c *core, residuals mat.Matrix, kind Covariance) (CovarianceEsti
 			w.SetSym(i, j, (1-lambda)*w1.At(i, j))
 		}
 	}
-	return CovarianceEstimate{W: w, Lambda: lambda, Rows: T}, nil
+	out.W, out.Lambda = w, lambda
+	return out, nil
 }
 
 // shrinkIntensity returns the Schäfer–Strimmer intensity for shrinking

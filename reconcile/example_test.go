@@ -1,7 +1,9 @@
 package reconcile_test
 
 import (
+	"context"
 	"fmt"
+	"math/rand/v2"
 	"time"
 
 	"github.com/almanac-go/almanac"
@@ -119,7 +121,17 @@ func ExampleForecasts() {
 		}
 		fcs[i] = f
 	}
-	rec, err := reconcile.Forecasts(h, fcs, reconcile.Spec{Method: reconcile.MethodWLSStructural}, 80)
+	// In-sample one-step errors of the base models: they say how the
+	// nodes' errors move together (here the shops err in step).
+	resid := mat.NewDense(6, 7, []float64{
+		12, 8, 5, 4, 3, 2, 4,
+		-9, -4, -6, -3, -2, -4, -1,
+		15, 9, 4, 5, 5, 1, 2,
+		-11, -7, -3, -2, -4, -2, -2,
+		6, 2, 5, 0, 1, 3, 1,
+		-8, -5, -2, -3, -1, -1, -2,
+	})
+	rec, err := reconcile.Forecasts(h, fcs, reconcile.Spec{Method: reconcile.MethodWLSStructural, Residuals: resid}, 80)
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -129,9 +141,61 @@ func ExampleForecasts() {
 		fmt.Printf("%-12s %.3f [%.3f, %.3f]\n", name, rec[i].Mean[0], iv.Lower[0], iv.Upper[0])
 	}
 	// Output:
-	// chain        993.333 [969.025, 1017.642]
-	// chain/north  556.667 [537.594, 575.739]
-	// chain/south  436.667 [420.297, 453.036]
+	// chain        993.333 [940.664, 1046.002]
+	// chain/north  556.667 [525.541, 587.792]
+	// chain/south  436.667 [412.717, 460.617]
+}
+
+// Reconciled forecasts with joint sample paths straight from a batch of
+// fitted models: an invented bakery chain's daily loaves over 60 days,
+// whose four shops share the weather (a common shock each day).
+func ExampleFromBatch() {
+	h := bakery()
+	rng := rand.New(rand.NewPCG(2027, 3))
+	level := []float64{300, 250, 240, 200}
+	shops := make([][]float64, 4)
+	for day := 0; day < 60; day++ {
+		weather := rng.NormFloat64()
+		for j := range shops {
+			level[j] += 6*weather + 3*rng.NormFloat64()
+			shops[j] = append(shops[j], level[j])
+		}
+	}
+	start := time.Date(2027, time.March, 1, 0, 0, 0, 0, time.UTC)
+	var series []almanac.Series
+	for i, name := range h.Names() {
+		vals := make([]float64, 60)
+		for _, j := range h.Bottoms(i) {
+			for d, v := range shops[j] {
+				vals[d] += v
+			}
+		}
+		series = append(series, almanac.Series{Key: name, Start: start, Freq: calendar.Daily, Values: vals})
+	}
+	results, err := almanac.BatchFit(context.Background(), almanac.Naive{}, series, almanac.BatchOptions{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	// The default: MinT (shrinkage) with joint paths from the residuals.
+	joint, err := reconcile.FromBatch(context.Background(), h, results, 7, reconcile.Spec{Seed: 1}, 80)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	// For comparison only: each node's paths drawn on their own.
+	indep, err := reconcile.FromBatch(context.Background(), h, results, 7, reconcile.Spec{Seed: 1, Draw: reconcile.IndependentPaths}, 80)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, fc := range []almanac.Forecast{joint[0], indep[0]} {
+		iv := fc.Intervals[0]
+		fmt.Printf("chain, day 7: %.3f, 80%% band [%.3f, %.3f]\n", fc.Mean[6], iv.Lower[6], iv.Upper[6])
+	}
+	// Output:
+	// chain, day 7: 1075.633, 80% band [998.756, 1156.641]
+	// chain, day 7: 1075.633, 80% band [1044.212, 1105.084]
 }
 
 func ExampleNewHierarchy() {

@@ -10,36 +10,51 @@ import (
 
 // Forecasts reconciles one base forecast per node (in the structure's
 // node order) and returns one coherent forecast per node, with a central
-// interval at each level (percentages in (0, 100)).
+// interval at each level (percentages in (0, 100)). FromFits does the
+// same starting from fitted models.
 //
 // Point forecasts are reconciled as by Reconcile. The distributions are
 // reconciled as follows:
 //
-//   - When every base forecast carries sample paths (*almanac.Sample) with
-//     the same number of paths, path i of every node is taken as one
-//     joint draw and reconciled by the same map as the point forecasts;
-//     the reconciled forecasts carry the reconciled paths (Panagiotelis,
-//     Gamakumara, Athanasopoulos & Hyndman 2023). If the base paths were
-//     drawn independently node by node, the reconciled paths treat the
-//     base errors as independent.
+//   - When every base forecast carries sample paths (*almanac.Sample),
+//     they are first made joint as spec.Draw says. By default
+//     (JointBootstrap, or JointGaussian) each node's paths give the error
+//     covariance of its own steps, and new joint paths for all nodes are
+//     drawn from it with innovations that carry the cross-series
+//     dependence of spec.Residuals (see Draw); spec.Paths sets their
+//     number (default: as many as the base forecast with the most paths).
+//     With IndependentPaths, path k of every node is taken as one joint
+//     draw as given. Each joint draw is then reconciled by the same map
+//     as the point forecasts, and the reconciled forecasts carry the
+//     reconciled paths (Panagiotelis, Gamakumara, Athanasopoulos &
+//     Hyndman 2023).
 //   - When every base forecast is Gaussian (*almanac.Normal), the base
 //     covariance at step t is Σ_t = D_t R D_t, with D_t the base
 //     standard deviations and R the correlation matrix of the residual
 //     covariance (the sample one for MethodMinTSample, the shrinkage one
-//     otherwise) when spec.Residuals is set, the identity when it is not.
-//     The reconciled forecasts are Gaussian with covariance
-//     S G_t Σ_t G_t' S' (G_t the map at step t).
+//     otherwise); with IndependentPaths R is the identity. The reconciled
+//     forecasts are Gaussian with covariance S G_t Σ_t G_t' S' (G_t the
+//     map at step t).
 //   - Otherwise the reconciled forecasts carry no distribution, and asking
 //     for levels is an error wrapping almanac.ErrNoDistribution.
+//
+// Except with IndependentPaths, distributions therefore need
+// spec.Residuals (an error wrapping almanac.ErrEmpty says so): without
+// them nothing is known about how the nodes' errors move together, and
+// treating them as independent makes the bands of totals too narrow.
 //
 // NonNegative works with sample paths (each path is projected) but not
 // with Gaussian forecasts, whose non-negative reconciliation is not
 // Gaussian (error wrapping almanac.ErrInvalid).
 //
 // Errors also wrap ErrDimension with almanac.ErrLength (wrong number of
-// forecasts, different horizons or path counts), almanac.ErrFrequency or
-// almanac.ErrInvalid (different frequencies or start times),
-// almanac.ErrLevel, almanac.ErrHorizon, and everything Reconcile returns.
+// forecasts, different horizons, different path counts with
+// IndependentPaths), almanac.ErrFrequency or almanac.ErrInvalid
+// (different frequencies or start times, an unknown Draw, negative
+// Paths), almanac.ErrLevel, almanac.ErrHorizon, almanac.ErrTooShort (fewer
+// than 10 complete residual rows, or fewer than 2 complete paths of a
+// node, for the joint draws), almanac.ErrNonFinite (an answer beyond the
+// float64 range), and everything Reconcile returns.
 func Forecasts(st Structure, fcs []almanac.Forecast, spec Spec, levels ...float64) ([]almanac.Forecast, error) {
 	c, err := coreOf(st)
 	if err != nil {
@@ -47,6 +62,9 @@ func Forecasts(st Structure, fcs []almanac.Forecast, spec Spec, levels ...float6
 	}
 	if err := almanac.CheckLevels(levels...); err != nil {
 		return nil, fmt.Errorf("reconcile: %w", err)
+	}
+	if err := checkDrawSpec(spec); err != nil {
+		return nil, err
 	}
 	n := c.n()
 	if len(fcs) != n {
@@ -99,8 +117,25 @@ func Forecasts(st Structure, fcs []almanac.Forecast, spec Spec, levels ...float6
 		if err != nil {
 			return nil, fmt.Errorf("reconcile: %w", err)
 		}
+		if err := checkBounds(out[i], c.names[i]); err != nil {
+			return nil, err
+		}
 	}
 	return out, nil
+}
+
+// checkBounds returns an error wrapping almanac.ErrNonFinite when an
+// interval bound of f is not a finite number (a band reaching beyond the
+// float64 range).
+func checkBounds(f almanac.Forecast, node string) error {
+	for _, iv := range f.Intervals {
+		for t := range iv.Lower {
+			if lo, hi := iv.Lower[t], iv.Upper[t]; math.IsInf(lo, 0) || math.IsNaN(lo) || math.IsInf(hi, 0) || math.IsNaN(hi) {
+				return fmt.Errorf("reconcile: %w: the %v%% band of node %q at step %d is [%v, %v], beyond the float64 range", almanac.ErrNonFinite, iv.Level, node, t+1, lo, hi)
+			}
+		}
+	}
+	return nil
 }
 
 // reconcileDists returns one reconciled distribution per node, or nil
@@ -122,7 +157,22 @@ func reconcileDists(p *plan, spec Spec, fcs []almanac.Forecast, h int) ([]almana
 	}
 	switch {
 	case len(samples) == len(fcs):
-		return reconcileSamples(p, samples, h)
+		paths := make([][][]float64, len(samples))
+		for i, s := range samples {
+			paths[i] = s.Paths
+		}
+		if spec.Draw != IndependentPaths {
+			means := make([][]float64, len(fcs))
+			for i, f := range fcs {
+				means[i] = f.Mean
+			}
+			joint, err := jointPaths(p.c, p.method, means, paths, spec, h)
+			if err != nil {
+				return nil, err
+			}
+			paths = joint
+		}
+		return reconcileSamples(p, paths, h)
 	case len(normals) == len(fcs):
 		if spec.NonNegative {
 			return nil, fmt.Errorf("reconcile: %w: non-negative reconciliation of Gaussian forecasts is not Gaussian; give sample paths instead", almanac.ErrInvalid)
@@ -132,18 +182,20 @@ func reconcileDists(p *plan, spec Spec, fcs []almanac.Forecast, h int) ([]almana
 	return nil, nil
 }
 
-func reconcileSamples(p *plan, samples []*almanac.Sample, h int) ([]almanac.Distribution, error) {
+// reconcileSamples reconciles path k of every node as one joint draw
+// (paths[node][k][step]).
+func reconcileSamples(p *plan, given [][][]float64, h int) ([]almanac.Distribution, error) {
 	c := p.c
 	n := c.n()
-	np := len(samples[0].Paths)
+	np := len(given[0])
 	if np == 0 {
 		return nil, fmt.Errorf("reconcile: %w: the sample of %q has no paths", almanac.ErrEmpty, c.names[0])
 	}
-	for i, s := range samples {
-		if len(s.Paths) != np {
-			return nil, fmt.Errorf("reconcile: %w: %w: %q has %d sample paths, %q has %d", ErrDimension, almanac.ErrLength, c.names[i], len(s.Paths), c.names[0], np)
+	for i, s := range given {
+		if len(s) != np {
+			return nil, fmt.Errorf("reconcile: %w: %w: %q has %d sample paths, %q has %d", ErrDimension, almanac.ErrLength, c.names[i], len(s), c.names[0], np)
 		}
-		for k, path := range s.Paths {
+		for k, path := range s {
 			if len(path) < h {
 				return nil, fmt.Errorf("reconcile: %w: %w: path %d of %q has %d steps, need %d", ErrDimension, almanac.ErrLength, k, c.names[i], len(path), h)
 			}
@@ -151,27 +203,31 @@ func reconcileSamples(p *plan, samples []*almanac.Sample, h int) ([]almanac.Dist
 	}
 	paths := make([][][]float64, n) // paths[node][k][t]
 	for i := range paths {
+		flat := make([]float64, np*h)
 		paths[i] = make([][]float64, np)
 		for k := range paths[i] {
-			paths[i][k] = make([]float64, h)
+			paths[i][k] = flat[k*h : (k+1)*h : (k+1)*h]
 		}
 	}
 	y := make([]float64, n)
-	b := make([]float64, c.m)
 	rec := make([]float64, n)
+	w := p.newWork()
 	for k := 0; k < np; k++ {
 		for t := 0; t < h; t++ {
-			for i, s := range samples {
-				v := s.Paths[k][t]
+			for i, s := range given {
+				v := s[k][t]
 				if err := finite(c, "sample path value", v, t, i); err != nil {
 					return nil, err
 				}
 				y[i] = v
 			}
-			if err := p.bottomsTo(b, y, t); err != nil {
+			bad, err := p.rowTo(rec, y, t, w)
+			if err != nil {
 				return nil, err
 			}
-			c.aggregateRow(rec, b)
+			if bad >= 0 {
+				return nil, notRepresentable(fmt.Sprintf("reconciled sample path %d", k), c.names[bad], t)
+			}
 			for i, v := range rec {
 				paths[i][k][t] = v
 			}
@@ -203,7 +259,10 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 	// rather than O(n²).
 	var zt *mat.Dense // n × T
 	var lambda float64
-	if !absent(spec.Residuals) {
+	if spec.Draw != IndependentPaths {
+		if absent(spec.Residuals) {
+			return nil, fmt.Errorf("reconcile: %w: the correlation of Gaussian base forecasts comes from the in-sample residuals of every node (Spec.Residuals, e.g. from ResidualMatrix); Draw: IndependentPaths treats them as independent", almanac.ErrEmpty)
+		}
 		kind := Shrinkage
 		if p.method == MethodMinTSample {
 			kind = SampleCovariance
@@ -212,10 +271,7 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 		if err != nil {
 			return nil, err
 		}
-		rows, err := completeRows(c, spec.Residuals, "residuals")
-		if err != nil {
-			return nil, err
-		}
+		rows := est.rows // in the unit of est.W
 		lambda = est.Lambda
 		zt = mat.NewDense(n, len(rows), nil)
 		for k := 0; k < n; k++ {
@@ -233,27 +289,36 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 		sds[i] = make([]float64, h)
 	}
 	y := make([]float64, n)
-	b := make([]float64, c.m)
 	rec := make([]float64, n)
+	sd := make([]float64, n)
+	w := p.newWork()
 	var sg0 *mat.Dense
 	var sg mat.Dense
 	for t := 0; t < h; t++ {
 		for i, d := range normals {
 			y[i] = d.Mean[t]
+			sd[i] = d.SD[t]
 		}
-		if err := p.bottomsTo(b, y, t); err != nil {
+		bad, err := p.rowTo(rec, y, t, w)
+		if err != nil {
 			return nil, err
 		}
-		c.aggregateRow(rec, b)
-		// M = S G_t D_t; variance of node i = m_i R m_i'.
+		if bad >= 0 {
+			return nil, notRepresentable("reconciled mean", c.names[bad], t)
+		}
+		// M = S G_t D_t; variance of node i = m_i R m_i'. The standard
+		// deviations are divided by a power of two 2^e (scale.go) so that
+		// their squares cannot overflow.
 		if t == 0 || p.split != nil && !p.split.fixed {
 			sg0 = sumRows(c, p.gAt(t))
 		}
+		e := expOf(sd)
+		scaleInto(sd, sd, e)
 		sg.CloneFrom(sg0)
 		for i := 0; i < n; i++ {
 			row := sg.RawRowView(i)
 			for k := range row {
-				row[k] *= normals[k].SD[t]
+				row[k] *= sd[k]
 			}
 		}
 		for i := 0; i < n; i++ {
@@ -278,7 +343,11 @@ func reconcileNormals(p *plan, spec Spec, normals []*almanac.Normal, h int) ([]a
 			}
 		}
 		for i := 0; i < n; i++ {
-			sds[i][t] = math.Sqrt(max(sds[i][t], 0))
+			v := math.Ldexp(math.Sqrt(max(sds[i][t], 0)), e)
+			if math.IsInf(v, 0) {
+				return nil, notRepresentable("reconciled standard deviation", c.names[i], t)
+			}
+			sds[i][t] = v
 		}
 	}
 	out := make([]almanac.Distribution, n)

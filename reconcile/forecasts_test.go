@@ -34,15 +34,15 @@ func normalForecasts(t *testing.T, base *mat.Dense, sd func(node, step int) floa
 	return out
 }
 
-// Gaussian bottom-up without residuals: the total of independent normal
-// bottom forecasts has variance equal to the sum of their variances
+// Gaussian bottom-up with IndependentPaths: the total of independent
+// normal bottom forecasts has variance equal to the sum of their variances
 // (common practice: variance of a sum of independent variables).
 func TestForecastsGaussianBottomUp(t *testing.T) {
 	h := testHierarchy(t, 2, 2)
 	rng := rand.New(rand.NewPCG(31, 32))
 	base := coherentData(h, 4, 5, rng)
 	fcs := normalForecasts(t, base, func(i, k int) float64 { return float64(1 + i + k) })
-	got, err := reconcile.Forecasts(h, fcs, reconcile.Spec{Method: reconcile.MethodBottomUp}, 80, 95)
+	got, err := reconcile.Forecasts(h, fcs, reconcile.Spec{Method: reconcile.MethodBottomUp, Draw: reconcile.IndependentPaths}, 80, 95)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -117,9 +117,9 @@ func TestForecastsGaussianMinT(t *testing.T) {
 	}
 }
 
-// Sample paths: each path is reconciled with the same map as the means
-// (Panagiotelis et al. 2023), so every reconciled path is coherent and
-// equals Reconcile applied to that path.
+// Sample paths taken as given (IndependentPaths): each path is reconciled
+// with the same map as the means (Panagiotelis et al. 2023), so every
+// reconciled path is coherent and equals Reconcile applied to that path.
 func TestForecastsSamplePaths(t *testing.T) {
 	h := testHierarchy(t, 2, 3)
 	n := h.Len()
@@ -146,9 +146,9 @@ func TestForecastsSamplePaths(t *testing.T) {
 		name string
 		spec reconcile.Spec
 	}{
-		{"MinT shrink", reconcile.Spec{Residuals: resid}},
-		{"top-down forecast proportions", reconcile.Spec{Method: reconcile.MethodTopDown}},
-		{"WLS structural non-negative", reconcile.Spec{Method: reconcile.MethodWLSStructural, NonNegative: true}},
+		{"MinT shrink", reconcile.Spec{Residuals: resid, Draw: reconcile.IndependentPaths}},
+		{"top-down forecast proportions", reconcile.Spec{Method: reconcile.MethodTopDown, Draw: reconcile.IndependentPaths}},
+		{"WLS structural non-negative", reconcile.Spec{Method: reconcile.MethodWLSStructural, NonNegative: true, Draw: reconcile.IndependentPaths}},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			got, err := reconcile.Forecasts(h, fcs, tt.spec, 80)

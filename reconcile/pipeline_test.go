@@ -67,7 +67,7 @@ func TestPipelineLungDeaths(t *testing.T) {
 	}
 	for _, spec := range []reconcile.Spec{
 		{Method: reconcile.MethodMinTShrink, Residuals: resid},
-		{Method: reconcile.MethodTopDown, Disaggregation: reconcile.AverageHistoricalProportions, History: hist},
+		{Method: reconcile.MethodTopDown, Disaggregation: reconcile.AverageHistoricalProportions, History: hist, Residuals: resid},
 	} {
 		t.Run(spec.Method.String(), func(t *testing.T) {
 			rec, err := reconcile.Forecasts(h, fcs, spec, 80, 95)

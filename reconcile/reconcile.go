@@ -2,6 +2,7 @@ package reconcile
 
 import (
 	"fmt"
+	"math"
 
 	"github.com/almanac-go/almanac"
 	"gonum.org/v1/gonum/mat"
@@ -82,6 +83,24 @@ type Spec struct {
 	// over the non-negative coherent forecasts (bottom-up and the
 	// projection methods only).
 	NonNegative bool
+
+	// The fields below matter only where distributions are reconciled
+	// (Forecasts, FromFits, FromBatch); Reconcile ignores them.
+
+	// Draw is how the nodes' forecast errors are tied together; the zero
+	// value is JointBootstrap, which needs Residuals. See Draw.
+	Draw Draw
+	// Paths is the number of joint sample paths to make: by default
+	// 1000 in FromFits and FromBatch, and in Forecasts as many as the
+	// base forecast with the most paths carries. Negative is invalid.
+	// IndependentPaths in Forecasts keeps the paths given and ignores
+	// Paths.
+	Paths int
+	// Seed seeds the random streams (math/rand/v2 PCG): the same Seed and
+	// inputs give bit-identical paths. FromFits draws node i's paths with
+	// rand.NewPCG(Seed, i+1) and ties the nodes together with
+	// rand.NewPCG(Seed, 0).
+	Seed uint64
 }
 
 // plan is a resolved Spec: the map from base forecasts to reconciled
@@ -248,17 +267,43 @@ func (p *plan) gAt(t int) *mat.Dense {
 	return g
 }
 
+// rowWork is the workspace of rowTo.
+type rowWork struct {
+	y, b []float64
+}
+
+func (p *plan) newWork() *rowWork {
+	return &rowWork{y: make([]float64, p.c.n()), b: make([]float64, p.c.m)}
+}
+
+// rowTo writes the reconciled values of the base vector y (length n) at
+// step t into dst (length n). It works on y·2^(−e), e the exponent of
+// max |y|, and multiplies the result back (see scale.go), so only a
+// result beyond the float64 range fails: then bad is that node and err
+// nil, for the caller to describe.
+func (p *plan) rowTo(dst, y []float64, t int, w *rowWork) (bad int, err error) {
+	e := expOf(y)
+	scaleInto(w.y, y, e)
+	if err := p.bottomsTo(w.b, w.y, t); err != nil {
+		return -1, err
+	}
+	p.c.aggregateRow(dst, w.b)
+	return unscale(dst, e), nil
+}
+
 // apply reconciles every row of y, returning an h × n matrix.
 func (p *plan) apply(y [][]float64) (*mat.Dense, error) {
 	c := p.c
-	n := c.n()
-	out := mat.NewDense(len(y), n, nil)
-	b := make([]float64, c.m)
+	out := mat.NewDense(len(y), c.n(), nil)
+	w := p.newWork()
 	for t, row := range y {
-		if err := p.bottomsTo(b, row, t); err != nil {
+		bad, err := p.rowTo(out.RawRowView(t), row, t, w)
+		if err != nil {
 			return nil, err
 		}
-		c.aggregateRow(out.RawRowView(t), b)
+		if bad >= 0 {
+			return nil, notRepresentable("reconciled forecast", c.names[bad], t)
+		}
 	}
 	return out, nil
 }
@@ -384,8 +429,15 @@ func ReconciledCovariance(st Structure, g mat.Matrix, w mat.Symmetric) (*mat.Sym
 	if w.SymmetricDim() != n {
 		return nil, fmt.Errorf("reconcile: %w: %w: W is %d × %d, want %d × %d", ErrDimension, almanac.ErrLength, w.SymmetricDim(), w.SymmetricDim(), n, n)
 	}
-	sg := sumRows(c, g)                      // S G, n × n
-	tmp := mulSerial(sg, mat.DenseCopyOf(w)) // S G W, n × n
+	// G and W divided by powers of two 2^eg and 2^ew (scale.go), so that
+	// the products cannot overflow; the result is S G W G' S'·2^(2eg+ew).
+	gd := mat.DenseCopyOf(g)
+	wd := mat.DenseCopyOf(w)
+	eg, ew := expOf(gd.RawMatrix().Data), expOf(wd.RawMatrix().Data)
+	scaleInto(gd.RawMatrix().Data, gd.RawMatrix().Data, eg)
+	scaleInto(wd.RawMatrix().Data, wd.RawMatrix().Data, ew)
+	sg := sumRows(c, gd)     // S G, n × n
+	tmp := mulSerial(sg, wd) // S G W, n × n
 	out := mat.NewSymDense(n, nil)
 	for i := 0; i < n; i++ {
 		ti := tmp.RawRowView(i)
@@ -395,7 +447,11 @@ func ReconciledCovariance(st Structure, g mat.Matrix, w mat.Symmetric) (*mat.Sym
 			for k := range ti {
 				s += ti[k] * sj[k]
 			}
-			out.SetSym(i, j, s)
+			v := math.Ldexp(s, 2*eg+ew)
+			if math.IsInf(v, 0) || math.IsNaN(v) {
+				return nil, fmt.Errorf("reconcile: %w: the reconciled covariance of %q and %q is beyond the float64 range", almanac.ErrNonFinite, c.names[i], c.names[j])
+			}
+			out.SetSym(i, j, v)
 		}
 	}
 	return out, nil

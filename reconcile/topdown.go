@@ -106,6 +106,10 @@ func historicalProportions(c *core, src []int, history mat.Matrix, how Disaggreg
 	if err != nil {
 		return nil, err
 	}
+	// Proportions do not depend on the unit of the history: divide it by
+	// a common power of two so that sums over T rows cannot overflow
+	// (scale.go).
+	scaleRows(rows)
 	p := make([]float64, c.m)
 	T := float64(len(rows))
 	for j := range p {
@@ -144,7 +148,12 @@ func forecastProportions(c *core, level int, src []int, y [][]float64) ([][]floa
 	n := c.n()
 	coef := make([][]float64, len(y))
 	share := make([]float64, n)
-	for t, row := range y {
+	row := make([]float64, n)
+	for t, raw := range y {
+		// Shares are ratios: work on the row divided by a power of two so
+		// that sums of children near the float64 limit cannot overflow
+		// (scale.go).
+		scaleInto(row, raw, expOf(raw))
 		// share[v] = ŷ_v / Σ siblings, for every node below the level.
 		for v := 0; v < n; v++ {
 			ch := c.children[v]

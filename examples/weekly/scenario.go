@@ -75,6 +75,14 @@ type event struct {
 	Through time.Time // last day of a shift; ignored for a pulse
 }
 
+// rule returns the event as a regressor rule on the time axis.
+func (e event) rule() calendar.Event {
+	if e.Kind == pulse {
+		return calendar.Event{Name: e.Name, Shape: calendar.Pulse, From: e.From}
+	}
+	return calendar.Event{Name: e.Name, Shape: calendar.Shift, From: e.From, Through: e.Through}
+}
+
 // region is one of the operator's two regions: its holiday calendar and
 // the one-off events that happened there. Every route of a region is
 // modelled with all of the region's events; where an event did not touch
