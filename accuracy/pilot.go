@@ -33,9 +33,11 @@ import (
 //     ETS choice (smoothing.Select among models without an undamped
 //     trend), the automatic ARIMA (arima.Search) and the Theta method
 //     (RouteCombination), combined by almanac.Combination.
-//   - Weekly series (a year of 365.25/7 weeks): decomposition-based
-//     forecasts with STL at 52 weeks, Theta with a 52-week seasonal
-//     adjustment, combined (RouteWeekly).
+//   - Weekly series (a year of 365.25/7 weeks) of more than two years:
+//     the non-seasonal combination on the series adjusted by STL at 52
+//     weeks, Theta with a 52-week seasonal adjustment, and dynamic
+//     harmonic regression on the exact year (arima.HarmonicRegression),
+//     combined (RouteWeekly).
 //   - Daily, hourly and finer series (two seasonal periods: 7 and 365.25
 //     days, 24 and 168 hours): MSTL at those periods with non-seasonal
 //     models of the adjusted series, combined (RouteMultiSeasonal).
@@ -93,8 +95,8 @@ const (
 	// RouteNonSeasonal: the same combination without seasonal terms,
 	// for series too short for their period (a fallback).
 	RouteNonSeasonal
-	// RouteWeekly: decomposition at 52 weeks and Theta with weekly
-	// seasonal adjustment, combined.
+	// RouteWeekly: decomposition at 52 weeks, Theta with a 52-week
+	// seasonal adjustment and harmonic regression, combined.
 	RouteWeekly
 	// RouteMultiSeasonal: MSTL at two or more periods with non-seasonal
 	// models of the adjusted series, combined.

@@ -162,9 +162,15 @@ func combinationStage(r Route, m int, o routeOpts) stage {
 	}}
 }
 
-// weeklyStage combines the non-seasonal models of the STL-adjusted
-// series (52-week cycle) with Theta adjusted by a classical 52-week
-// decomposition.
+// weeklyStage combines three views of the yearly cycle of weekly data:
+// the non-seasonal models of the STL-adjusted series (a 52-week cycle),
+// Theta adjusted by a classical 52-week decomposition, and dynamic
+// harmonic regression (arima.HarmonicRegression: Fourier terms of the
+// exact 365.25/7-week year with ARIMA errors). Measured with the
+// evaluation program, adding the harmonic regression to the other two
+// took MASE from 1.686 to 1.680 on the invented weekly series of
+// internal/synth and from 1.246 to 0.901 on 14 windows of the weekly
+// Mauna Loa CO2 record (../shared/data/co2_weekly.csv, 13 weeks ahead).
 func weeklyStage(o routeOpts) stage {
 	return stage{route: RouteWeekly, periods: []float64{365.25 / 7}, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
 		return combineMembers(ctx, y, o,
@@ -173,6 +179,7 @@ func weeklyStage(o routeOpts) stage {
 				Model:  almanac.Combination{Members: nonSeasonal(), Seed: o.seed, Paths: o.paths},
 			},
 			smoothing.Theta{Period: weeklyPeriod},
+			arima.HarmonicRegression{},
 		)
 	}}
 }

@@ -100,7 +100,7 @@ func TestPilotWeekly(t *testing.T) {
 	y, test := inventedWeekly(4*52, 13, 1)
 	f := fitPilot(t, y)
 	rep := f.Report()
-	if rep.Route != accuracy.RouteWeekly || len(rep.Members) < 2 {
+	if rep.Route != accuracy.RouteWeekly || len(rep.Members) != 3 || !strings.Contains(rep.Members[2], "harmonics(52.18") {
 		t.Fatalf("report %+v", rep)
 	}
 	fc := checkForecast(t, f, 13)
