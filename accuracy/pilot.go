@@ -39,8 +39,10 @@ import (
 //     harmonic regression on the exact year (arima.HarmonicRegression),
 //     combined (RouteWeekly).
 //   - Daily, hourly and finer series (two seasonal periods: 7 and 365.25
-//     days, 24 and 168 hours): MSTL at those periods with non-seasonal
-//     models of the adjusted series, combined (RouteMultiSeasonal).
+//     days, 24 and 168 hours): the non-seasonal combination on the series
+//     adjusted by MSTL at the periods with more than two cycles of data;
+//     for daily data combined with Theta adjusted at 7 days and harmonic
+//     regression (RouteMultiSeasonal).
 //
 // When a route cannot be fitted (every one of its models fails, which
 // happens on very short series), the fallback chain is: the non-seasonal

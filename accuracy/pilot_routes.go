@@ -186,10 +186,15 @@ func weeklyStage(o routeOpts) stage {
 
 // multiSeasonalStage adjusts the series by MSTL at the usable periods and
 // combines non-seasonal models of the adjusted series. For daily data
-// Theta with a classical adjustment at 7 days joins (measured on the
-// invented daily series of internal/synth: the mean of the two cut the
-// error of the MSTL combination by 4%; on hourly data Theta at 24 hours,
-// blind to the weekly cycle, made it worse by 23%).
+// Theta with a classical adjustment at 7 days and dynamic harmonic
+// regression at the usable periods join. Measured with the evaluation
+// program on the invented daily series of internal/synth (MASE): MSTL
+// combination 1.022, with Theta 0.984 (91 series with complete data);
+// all three 0.915 against 0.935 for the MSTL combination with Theta (120
+// series). On the invented hourly series Theta at 24 hours, blind to the
+// weekly cycle, made the MSTL combination worse by 23%, and harmonic
+// regression by 8% at five times the cost, so hourly and finer data keep
+// the MSTL combination alone.
 func multiSeasonalStage(periods []float64, daily bool, o routeOpts) stage {
 	return stage{route: RouteMultiSeasonal, periods: slices.Clone(periods), needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
 		members := []almanac.Model{decompose.Forecaster{
@@ -197,7 +202,10 @@ func multiSeasonalStage(periods []float64, daily bool, o routeOpts) stage {
 			Model:  almanac.Combination{Members: nonSeasonal(), Seed: o.seed, Paths: o.paths},
 		}}
 		if daily {
-			members = append(members, smoothing.Theta{Period: int(math.Round(periods[0]))})
+			members = append(members,
+				smoothing.Theta{Period: int(math.Round(periods[0]))},
+				arima.HarmonicRegression{Periods: periods},
+			)
 		}
 		return combineMembers(ctx, y, o, members...)
 	}}
