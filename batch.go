@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"runtime"
+	"runtime/debug"
 	"sync"
 )
 
@@ -37,8 +38,9 @@ type BatchResult struct {
 // size.
 //
 // A failure is recorded in that series' result and never stops the
-// others; a panic inside m.Fit is recovered and recorded as an error
-// wrapping ErrNotFitted. When ctx is cancelled no further series are
+// others; a panic inside m.Fit is recovered and recorded as a *PanicError
+// (wrapping ErrNotFitted) that keeps the panic value and the stack, so it
+// can be reported. When ctx is cancelled no further series are
 // started; every series not started by then gets Err = ctx.Err(), and
 // BatchFit returns ctx.Err() alongside the results (series already being
 // fitted end as their model handles the cancelled ctx).
@@ -115,7 +117,9 @@ func BatchFit(ctx context.Context, m Model, ys []Series, opt BatchOptions) ([]Ba
 func fitOne(ctx context.Context, m Model, y Series) (f Fitted, err error) {
 	defer func() {
 		if r := recover(); r != nil {
-			f, err = nil, fmt.Errorf("almanac: batch: series %q: %w: model panicked: %v", y.Key, ErrNotFitted, r)
+			// debug.Stack here is the panicking goroutine's stack, with
+			// the frames that panicked still on it.
+			f, err = nil, &PanicError{Key: y.Key, Value: r, Stack: debug.Stack()}
 		}
 	}()
 	f, err = m.Fit(ctx, y)

@@ -5,7 +5,9 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
 	"slices"
+	"strings"
 	"sync"
 	"testing"
 
@@ -81,6 +83,15 @@ type panicModel struct{}
 
 func (panicModel) Fit(context.Context, almanac.Series) (almanac.Fitted, error) { panic("boom") }
 
+// indexPanicModel panics with a runtime error (index out of range).
+type indexPanicModel struct{}
+
+func (indexPanicModel) Fit(_ context.Context, y almanac.Series) (almanac.Fitted, error) {
+	i := -1 + y.Len()*0
+	_ = y.Values[i]
+	return nil, nil
+}
+
 type nilModel struct{}
 
 func (nilModel) Fit(context.Context, almanac.Series) (almanac.Fitted, error) { return nil, nil }
@@ -110,6 +121,27 @@ func TestBatchFitFailures(t *testing.T) {
 			if !errors.Is(r.Err, almanac.ErrNotFitted) {
 				t.Errorf("series %d: err = %v, want ErrNotFitted", i, r.Err)
 			}
+			// Issue 11: the stack is kept, so the panic can be reported.
+			var pe *almanac.PanicError
+			if !errors.As(r.Err, &pe) {
+				t.Fatalf("series %d: %T is not a *PanicError", i, r.Err)
+			}
+			if pe.Key != ys[i].Key || pe.Value != "boom" {
+				t.Errorf("series %d: key %q value %v", i, pe.Key, pe.Value)
+			}
+			if !strings.Contains(string(pe.Stack), "panicModel.Fit") {
+				t.Errorf("series %d: stack does not show the panicking method:\n%s", i, pe.Stack)
+			}
+			if want := fmt.Sprintf("almanac: batch: series %q: model could not be fitted: model panicked: boom", ys[i].Key); r.Err.Error() != want {
+				t.Errorf("message %q, want %q", r.Err, want)
+			}
+		}
+	})
+	t.Run("runtime error is reachable", func(t *testing.T) {
+		res, _ := almanac.BatchFit(ctx, indexPanicModel{}, ys[:1], almanac.BatchOptions{})
+		var re runtime.Error
+		if !errors.As(res[0].Err, &re) || !errors.Is(res[0].Err, almanac.ErrNotFitted) {
+			t.Errorf("err = %v, want a runtime.Error and ErrNotFitted", res[0].Err)
 		}
 	})
 	t.Run("nil fit without error", func(t *testing.T) {

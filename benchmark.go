@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+
+	"github.com/almanac-go/almanac/internal/scaling"
 )
 
 // The benchmark methods every forecast should beat: Naive, SeasonalNaive,
@@ -34,6 +36,15 @@ import (
 // missing) has variance jσ² and enters σ̂ divided by √j; intervals use
 // the exact number of steps from the value forecast from. Without
 // missing values all of this reduces to the formulas above.
+//
+// Numerical notes: every benchmark computes on the data multiplied by a
+// power of two that brings the largest magnitude near 2^256 and maps its
+// results back (exact for powers of two), so data near the float64 limit
+// give their representable mean, drift and standard deviation instead of
+// overflowing, and scaling the data by a power of two scales every result
+// exactly. In-sample errors or a σ̂ that do not fit in a float64 make Fit
+// fail, forecasts or bounds beyond the float64 range make Forecast fail
+// (errors wrapping ErrNonFinite); neither ever returns ±Inf or NaN.
 
 var (
 	_ Model = Naive{}
@@ -79,6 +90,10 @@ const (
 type BenchmarkFit struct {
 	kind   benchKind
 	series Series
+	// scale is the power of two the data are multiplied by for the
+	// computation; level, drift, sigma and w are in those units.
+	scale  int
+	w      []float64 // the data times 2^scale
 	period int       // seasonal period (SeasonalNaive), else 1
 	last   int       // index of the last observed value
 	first  int       // index of the first observed value
@@ -87,8 +102,8 @@ type BenchmarkFit struct {
 	seas   []int     // SeasonalNaive: index of the last observed value of each season position t mod m
 	sigma  float64   // residual standard deviation
 	nobs   int       // number of observed values
-	fitted []float64 // one-step in-sample forecasts
-	resid  []float64 // y − fitted
+	fitted []float64 // one-step in-sample forecasts, data units
+	resid  []float64 // y − fitted, data units
 }
 
 // Fit implements Model.
@@ -142,7 +157,9 @@ func fitBenchmark(ctx context.Context, y Series, kind benchKind, period int) (*B
 	}
 	n := y.Len()
 	f := &BenchmarkFit{kind: kind, series: y.Clone(), period: period, first: -1, last: -1}
-	v := f.series.Values
+	f.scale = scaling.Exponent(f.series.Values)
+	f.w = scaling.Scale(nil, f.series.Values, f.scale)
+	v := f.w
 	for i, x := range v {
 		if !math.IsNaN(x) {
 			if f.first < 0 {
@@ -240,11 +257,16 @@ func fitBenchmark(ctx context.Context, y Series, kind benchKind, period int) (*B
 		return nil, fmt.Errorf("almanac: %s: %w: %d residuals for %d parameters", kind.name(), ErrTooShort, nres, params)
 	}
 	f.sigma = math.Sqrt(sumsq / float64(nres-params))
+	scaling.Scale(f.fitted, f.fitted, -f.scale)
+	scaling.Scale(f.resid, f.resid, -f.scale)
+	if !scaling.NoInf(f.fitted) || !scaling.NoInf(f.resid) || math.IsInf(f.Sigma(), 0) {
+		return nil, &SeriesError{Key: y.Key, Index: -1, Err: fmt.Errorf("%w: %s: the in-sample errors or their standard deviation exceed the float64 range", ErrNonFinite, kind.name())}
+	}
 	return f, nil
 }
 
 // Sigma returns the residual standard deviation σ̂ behind the intervals.
-func (f *BenchmarkFit) Sigma() float64 { return f.sigma }
+func (f *BenchmarkFit) Sigma() float64 { return math.Ldexp(f.sigma, -f.scale) }
 
 // NumParams implements ParamCounter: 1 for Drift (the slope) and Mean
 // (the mean), 0 for Naive and SeasonalNaive.
@@ -278,9 +300,9 @@ func (f *BenchmarkFit) FittedValues() []float64 { return append([]float64(nil), 
 func (f *BenchmarkFit) Residuals() []float64 { return append([]float64(nil), f.resid...) }
 
 // pointAndSD returns the point forecast and its standard deviation for
-// future index t (t ≥ Len).
+// future index t (t ≥ Len), in the scaled units.
 func (f *BenchmarkFit) pointAndSD(t int) (mean, sd float64) {
-	v := f.series.Values
+	v := f.w
 	switch f.kind {
 	case kindNaive:
 		// y_t = y_L + Σ_{L<i≤t} ε_i: variance (t − L) σ².
@@ -308,7 +330,8 @@ func (f *BenchmarkFit) pointAndSD(t int) (mean, sd float64) {
 // standard deviations above.
 //
 // Special cases: h < 1 gives an error wrapping ErrHorizon; a level outside
-// (0, 100) one wrapping ErrLevel.
+// (0, 100) one wrapping ErrLevel; a forecast, standard deviation or bound
+// beyond the float64 range one wrapping ErrNonFinite.
 func (f *BenchmarkFit) Forecast(h int, levels ...float64) (Forecast, error) {
 	if err := CheckHorizon(h); err != nil {
 		return Forecast{}, err
@@ -320,7 +343,11 @@ func (f *BenchmarkFit) Forecast(h int, levels ...float64) (Forecast, error) {
 	mean := make([]float64, h)
 	sd := make([]float64, h)
 	for i := range h {
-		mean[i], sd[i] = f.pointAndSD(n + i)
+		m, s := f.pointAndSD(n + i)
+		mean[i], sd[i] = math.Ldexp(m, -f.scale), math.Ldexp(s, -f.scale)
+		if math.IsInf(sd[i], 0) {
+			return Forecast{}, fmt.Errorf("almanac: %s: %w: the forecast standard deviation at step %d exceeds the float64 range", f.kind.name(), ErrNonFinite, i+1)
+		}
 	}
 	return NewForecast(f.series.Time(n), f.series.Freq, mean, &Normal{Mean: mean, SD: sd}, levels...)
 }
@@ -330,6 +357,10 @@ func (f *BenchmarkFit) Forecast(h int, levels ...float64) (Forecast, error) {
 // src. The estimated parameters (drift, mean) are held fixed, so the
 // paths' spread matches the √h and √(k+1) terms but not the 1/T terms of
 // the closed-form intervals.
+//
+// Special cases: h < 1 gives an error wrapping ErrHorizon; n < 1 or a nil
+// src one wrapping ErrInvalid; a draw beyond the float64 range one
+// wrapping ErrNonFinite.
 func (f *BenchmarkFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
 	if err := CheckHorizon(h); err != nil {
 		return nil, err
@@ -342,7 +373,7 @@ func (f *BenchmarkFit) Simulate(h, n int, src rand.Source) ([][]float64, error) 
 	}
 	rng := rand.New(src)
 	T := f.series.Len()
-	v := f.series.Values
+	v := f.w
 	paths := make([][]float64, n)
 	for p := range paths {
 		path := make([]float64, h)
@@ -369,6 +400,10 @@ func (f *BenchmarkFit) Simulate(h, n int, src rand.Source) ([][]float64, error) 
 			for i := range path {
 				path[i] = f.level + f.sigma*rng.NormFloat64()
 			}
+		}
+		scaling.Scale(path, path, -f.scale)
+		if !scaling.Finite(path) {
+			return nil, fmt.Errorf("almanac: %s: %w: a simulated value exceeds the float64 range", f.kind.name(), ErrNonFinite)
 		}
 		paths[p] = path
 	}

@@ -3,6 +3,7 @@ package almanac_test
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -10,8 +11,10 @@ import (
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/internal/m3data"
 	"github.com/almanac-go/almanac/internal/numtest"
 	"github.com/almanac-go/almanac/internal/reftest"
+	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // airPassengers returns the AirPassengers data from the scipy Box-Cox
@@ -52,7 +55,7 @@ func TestLambdaGuerreroHandChecked(t *testing.T) {
 		lambda float64
 	}{{"sd proportional to level", 0}, {"sd proportional to sqrt level", 0.5}, {"constant sd", 1}, {"sd grows faster than level", -0.5}} {
 		t.Run(tt.name, func(t *testing.T) {
-			got, err := almanac.LambdaGuerrero(powerSeries(tt.lambda, 10), 4, 0, 0)
+			got, err := almanac.LambdaGuerrero(powerSeries(tt.lambda, 10), 4, -1, 2)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -441,4 +444,168 @@ func TestBoxCoxResponseResiduals(t *testing.T) {
 	if got[1] != 3 {
 		t.Errorf("response residual 1 = %v, want 3 (15 − 12)", got[1])
 	}
+}
+
+// TestBoxCoxM3FiniteBands (issue 11, item 3): BoxCox{Model: Drift{}} with
+// λ by Guerrero gave upper bounds of +Inf on ordinary M3 series (N847 and
+// N1782 already at 80% from step 3 to 5): Guerrero chose λ between −0.73
+// and −1 and the drift forecast on the transformed scale reached −1/λ,
+// the image of +∞. With the default interval [0, 2] and, when negative
+// powers are asked for, bands conditioned on the range of the transform
+// (power-normal), every band is finite and ordered. Data: M3 competition
+// (Makridakis & Hibon 2000), training parts, forecast horizons of the
+// competition.
+func TestBoxCoxM3FiniteBands(t *testing.T) {
+	cases := []struct {
+		file, id string
+		freq     calendar.Frequency
+	}{
+		{"m3_quarterly.csv", "N847", calendar.Quarterly},
+		{"m3_quarterly.csv", "N1300", calendar.Quarterly},
+		{"m3_quarterly.csv", "N696", calendar.Quarterly},
+		{"m3_monthly.csv", "N1782", calendar.Monthly},
+	}
+	loaded := map[string][]m3data.Series{}
+	for _, c := range cases {
+		if loaded[c.file] == nil {
+			loaded[c.file] = m3data.Load(t, c.file)
+		}
+		var s m3data.Series
+		for _, x := range loaded[c.file] {
+			if x.ID == c.id {
+				s = x
+			}
+		}
+		if s.ID == "" {
+			t.Fatalf("%s not in %s", c.id, c.file)
+		}
+		y := almanac.Series{Key: c.id, Start: time.Date(1990, 1, 1, 0, 0, 0, 0, time.UTC), Freq: c.freq, Values: s.Train}
+		for _, m := range []almanac.BoxCox{
+			{Model: almanac.Drift{}},
+			{Model: almanac.Drift{}, Lower: -1, Upper: 2},
+			{Model: almanac.Drift{}, Method: almanac.LambdaFixed, Lambda: -1},
+		} {
+			t.Run(fmt.Sprintf("%s/lower=%v/%v", c.id, m.Lower, m.Method), func(t *testing.T) {
+				f, err := m.Fit(ctx, y)
+				if err != nil {
+					t.Fatal(err)
+				}
+				lam := f.(*almanac.BoxCoxFit).Lambda()
+				if m.Lower == 0 && m.Method == almanac.LambdaByGuerrero && lam < 0 {
+					t.Errorf("default λ %v outside [0, 2]", lam)
+				}
+				fc, err := f.Forecast(len(s.Test), 80, 95)
+				if err != nil {
+					t.Fatal(err)
+				}
+				for h := range fc.Mean {
+					lo80, hi80 := fc.Intervals[0].Lower[h], fc.Intervals[0].Upper[h]
+					lo95, hi95 := fc.Intervals[1].Lower[h], fc.Intervals[1].Upper[h]
+					if !(0 <= lo95 && lo95 <= lo80 && lo80 <= fc.Mean[h] && fc.Mean[h] <= hi80 && hi80 <= hi95 && !math.IsInf(hi95, 0)) {
+						t.Fatalf("λ %.4g step %d: 95%% [%v, %v], 80%% [%v, %v], median %v", lam, h+1, lo95, hi95, lo80, hi80, fc.Mean[h])
+					}
+				}
+			})
+		}
+	}
+}
+
+// TestBoxCoxPowerNormal checks the back-transformed distribution for
+// λ < 0 against its definition: the inner normal N(μ, σ²) conditioned on
+// z < −1/λ (Freeman & Modarres 2006, the power-normal distribution;
+// recalled from memory), so P(Y ≤ q_p) = Φ((t(q_p) − μ)/σ) / Φ(b) = p with
+// t the transform and b = (−1/λ − μ)/σ. The inner model is Mean on
+// invented data transformed with λ = −1, whose forecast is N(μ, σ²)
+// with σ large against the distance to −1/λ = 1.
+func TestBoxCoxPowerNormal(t *testing.T) {
+	y := monthly("pn", 2, 9, 3, 40, 5, 1.5, 80, 2.5, 6, 200, 3, 12)
+	lam := -1.0
+	f, err := almanac.BoxCox{Model: almanac.Mean{}, Method: almanac.LambdaFixed, Lambda: lam}.Fit(ctx, y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	in, err := f.(*almanac.BoxCoxFit).Inner().Forecast(1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	mu, sd := in.Mean[0], in.Dist.(*almanac.Normal).SD[0]
+	phiB := distuv.UnitNormal.CDF((-1/lam - mu) / sd)
+	if phiB > 0.99 {
+		t.Fatalf("test data too tame: Φ(b) = %v", phiB)
+	}
+	fc, err := f.Forecast(1, 50, 80, 95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range []float64{0.025, 0.1, 0.25, 0.5, 0.75, 0.9, 0.975} {
+		q, err := fc.Quantile(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		z, err := almanac.BoxCoxTransform(nil, q, lam)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := distuv.UnitNormal.CDF((z[0]-mu)/sd) / phiB
+		numtest.Scalar(t, fmt.Sprintf("P(Y ≤ q_%v)", p), got, p, 1e-9, 0)
+	}
+	numtest.Scalar(t, "median", fc.Mean[0], mustQuantile(t, fc, 0.5)[0], 0, 1e-15)
+	// Simulated paths beyond −1/λ are drawn again: every value finite and
+	// positive, and the same source gives the same paths.
+	sim := f.(almanac.Simulator)
+	a, err := sim.Simulate(3, 200, rand.NewPCG(5, 6))
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, _ := sim.Simulate(3, 200, rand.NewPCG(5, 6))
+	for i := range a {
+		for h, v := range a[i] {
+			if !(v > 0) || math.IsInf(v, 0) || v != b[i][h] {
+				t.Fatalf("path %d step %d: %v (again %v)", i, h, v, b[i][h])
+			}
+		}
+	}
+}
+
+func mustQuantile(t *testing.T, fc almanac.Forecast, p float64) []float64 {
+	t.Helper()
+	q, err := fc.Quantile(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return q
+}
+
+// TestBoxCoxOverflow: a transform beyond the float64 range is an error,
+// not an Inf handed to the inner model.
+func TestBoxCoxOverflow(t *testing.T) {
+	_, err := almanac.BoxCox{Model: almanac.Naive{}, Method: almanac.LambdaFixed, Lambda: 2}.Fit(ctx, monthly("big", 1e200, 2e200, 3e200))
+	if !errors.Is(err, almanac.ErrNonFinite) {
+		t.Fatalf("err = %v, want ErrNonFinite", err)
+	}
+	if _, err := almanac.BoxCoxTransform(nil, []float64{1e-300}, -2); !errors.Is(err, almanac.ErrNonFinite) {
+		t.Fatalf("transform of 1e-300 with λ = −2: err = %v, want ErrNonFinite", err)
+	}
+	// λ by maximum likelihood on data near the float64 limit: the
+	// likelihood is scale-free, so the same λ as for the data / 1e300.
+	v := []float64{3, 5, 4, 8, 6, 9, 7, 12, 10, 15}
+	big := make([]float64, len(v))
+	for i, x := range v {
+		big[i] = x * 1e300
+	}
+	l1, err := almanac.LambdaML(v, 0, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	l2, err := almanac.LambdaML(big, 0, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	numtest.Scalar(t, "lambda of scaled data", l2, l1, 1e-6, 0)
+	g1, _ := almanac.LambdaGuerrero(v, 2, 0, 0)
+	g2, err := almanac.LambdaGuerrero(big, 2, 0, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	numtest.Scalar(t, "Guerrero lambda of scaled data", g2, g1, 1e-6, 0)
 }

@@ -2,11 +2,14 @@ package almanac_test
 
 import (
 	"bytes"
+	"encoding/csv"
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
 	"time"
+	"unicode/utf8"
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/calendar"
@@ -126,7 +129,19 @@ func TestReadCSVErrors(t *testing.T) {
 		{"infinite value", h + "a,2024-01-01,Inf\n", almanac.CSVOptions{}, almanac.ErrNonFinite, 2},
 		{"bad time", h + "a,2024-01-01,1\na,01/02/2024,1\n", almanac.CSVOptions{}, almanac.ErrCSVTime, 3},
 		{"duplicate", h + "a,2024-01-01,1\na,2024-02-01,2\na,2024-02-01,3\n", almanac.CSVOptions{}, almanac.ErrCSVDuplicate, 4},
-		{"out of order", h + "a,2024-02-01,1\na,2024-03-01,2\na,2024-01-01,3\n", almanac.CSVOptions{}, almanac.ErrCSVOrder, 4},
+		{"out of order when order is required", h + "a,2024-02-01,1\na,2024-03-01,2\na,2024-01-01,3\n", almanac.CSVOptions{RequireOrder: true}, almanac.ErrCSVOrder, 4},
+		{"duplicate out of order", h + "a,2024-03-01,1\na,2024-01-01,2\na,2024-02-01,3\na,2024-01-01,4\n", almanac.CSVOptions{}, almanac.ErrCSVDuplicate, 5},
+		// Issue 11: 1e309 was reported as "not a number".
+		{"value beyond the float64 range", h + "a,2024-01-01,1e309\n", almanac.CSVOptions{}, almanac.ErrNonFinite, 2},
+		{"negative value beyond the range", h + "a,2024-01-01,1\na,2024-02-01,-2.5e400\n", almanac.CSVOptions{}, almanac.ErrNonFinite, 3},
+		{"infinity spelled out", h + "a,2024-01-01,-Infinity\n", almanac.CSVOptions{}, almanac.ErrNonFinite, 2},
+		// Issue 11: number forms only Go's strconv reads.
+		{"digit separators", h + "a,2024-01-01,1_000\n", almanac.CSVOptions{}, almanac.ErrCSVValue, 2},
+		{"hexadecimal float", h + "a,2024-01-01,0x1p3\n", almanac.CSVOptions{}, almanac.ErrCSVValue, 2},
+		{"hexadecimal integer", h + "a,2024-01-01,0x10\n", almanac.CSVOptions{}, almanac.ErrCSVValue, 2},
+		{"exponent without digits", h + "a,2024-01-01,1e\n", almanac.CSVOptions{}, almanac.ErrCSVValue, 2},
+		{"lone point", h + "a,2024-01-01,.\n", almanac.CSVOptions{}, almanac.ErrCSVValue, 2},
+		{"two points", h + "a,2024-01-01,1.2.3\n", almanac.CSVOptions{}, almanac.ErrCSVValue, 2},
 		{"gap", h + "a,2024-01-01,1\na,2024-02-01,2\na,2024-04-01,3\n", almanac.CSVOptions{}, almanac.ErrCSVGap, 4},
 		{"first bad line wins", h + "b,2024-01-01,1\na,2024-01-01,1\na,2024-02-01,2\na,2024-02-01,2\nb,2024-02-01,1\nb,2024-01-01,1\n", almanac.CSVOptions{}, almanac.ErrCSVDuplicate, 5},
 		{"off the grid", h + "a,2024-01-01,1\na,2024-04-01,2\na,2024-05-15,3\n", almanac.CSVOptions{Freq: calendar.Quarterly}, almanac.ErrCSVIrregular, 4},
@@ -161,6 +176,156 @@ func TestReadCSVErrors(t *testing.T) {
 	}
 }
 
+// TestReadCSVNumberForms: the decimal forms other CSV readers accept are
+// read; surrounding spaces are ignored.
+func TestReadCSVNumberForms(t *testing.T) {
+	for _, tt := range []struct {
+		cell string
+		want float64
+	}{
+		{"12", 12}, {"-3.5", -3.5}, {".5", 0.5}, {"5.", 5}, {"+3", 3}, {"2e-3", 0.002}, {"1.5E+6", 1.5e6},
+		{" 7 ", 7}, {"1e-400", 0}, {"1.7976931348623157e308", math.MaxFloat64}, {"-0", 0},
+	} {
+		t.Run(tt.cell, func(t *testing.T) {
+			ys, err := almanac.ReadCSV(strings.NewReader("series,period,value\na,2024,"+tt.cell+"\na,2025,1\n"), almanac.CSVOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if ys[0].Values[0] != tt.want {
+				t.Errorf("read %v, want %v", ys[0].Values[0], tt.want)
+			}
+		})
+	}
+}
+
+// TestReadCSVUnordered (issue 11): rows of a series in any order are
+// sorted by time; interleaved series keep the order of their first keys.
+func TestReadCSVUnordered(t *testing.T) {
+	in := "series,period,value\nb,2024-03,30\na,2024-02,2\nb,2024-01,10\na,2024-01,1\nb,2024-02,20\na,2024-04,4\n"
+	ys, err := almanac.ReadCSV(strings.NewReader(in), almanac.CSVOptions{FillGaps: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(ys) != 2 || ys[0].Key != "b" || ys[1].Key != "a" {
+		t.Fatalf("series %v", ys)
+	}
+	numtest.Slice(t, "b", ys[0].Values, []float64{10, 20, 30}, 0, 0)
+	numtest.Slice(t, "a", ys[1].Values, []float64{1, 2, math.NaN(), 4}, 0, 0)
+	if !ys[0].Start.Equal(utc(2024, 1, 1)) || !ys[1].Start.Equal(utc(2024, 1, 1)) {
+		t.Errorf("starts %v, %v", ys[0].Start, ys[1].Start)
+	}
+	if _, err := almanac.ReadCSV(strings.NewReader(in), almanac.CSVOptions{RequireOrder: true}); !errors.Is(err, almanac.ErrCSVOrder) {
+		t.Errorf("RequireOrder: err = %v, want ErrCSVOrder", err)
+	}
+}
+
+// TestReadCSVLongCellQuoted (issue 11): a 10 MB bad cell used to be copied
+// into the error message whole; now a short prefix and the length are.
+func TestReadCSVLongCellQuoted(t *testing.T) {
+	// The issue's reproducer: a 10 MB value cell. The other columns use
+	// 64 KB cells (the size does not matter beyond the 40 bytes quoted).
+	big, mid := strings.Repeat("x", 10<<20), strings.Repeat("x", 64<<10)
+	for _, tt := range []struct {
+		name, in string
+		want     error
+	}{
+		{"value", "series,period,value\na,2024-01-01," + big + "\n", almanac.ErrCSVValue},
+		{"time", "series,period,value\na," + mid + ",1\n", almanac.ErrCSVTime},
+		{"key", "series,period,value\n" + mid + ",2024-01-01,1\n" + mid + ",2024-01-01,2\n", almanac.ErrCSVDuplicate},
+		{"multi-byte value", "series,period,value\na,2024-01-01," + strings.Repeat("é", 32<<10) + "\n", almanac.ErrCSVValue},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			_, err := almanac.ReadCSV(strings.NewReader(tt.in), almanac.CSVOptions{Freq: calendar.Monthly})
+			if !errors.Is(err, tt.want) {
+				t.Fatalf("err = %.200v, want %v", err, tt.want)
+			}
+			msg := err.Error()
+			if len(msg) > 400 {
+				t.Errorf("message of %d bytes: %.200s…", len(msg), msg)
+			}
+			if !utf8.ValidString(msg) {
+				t.Errorf("message is not valid UTF-8: %q", msg)
+			}
+			if !strings.Contains(msg, "bytes)") {
+				t.Errorf("message %q does not give the cell's length", msg)
+			}
+		})
+	}
+}
+
+// TestCSVRoundTripEveryFrequency (issue 11): read → write → read gives the
+// same series for every frequency, and times are written in the form
+// the frequency reads back ("2026-01" for monthly data read as
+// "2026-01", not "2026-01-01").
+func TestCSVRoundTripEveryFrequency(t *testing.T) {
+	tests := []struct {
+		name  string
+		times []string
+		freq  calendar.Frequency
+	}{
+		{"yearly", []string{"2024", "2025", "2026"}, calendar.Yearly},
+		{"yearly from July", []string{"2024-07", "2025-07", "2026-07"}, calendar.Yearly},
+		{"every two years", []string{"2020", "2022", "2024"}, calendar.Every(2, calendar.Year)},
+		{"quarterly", []string{"2025-10", "2026-01", "2026-04"}, calendar.Quarterly},
+		{"monthly", []string{"2025-11", "2025-12", "2026-01"}, calendar.Monthly},
+		{"month ends", []string{"2023-01-31", "2023-02-28", "2023-03-31"}, calendar.Monthly},
+		{"every two months", []string{"2026-01", "2026-03", "2026-05"}, calendar.Every(2, calendar.Month)},
+		{"weekly", []string{"2024-12-30", "2025-01-06", "2025-01-13"}, calendar.Weekly},
+		{"daily", []string{"2024-02-28", "2024-02-29", "2024-03-01"}, calendar.Daily},
+		{"hourly", []string{"2024-01-01 22:00", "2024-01-01 23:00", "2024-01-02 00:00"}, calendar.Hourly},
+		{"every 15 minutes", []string{"2024-01-01T10:00:00Z", "2024-01-01T10:15:00Z", "2024-01-01T10:30:00Z"}, calendar.Every(15, calendar.Minute)},
+		{"every minute", []string{"2024-01-01T10:00:00Z", "2024-01-01T10:01:00Z", "2024-01-01T10:02:00Z"}, calendar.Every(1, calendar.Minute)},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			var in strings.Builder
+			in.WriteString("series,period,value\n")
+			for i, tm := range tt.times {
+				v := []string{"1.5", "NA", "-2e-300"}[i]
+				in.WriteString("k," + tm + "," + v + "\n")
+			}
+			first, err := almanac.ReadCSV(strings.NewReader(in.String()), almanac.CSVOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !first[0].Freq.Equal(tt.freq) {
+				t.Fatalf("frequency %v, want %v", first[0].Freq, tt.freq)
+			}
+			var buf bytes.Buffer
+			if err := almanac.WriteSeriesCSV(&buf, first, almanac.CSVOptions{}); err != nil {
+				t.Fatal(err)
+			}
+			lines := strings.Split(strings.TrimSpace(buf.String()), "\n")
+			if want := "k," + tt.times[0] + ",1.5"; !strings.Contains(tt.name, "hourly") && !strings.Contains(tt.name, "minute") && lines[1] != want {
+				t.Errorf("first row %q, want %q", lines[1], want)
+			}
+			if want := "k," + almanac.MissingValueText; !strings.HasPrefix(lines[2], "k,") || !strings.HasSuffix(lines[2], ","+almanac.MissingValueText) {
+				t.Errorf("missing value written as %q, want the %q spelling", lines[2], want)
+			}
+			again, err := almanac.ReadCSV(&buf, almanac.CSVOptions{})
+			if err != nil {
+				t.Fatalf("re-reading %q: %v", buf.String(), err)
+			}
+			if len(again) != 1 || again[0].Key != "k" || !again[0].Start.Equal(first[0].Start) || !again[0].Freq.Equal(first[0].Freq) {
+				t.Fatalf("re-read %+v, want %+v", again, first)
+			}
+			if !bitsEqualNaN(again[0].Values, first[0].Values) {
+				t.Fatalf("values %v re-read as %v", first[0].Values, again[0].Values)
+			}
+		})
+	}
+}
+
+// TestWriteSeriesCSVRefusesEmpty: a series without observations would
+// have no row, and so be missing from the file without a trace.
+func TestWriteSeriesCSVRefusesEmpty(t *testing.T) {
+	var buf bytes.Buffer
+	err := almanac.WriteSeriesCSV(&buf, []almanac.Series{monthly("a", 1), monthly("empty")}, almanac.CSVOptions{})
+	if !errors.Is(err, almanac.ErrEmpty) || buf.Len() != 0 {
+		t.Errorf("err = %v, wrote %q", err, buf.String())
+	}
+}
+
 func TestCSVRoundTrip(t *testing.T) {
 	nan := math.NaN()
 	ys := []almanac.Series{
@@ -186,6 +351,9 @@ func TestCSVRoundTrip(t *testing.T) {
 	}
 }
 
+// TestWriteForecastCSV (issue 11, item 4): every series of the batch is
+// in the file, a failed one as a row with status "failed" and its
+// reason, so a nightly job can tell 16 missing series from none.
 func TestWriteForecastCSV(t *testing.T) {
 	y := almanac.Series{Key: "A", Start: utc(2024, 1, 1), Freq: calendar.Monthly, Values: []float64{1, 2, 4}}
 	f, err := almanac.Naive{}.Fit(ctx, y)
@@ -196,24 +364,54 @@ func TestWriteForecastCSV(t *testing.T) {
 	fb, _ := f.Forecast(1)
 	var buf bytes.Buffer
 	err = almanac.WriteForecastCSV(&buf, []almanac.BatchForecast{
-		{Key: "A", Forecast: fa}, {Key: "B", Forecast: fb}, {Key: "C", Err: almanac.ErrTooShort},
+		{Key: "A", Forecast: fa}, {Key: "B", Forecast: fb},
+		{Key: "C", Err: fmt.Errorf("almanac: series \"C\": %w, see below", almanac.ErrTooShort)},
+		{Key: "D"}, // no error, but no forecast either
 	}, almanac.CSVOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
 	lines := strings.Split(strings.TrimSpace(buf.String()), "\n")
-	want0 := "series,period,step,point,band80_low,band80_high,band95_low,band95_high"
-	if lines[0] != want0 {
-		t.Errorf("header %q, want %q", lines[0], want0)
+	want := []string{
+		"series,period,step,point,band80_low,band80_high,band95_low,band95_high,status,reason",
+		"A,2024-04,1,4,", "A,2024-05,2,4,",
+		"B,2024-04,1,4,NaN,NaN,NaN,NaN,ok,",
+		`C,,,NaN,NaN,NaN,NaN,NaN,failed,"almanac: series ""C"": series too short, see below"`,
+		"D,,,NaN,NaN,NaN,NaN,NaN,failed,no forecast steps",
 	}
-	if len(lines) != 4 {
-		t.Fatalf("%d lines, want header + 3 rows:\n%s", len(lines), buf.String())
+	if len(lines) != len(want) {
+		t.Fatalf("%d lines, want %d:\n%s", len(lines), len(want), buf.String())
 	}
-	if !strings.HasPrefix(lines[1], "A,2024-04-01,1,4,") || !strings.HasPrefix(lines[2], "A,2024-05-01,2,4,") {
-		t.Errorf("rows %q", lines[1:3])
+	for i, w := range want {
+		if !strings.HasPrefix(lines[i], w) {
+			t.Errorf("line %d = %q, want %q…", i, lines[i], w)
+		}
 	}
-	if lines[3] != "B,2024-04-01,1,4,NA,NA,NA,NA" {
-		t.Errorf("row without intervals %q", lines[3])
+	for _, i := range []int{1, 2} {
+		if !strings.HasSuffix(lines[i], ",ok,") {
+			t.Errorf("line %d = %q, want status ok and no reason", i, lines[i])
+		}
+	}
+	// The file reads back with encoding/csv: one record per line, every
+	// key of the batch present.
+	recs, err := csv.NewReader(&buf).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	keys := map[string]string{}
+	for _, r := range recs[1:] {
+		keys[r[0]] = r[len(r)-2]
+	}
+	if len(keys) != 4 || keys["C"] != almanac.ForecastFailed || keys["A"] != almanac.ForecastOK {
+		t.Errorf("keys and statuses %v", keys)
+	}
+	// All series failed: still one row each.
+	buf.Reset()
+	if err := almanac.WriteForecastCSV(&buf, []almanac.BatchForecast{{Key: "x", Err: almanac.ErrEmpty}}, almanac.CSVOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	if got := strings.TrimSpace(buf.String()); got != "series,period,step,point,status,reason\nx,,,NaN,failed,empty series" {
+		t.Errorf("all failed: %q", got)
 	}
 }
 
@@ -240,6 +438,9 @@ func TestWriteCSVErrors(t *testing.T) {
 		}, almanac.ErrFrequency},
 		{"forecast same column names", func(w *bytes.Buffer) error {
 			return almanac.WriteForecastCSV(w, nil, almanac.CSVOptions{KeyColumn: "x", TimeColumn: "x"})
+		}, almanac.ErrInvalid},
+		{"forecast key column named like the status column", func(w *bytes.Buffer) error {
+			return almanac.WriteForecastCSV(w, nil, almanac.CSVOptions{KeyColumn: almanac.ForecastStatusColumn})
 		}, almanac.ErrInvalid},
 	}
 	for _, tt := range tests {

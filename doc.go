@@ -53,18 +53,27 @@
 // BoxCoxTransform and BoxCoxInverse apply the transform of Box & Cox
 // (1964); BoxCoxLLF is the profile log-likelihood as scipy defines it;
 // LambdaML maximises it and LambdaGuerrero chooses λ by Guerrero's (1993)
-// coefficient-of-variation criterion. The BoxCox model wrapper fits any
-// Model on the transformed scale and transforms forecasts back (median,
-// or mean with BiasAdjust).
+// coefficient-of-variation criterion, both searching [0, 2] by default
+// (negative powers only when asked for: their back-transform has no value
+// beyond −1/λ). The BoxCox model wrapper fits any Model on the
+// transformed scale and transforms forecasts back (median, or mean with
+// BiasAdjust); for λ < 0 the bands are those of the forecast distribution
+// conditioned on the range of the transform (the power-normal
+// distribution), so they stay finite.
 //
 // # Batches and CSV
 //
-// BatchFit fits one Model to many series on a bounded pool of goroutines;
-// ForecastAll forecasts the results. ReadCSV reads series in long format
-// (one row per series and time, columns "series", "period" and "value"
-// unless configured), WriteSeriesCSV writes them back and WriteForecastCSV
-// writes forecasts with columns "point" and "band80_low"/"band80_high"
-// per level.
+// BatchFit fits one Model to many series on a bounded pool of goroutines
+// and returns one result per series (a panicking model gives a
+// *PanicError with its stack); ForecastAll forecasts the results. ReadCSV
+// reads series in long format (one row per series and time, columns
+// "series", "period" and "value" unless configured, rows in any order),
+// WriteSeriesCSV writes them back in the form ReadCSV reads ("2026-01" for
+// monthly data), and WriteForecastCSV writes forecasts with columns
+// "point", "band80_low"/"band80_high" per level, "status" and "reason":
+// every series of the batch has rows, a failed one a single row with
+// status "failed" and its error as the reason. Missing values are written
+// as NaN (MissingValueText) by every writer.
 //
 // # Missing values
 //
@@ -75,7 +84,7 @@
 // SeasonalNaive from the last observed value of each season, Mean
 // averages the observed values); the Box-Cox functions pass NaN through
 // and ignore it when choosing λ; ReadCSV reads empty cells and NA, N/A,
-// NaN and null as NaN.
+// NaN and null as NaN, and the writers write NaN.
 //
 // # Levels
 //
@@ -90,13 +99,28 @@
 // ErrConstant, ErrNonPositive, ErrLength, ErrFrequency, ErrLevel,
 // ErrHorizon, ErrNoDistribution, ErrInvalid, ErrNotFitted, and ErrCSV…
 // for CSV input), testable with errors.Is; *SeriesError and *CSVError
-// say where. Nothing reachable from input data panics.
+// say where. Nothing reachable from input data panics, and no result is
+// NaN or ±Inf with a nil error: a forecast, bound or quantile that does
+// not fit in a float64 is an error wrapping ErrNonFinite (NewForecast
+// checks every forecast it assembles).
 //
 // # Numerical notes
 //
+// The benchmarks compute on the data multiplied by a power of two that
+// brings the largest magnitude near 2^256 and map their results back.
+// The multiplication is exact, so results are bit for bit those of the
+// plain computation on ordinary data, scaling the data by a power of two
+// scales every forecast exactly, and data near the float64 limit give
+// their representable mean, drift and σ̂ (the mean of three values of
+// 9e307 is 9e307, not +Inf). Normal quantiles and sample quantiles avoid
+// intermediate overflow the same way. Guerrero's criterion and the
+// Box-Cox likelihood's maximiser do not depend on a common scale of the
+// data and are computed on rescaled data (centred logs for the
+// likelihood).
+//
 // The Box-Cox transform is computed as expm1(λ log y)/λ, exact near
 // λ = 0. λ is searched by Brent's bounded minimisation (tolerance 1e-10
-// plus a relative √ε) in [-1, 2] unless bounds are given; the likelihood
+// plus a relative √ε) in [0, 2] unless bounds are given; the likelihood
 // and Guerrero's criterion do not allocate per evaluation. The transform,
 // the log-likelihood and the maximum-likelihood λ are checked against
 // scipy (testdata/reference), and the Naive and SeasonalNaive forecasts,

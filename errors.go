@@ -117,3 +117,30 @@ func (e *CSVError) Error() string {
 
 // Unwrap returns the wrapped error, for errors.Is and errors.As.
 func (e *CSVError) Unwrap() error { return e.Err }
+
+// PanicError is a panic recovered from a model inside BatchFit: the
+// series, the value passed to panic and the stack of the panicking
+// goroutine at that moment, so that the failure can be reported to the
+// model's authors. It unwraps to ErrNotFitted, and to the panic value
+// too when that is an error (a runtime.Error for an index out of range,
+// for example).
+type PanicError struct {
+	Key   string // key of the series being fitted
+	Value any    // the value passed to panic
+	Stack []byte // runtime/debug.Stack() of the panicking goroutine
+}
+
+// Error returns "almanac: batch: series KEY: model could not be fitted:
+// model panicked: VALUE". The stack is in the Stack field, not in the
+// message.
+func (e *PanicError) Error() string {
+	return fmt.Sprintf("almanac: batch: series %q: %v: model panicked: %v", e.Key, ErrNotFitted, e.Value)
+}
+
+// Unwrap returns ErrNotFitted, and the panic value when it is an error.
+func (e *PanicError) Unwrap() []error {
+	if err, ok := e.Value.(error); ok {
+		return []error{ErrNotFitted, err}
+	}
+	return []error{ErrNotFitted}
+}

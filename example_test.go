@@ -184,13 +184,16 @@ func ExampleBatchFit() {
 }
 
 func ExampleReadCSV() {
+	// Rows may come in any order; "rakes" has a single observation, too
+	// few for the naive method, and is reported in the forecast file.
 	in := `series,period,value
-cans,2024-01-01,47
-gloves,2024-01-01,22
-cans,2024-02-01,50
-gloves,2024-02-01,NA
-cans,2024-03-01,68
-gloves,2024-03-01,27
+cans,2024-02,50
+gloves,2024-01,22
+cans,2024-01,47
+rakes,2024-03,5
+gloves,2024-02,NA
+cans,2024-03,68
+gloves,2024-03,27
 `
 	ys, err := almanac.ReadCSV(strings.NewReader(in), almanac.CSVOptions{})
 	if err != nil {
@@ -210,11 +213,13 @@ gloves,2024-03-01,27
 	// Output:
 	// cans monthly [47 50 68]
 	// gloves monthly [22 NaN 27]
-	// series,period,step,point,band80_low,band80_high
-	// cans,2024-04-01,1,68,51.4635,84.5365
-	// cans,2024-05-01,2,68,44.6139,91.3861
-	// gloves,2024-04-01,1,27,22.469,31.531
-	// gloves,2024-05-01,2,27,20.5922,33.4078
+	// rakes monthly [5]
+	// series,period,step,point,band80_low,band80_high,status,reason
+	// cans,2024-04,1,68,51.4635,84.5365,ok,
+	// cans,2024-05,2,68,44.6139,91.3861,ok,
+	// gloves,2024-04,1,27,22.469,31.531,ok,
+	// gloves,2024-05,2,27,20.5922,33.4078,ok,
+	// rakes,,,NaN,NaN,NaN,failed,"almanac: naive: series too short: 1 observed values, need at least 2"
 	// almanac: csv line 3, column "period": duplicate time: series "cans": 2024-01-01 00:00:00 +0000 UTC already given on line 2
 }
 
@@ -264,7 +269,7 @@ func ExampleNaive() {
 }
 
 func ExampleLambdaGuerrero() {
-	lam, err := almanac.LambdaGuerrero(cans, 12, 0, 0) // default search interval [-1, 2]
+	lam, err := almanac.LambdaGuerrero(cans, 12, 0, 0) // default search interval [0, 2]
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -288,18 +293,23 @@ func ExampleLambdaGuerrero() {
 }
 
 func ExampleLambdaML() {
-	lam, err := almanac.LambdaML(cans, 0, 0) // default search interval [-1, 2]
+	// Negative powers are searched only when asked for: the default
+	// interval [0, 2] stops at the log transform.
+	lam, err := almanac.LambdaML(cans, -1, 2)
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
+	def, _ := almanac.LambdaML(cans, 0, 0)
 	llf, _ := almanac.BoxCoxLLF(cans, lam)
 	llfLog, _ := almanac.BoxCoxLLF(cans, 0)
 	fmt.Printf("lambda %.3f, log-likelihood %.3f (%.3f for the log transform)\n", lam, llf, llfLog)
+	fmt.Printf("in the default interval: lambda %.3f\n", def)
 	_, err = almanac.LambdaML([]float64{5, 5, 5}, 0, 0)
 	fmt.Println(err)
 	// Output:
 	// lambda -0.053, log-likelihood -78.166 (-78.169 for the log transform)
+	// in the default interval: lambda 0.000
 	// almanac: box-cox: constant series: no lambda can be estimated
 }
 
@@ -310,7 +320,7 @@ func ExampleWriteSeriesCSV() {
 	}
 	// Output:
 	// series,period,units
-	// cans,2024-10-01,62
-	// cans,2024-11-01,NA
-	// cans,2024-12-01,51.5
+	// cans,2024-10,62
+	// cans,2024-11,NaN
+	// cans,2024-12,51.5
 }

@@ -51,7 +51,9 @@ func (f Forecast) Time(h int) time.Time { return f.Freq.Add(f.Start, h) }
 // Special cases: p outside (0, 1) or NaN gives an error wrapping
 // ErrLevel; a forecast without a distribution gives one wrapping
 // ErrNoDistribution; a distribution shorter than Mean or incomplete gives
-// the errors of NewForecast (ErrLength, ErrInvalid).
+// the errors of NewForecast (ErrLength, ErrInvalid); a quantile that is
+// NaN or ±Inf (beyond the float64 range far in a tail) one wrapping
+// ErrNonFinite.
 func (f Forecast) Quantile(p float64) ([]float64, error) {
 	if !(p > 0 && p < 1) {
 		return nil, fmt.Errorf("almanac: %w: probability %v outside (0, 1)", ErrLevel, p)
@@ -65,6 +67,9 @@ func (f Forecast) Quantile(p float64) ([]float64, error) {
 	out := make([]float64, len(f.Mean))
 	for h := range out {
 		out[h] = f.Dist.Quantile(h, p)
+	}
+	if err := checkFiniteValues(fmt.Sprintf("the %v quantile", p), out); err != nil {
+		return nil, err
 	}
 	return out, nil
 }
@@ -136,9 +141,16 @@ func CheckHorizon(h int) error {
 // Normal, Sample or Mapped dist that covers fewer steps than mean (a
 // shorter Mean or SD, a shorter path) one wrapping ErrLength, and a nil
 // *Normal or *Sample, a negative standard deviation, a Sample without
-// paths, or a Mapped without Base or Map, one wrapping ErrInvalid.
+// paths, or a Mapped without Base or Map, one wrapping ErrInvalid; a
+// point forecast or an interval bound that is NaN or ±Inf (a bound beyond
+// the float64 range, a step without any finite sample draw) one wrapping
+// ErrNonFinite, so that no model can hand out a non-finite forecast
+// without an error.
 func NewForecast(start time.Time, freq calendar.Frequency, mean []float64, dist Distribution, levels ...float64) (Forecast, error) {
 	if err := CheckLevels(levels...); err != nil {
+		return Forecast{}, err
+	}
+	if err := checkFiniteValues("point forecast", mean); err != nil {
 		return Forecast{}, err
 	}
 	if dist == nil && len(levels) > 0 {
@@ -179,7 +191,29 @@ func NewForecast(start time.Time, freq calendar.Frequency, mean []float64, dist 
 			f.Intervals[i].Lower[h], f.Intervals[i].Upper[h] = q[2*i], q[2*i+1]
 		}
 	}
+	for _, iv := range f.Intervals {
+		if err := checkFiniteValues(fmt.Sprintf("lower bound of the %v%% interval", iv.Level), iv.Lower); err != nil {
+			return Forecast{}, err
+		}
+		if err := checkFiniteValues(fmt.Sprintf("upper bound of the %v%% interval", iv.Level), iv.Upper); err != nil {
+			return Forecast{}, err
+		}
+	}
 	return f, nil
+}
+
+// checkFiniteValues returns an error wrapping ErrNonFinite naming what
+// and the first step (1-based) of x that is NaN or ±Inf.
+func checkFiniteValues(what string, x []float64) error {
+	for h, v := range x {
+		switch {
+		case math.IsNaN(v):
+			return fmt.Errorf("almanac: %w: %s at step %d is undefined (NaN)", ErrNonFinite, what, h+1)
+		case math.IsInf(v, 0):
+			return fmt.Errorf("almanac: %w: %s at step %d is %v, beyond the float64 range", ErrNonFinite, what, h+1, v)
+		}
+	}
+	return nil
 }
 
 // checkDistribution returns an error when dist, one of this package's
@@ -233,12 +267,21 @@ type Normal struct {
 	Mean, SD []float64
 }
 
-// Quantile returns Mean[h] + SD[h]·Φ⁻¹(p).
+// Quantile returns Mean[h] + SD[h]·Φ⁻¹(p). When SD[h]·Φ⁻¹(p) overflows
+// although the sum does not (a mean near −1e308 and a standard deviation
+// near 1e308), the sum is formed at 1/1024 of the scale and scaled back
+// (exact for powers of two), so a representable quantile comes out.
 func (d *Normal) Quantile(h int, p float64) float64 {
-	if d.SD[h] == 0 {
-		return d.Mean[h]
+	m, sd := d.Mean[h], d.SD[h]
+	if sd == 0 {
+		return m
 	}
-	return d.Mean[h] + d.SD[h]*distuv.UnitNormal.Quantile(p)
+	z := distuv.UnitNormal.Quantile(p)
+	q := m + sd*z
+	if math.IsInf(q, 0) && !math.IsInf(m, 0) && !math.IsInf(sd, 0) {
+		q = math.Ldexp(math.Ldexp(m, -10)+math.Ldexp(sd, -10)*z, 10)
+	}
+	return q
 }
 
 // Sample is an empirical forecast distribution from simulated sample
@@ -277,7 +320,13 @@ func quantileSorted(xs []float64, p float64) float64 {
 		return xs[len(xs)-1]
 	}
 	frac := pos - float64(i)
-	return xs[i] + frac*(xs[i+1]-xs[i])
+	d := xs[i+1] - xs[i]
+	if math.IsInf(d, 0) {
+		// Draws of opposite sign near the float64 limit: interpolate
+		// without forming their difference.
+		return xs[i]*(1-frac) + xs[i+1]*frac
+	}
+	return xs[i] + frac*d
 }
 
 // Mapped is a forecast distribution transformed by a strictly increasing

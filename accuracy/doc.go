@@ -86,20 +86,28 @@
 // would divide by zero: MAPE with an actual value of 0, SMAPE with an
 // actual value and forecast both 0, MASE, RMSSE and MSIS with a constant
 // in-sample part, TrackingSignal with all errors 0, Relative with a
-// perfect benchmark. Finite data so close to the float64 limit that the
-// result overflows to NaN (errors of +Inf and −Inf summed, Inf/Inf) give
-// an error wrapping almanac.ErrNonFinite; sMAPE terms are scaled so that
-// they never overflow. Summary tables (Scores) hold NaN for such a
-// measure and keep the others. Batch averages take each measure over the
-// series where it is defined, so one series with a zero does not make
-// MAPE undefined for a whole catalogue; BatchComparison.Counts and the
-// renderings say over how many series each average was taken. The
-// tracking signal is shown per series, with its meaning, and never
-// averaged across series.
+// perfect benchmark. A result that does not fit in a float64 at all (the
+// MAE of {1e308, −1e308} against {−1e308, 1e308} is 2e308) gives an error
+// wrapping almanac.ErrNonFinite, never ±Inf. Summary tables (Scores) hold
+// NaN for an undefined or unrepresentable measure and keep the others.
+// Batch averages take each measure over the series where it is defined,
+// so one series with a zero does not make MAPE undefined for a whole
+// catalogue; BatchComparison.Counts and the renderings say over how many
+// series each average was taken. The tracking signal is shown per
+// series, with its meaning, and never averaged across series.
 //
 // # Numerical notes
 //
-// Sums are accumulated left to right in float64. The in-sample MASE of
+// Sums are accumulated left to right in float64, on the values multiplied
+// by a power of two that brings the largest magnitude near 2^256, and the
+// result is scaled back. The multiplication is exact, so the results are
+// bit for bit those of the plain sums on ordinary data, while values near
+// the float64 limit give every representable answer: the ME and MAPE of
+// the example above are 0 and 200, the RMSE of errors of 3e200 and 4e200
+// is 3.5e200 although their MSE is beyond the range, and MASE, RMSSE and
+// MSIS divide numerator and scale in the same scaled units. sMAPE terms
+// are formed without overflowing; Naive2 computes on rescaled data too.
+// The in-sample MASE of
 // the naive method's own one-step fitted values is exactly 1 (numerator
 // and scale are the same sum). CRPSNormal uses the closed form of
 // Gneiting et al. (2005); CRPSSample the energy form over the empirical

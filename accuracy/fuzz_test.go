@@ -19,7 +19,8 @@ func floats(b []byte, n int) []float64 {
 }
 
 // FuzzMeasures: no input makes a measure panic, an error always comes
-// with NaN, never with a number, and NaN never comes without an error.
+// with NaN, never with a number, and neither NaN nor ±Inf ever comes
+// without an error.
 func FuzzMeasures(f *testing.F) {
 	f.Add([]byte{}, uint8(1), 0.5)
 	f.Add(make([]byte, 64), uint8(2), 0.9)
@@ -43,8 +44,8 @@ func FuzzMeasures(f *testing.F) {
 			if err != nil && !math.IsNaN(v) {
 				t.Errorf("%s: %v alongside error %v", name, v, err)
 			}
-			if err == nil && math.IsNaN(v) {
-				t.Errorf("%s: silent NaN without an error", name)
+			if err == nil && (math.IsNaN(v) || math.IsInf(v, 0)) {
+				t.Errorf("%s: silent %v without an error", name, v)
 			}
 		}
 		for name, fn := range map[string]accuracy.PointMeasure{

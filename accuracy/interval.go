@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/internal/scaling"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -98,34 +99,50 @@ func IntervalScore(actual, lower, upper []float64, level float64) (float64, erro
 	if err := checkBounds("interval score", lower, upper); err != nil {
 		return math.NaN(), err
 	}
+	k := scaling.Exponent(actual, lower, upper)
+	return unscale("interval score", intervalScoreSum(actual, lower, upper, level, k)/float64(n), k, 1)
+}
+
+// intervalScoreSum is the sum of the interval scores of the observed
+// triples, on the values times 2^k.
+func intervalScoreSum(actual, lower, upper []float64, level float64, k int) float64 {
 	alpha := 1 - level/100
 	s := 0.0
 	for i, a := range actual {
 		if !math.IsNaN(a) && !math.IsNaN(lower[i]) && !math.IsNaN(upper[i]) {
-			s += winkler(a, lower[i], upper[i], alpha)
+			s += winkler(math.Ldexp(a, k), math.Ldexp(lower[i], k), math.Ldexp(upper[i], k), alpha)
 		}
 	}
-	return s / float64(n), nil
+	return s
 }
 
 // MSIS returns the mean scaled interval score of the M4 competition: the
 // IntervalScore divided by the MASE scale of the in-sample part with
 // period m (NaiveScale). M4 scores 95% intervals.
 //
-// Special cases: as for IntervalScore and MASE.
+// Special cases: as for IntervalScore and MASE. The score and the scale
+// are taken in the same rescaled units, so neither needs to fit in a
+// float64 on its own.
 func MSIS(actual, lower, upper []float64, level float64, insample []float64, m int) (float64, error) {
-	is, err := IntervalScore(actual, lower, upper, level)
-	if err != nil {
+	if err := almanac.CheckLevels(level); err != nil {
 		return math.NaN(), fmt.Errorf("accuracy: MSIS: %w", err)
 	}
-	scale, _, err := NaiveScale(insample, m)
+	n, err := checkTriples("MSIS", "lower bounds", "upper bounds", actual, lower, upper)
+	if err != nil {
+		return math.NaN(), err
+	}
+	if err := checkBounds("MSIS", lower, upper); err != nil {
+		return math.NaN(), err
+	}
+	k := scaling.Exponent(actual, lower, upper, insample)
+	scale, _, err := naiveScale(insample, m, k)
 	if err != nil {
 		return math.NaN(), fmt.Errorf("accuracy: MSIS: %w", err)
 	}
 	if scale == 0 {
 		return math.NaN(), fmt.Errorf("accuracy: MSIS: %w: the in-sample lag-%d differences are all 0", ErrUndefined, m)
 	}
-	return defined("MSIS", is/scale)
+	return defined("MSIS", intervalScoreSum(actual, lower, upper, level, k)/float64(n)/scale)
 }
 
 // pinball is the quantile loss of one observation at probability tau.
@@ -152,19 +169,26 @@ func Pinball(actual, quantile []float64, tau float64) (float64, error) {
 	if err != nil {
 		return math.NaN(), err
 	}
+	k := pairExp(actual, quantile)
 	s := 0.0
 	for i, a := range actual {
 		if q := quantile[i]; observed(a, q) {
-			s += pinball(a, q, tau)
+			s += pinball(math.Ldexp(a, k), math.Ldexp(q, k), tau)
 		}
 	}
-	return s / float64(n), nil
+	return unscale("pinball", s/float64(n), k, 1)
 }
 
 var invSqrtPi = 1 / math.Sqrt(math.Pi)
 
 // crpsNormal is the CRPS of N(mu, sd²) at y; sd = 0 gives |y − mu|.
+// Values near the float64 limit are handled at a reduced scale; a CRPS
+// beyond the range is +Inf.
 func crpsNormal(y, mu, sd float64) float64 {
+	if d := math.Abs(y - mu); math.IsInf(d, 0) || math.IsInf(sd*4, 0) {
+		const k = -64
+		return math.Ldexp(crpsNormal(math.Ldexp(y, k), math.Ldexp(mu, k), math.Ldexp(sd, k)), -k)
+	}
 	if sd == 0 {
 		return math.Abs(y - mu)
 	}
@@ -192,22 +216,41 @@ func CRPSNormal(actual, mean, sd []float64) (float64, error) {
 	if err != nil {
 		return math.NaN(), err
 	}
+	k := scaling.Exponent(actual, mean, sd)
 	s := 0.0
 	for i, a := range actual {
 		if sd[i] < 0 {
 			return math.NaN(), fmt.Errorf("accuracy: CRPS: %w: negative standard deviation %v at index %d", almanac.ErrInvalid, sd[i], i)
 		}
 		if !math.IsNaN(a) && !math.IsNaN(mean[i]) && !math.IsNaN(sd[i]) {
-			s += crpsNormal(a, mean[i], sd[i])
+			s += crpsNormal(math.Ldexp(a, k), math.Ldexp(mean[i], k), math.Ldexp(sd[i], k))
 		}
 	}
-	return s / float64(n), nil
+	return unscale("CRPS", s/float64(n), k, 1)
 }
 
 // crpsSorted is the CRPS of the empirical distribution of the sorted,
+// NaN-free, non-empty sample xs at y (see crpsSortedRaw). When the values
+// are near the float64 limit it is computed on them times 2^−200 (exact)
+// and scaled back, so the result is +Inf only when the CRPS itself is
+// beyond the float64 range. xs is not modified.
+func crpsSorted(y float64, xs []float64) float64 {
+	m := math.Max(math.Abs(y), math.Max(math.Abs(xs[0]), math.Abs(xs[len(xs)-1])))
+	if m < 0x1p900 { // the sums below stay finite for up to 2^120 draws
+		return crpsSortedRaw(y, xs)
+	}
+	const k = -200
+	sc := make([]float64, len(xs))
+	for i, x := range xs {
+		sc[i] = math.Ldexp(x, k)
+	}
+	return math.Ldexp(crpsSortedRaw(math.Ldexp(y, k), sc), -k)
+}
+
+// crpsSortedRaw is the CRPS of the empirical distribution of the sorted,
 // NaN-free sample xs at y, in the energy form E|X − y| − ½E|X − X'|
 // with E|X − X'| = (2/n²) Σ_i (2i − n − 1) x_(i) (i = 1..n).
-func crpsSorted(y float64, xs []float64) float64 {
+func crpsSortedRaw(y float64, xs []float64) float64 {
 	n := float64(len(xs))
 	var d, g float64
 	for i, x := range xs {
@@ -242,6 +285,9 @@ func CRPSSample(actual []float64, paths [][]float64) (float64, error) {
 			return math.NaN(), fmt.Errorf("accuracy: CRPS: %w: path %d has %d steps, need %d", almanac.ErrLength, i, len(p), len(actual))
 		}
 	}
+	// Scores are summed on the values times 2^k (largest magnitude near
+	// 2^256, exact), so draws near the float64 limit do not overflow.
+	k := scaling.Exponent(append([][]float64{actual}, paths...)...)
 	xs := make([]float64, 0, len(paths))
 	s, n := 0.0, 0
 	for h, a := range actual {
@@ -265,11 +311,14 @@ func CRPSSample(actual []float64, paths [][]float64) (float64, error) {
 			return math.NaN(), fmt.Errorf("accuracy: CRPS: %w: no draw at step %d", almanac.ErrAllMissing, h)
 		}
 		slices.Sort(xs)
-		s += crpsSorted(a, xs)
+		for i := range xs {
+			xs[i] = math.Ldexp(xs[i], k)
+		}
+		s += crpsSortedRaw(math.Ldexp(a, k), xs)
 		n++
 	}
 	if n == 0 {
 		return math.NaN(), fmt.Errorf("accuracy: CRPS: %w: every actual value is missing", almanac.ErrAllMissing)
 	}
-	return defined("CRPS", s/float64(n))
+	return unscale("CRPS", s/float64(n), k, 1)
 }

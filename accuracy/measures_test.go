@@ -54,12 +54,24 @@ func TestPointMeasures(t *testing.T) {
 		{"RMSSE", rmsse1, []float64{6, 4}, []float64{5, 5}, math.Sqrt(3.0 / 14), nil, "scale mean(4, 1, 9) = 14/3; MSE 1; √(3/14)"},
 		{"tracking signal", accuracy.TrackingSignal, []float64{3, 3, 3}, []float64{1, 2, 3}, 3, nil, "Σe = 3, MAE = 1"},
 		{"tracking signal perfect", accuracy.TrackingSignal, []float64{3, 3}, []float64{3, 3}, nan, accuracy.ErrUndefined, "0/0"},
-		// Finite data whose errors overflow: these once returned a silent
-		// NaN with no error.
-		{"ME overflow", accuracy.ME, []float64{1e308, -1e308}, []float64{-1e308, 1e308}, nan, almanac.ErrNonFinite, "errors +Inf and −Inf sum to NaN"},
-		{"tracking signal overflow", accuracy.TrackingSignal, []float64{1e308, 1e308}, []float64{-1e308, -1e308}, nan, almanac.ErrNonFinite, "Inf/Inf"},
-		{"MASE overflow", func(a, f []float64) (float64, error) { return accuracy.MASE(a, f, []float64{1e308, -1e308}, 1) }, []float64{1e308}, []float64{-1e308}, nan, almanac.ErrNonFinite, "MAE Inf over scale Inf"},
+		// Finite data whose errors overflow float64 (issue 11, item 3):
+		// these once returned a silent NaN, then an error; the sums are
+		// now taken on the values times a power of two, so a
+		// representable answer comes out and only a result beyond the
+		// float64 range is an error.
+		{"ME overflow", accuracy.ME, []float64{1e308, -1e308}, []float64{-1e308, 1e308}, 0, nil, "errors 2e308 and −2e308 cancel: mean 0"},
+		{"tracking signal overflow", accuracy.TrackingSignal, []float64{1e308, 1e308}, []float64{-1e308, -1e308}, 2, nil, "Σe = 4e308, MAE = 2e308: 2"},
+		{"MASE overflow", func(a, f []float64) (float64, error) { return accuracy.MASE(a, f, []float64{1e308, -1e308}, 1) }, []float64{1e308}, []float64{-1e308}, 1, nil, "MAE 2e308 over scale 2e308: 1"},
 		{"ME large but finite", accuracy.ME, []float64{1e308, -1e308}, []float64{0, 0}, 0, nil, "1e308 − 1e308 = 0, no overflow"},
+		{"MAE beyond the range", accuracy.MAE, []float64{1e308, -1e308}, []float64{-1e308, 1e308}, nan, almanac.ErrNonFinite, "issue 11: the MAE is 2e308, beyond the float64 range (it was +Inf with no error)"},
+		{"RMSE beyond the range", accuracy.RMSE, []float64{1e308, -1e308}, []float64{-1e308, 1e308}, nan, almanac.ErrNonFinite, "issue 11: the RMSE is 2e308"},
+		{"MdAE beyond the range", accuracy.MdAE, []float64{1e308, -1e308}, []float64{-1e308, 1e308}, nan, almanac.ErrNonFinite, "issue 11: the MdAE is 2e308"},
+		{"MAPE near the float64 limit", accuracy.MAPE, []float64{1e308, -1e308}, []float64{-1e308, 1e308}, 200, nil, "issue 11: |e|/|a| = 2e308/1e308 = 2 for both pairs → 200 (it was +Inf)"},
+		{"MAE large but representable", accuracy.MAE, []float64{1.5e308, -0.5e308}, []float64{0.5e308, 0.5e308}, 1e308, nil, "|e| 1e308 and 1e308; the sum 2e308 overflows unless scaled"},
+		{"RMSE where the MSE overflows", accuracy.RMSE, []float64{3e200, 4e200}, []float64{0, 0}, math.Sqrt(12.5) * 1e200, nil, "√((9e400 + 16e400)/2): the MSE is beyond the range, the RMSE is not"},
+		{"MSE beyond the range", accuracy.MSE, []float64{3e200, 4e200}, []float64{0, 0}, nan, almanac.ErrNonFinite, "12.5e400"},
+		{"MAPE term beyond the range", accuracy.MAPE, []float64{1e-300}, []float64{1e300}, nan, almanac.ErrNonFinite, "|e|/|a| = 1e600"},
+		{"MAE tiny", accuracy.MAE, []float64{3e-320, 1e-320}, []float64{1e-320, 3e-320}, 2e-320, nil, "subnormal values: |e| 2e-320 each, exact after scaling"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {

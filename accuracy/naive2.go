@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/internal/scaling"
 	"github.com/almanac-go/almanac/internal/seasonal"
 )
 
@@ -31,6 +32,12 @@ var _ almanac.Model = Naive2{}
 // observations, and positive values when it adjusts for seasonality
 // (almanac.ErrNonPositive). The zero value takes the period from the
 // series. It is a specification, safe to share between goroutines.
+//
+// It computes on the data times a power of two (largest magnitude near
+// 2^256, exact) and maps the results back, so data near the float64
+// limit give their representable forecasts and bands; in-sample errors,
+// forecasts or bounds beyond the float64 range are errors wrapping
+// almanac.ErrNonFinite.
 type Naive2 struct {
 	// Period is the seasonal period; 0 means y.Period(). 1 gives the naive
 	// method. Negative is invalid.
@@ -44,6 +51,7 @@ type Naive2Fit struct {
 	period   int
 	seasonal bool
 	figure   []float64 // seasonal index by position from the first observation; nil when not seasonal
+	scale    int       // last and sigma are in units of the data times 2^scale
 	last     float64   // last seasonally adjusted value
 	sigma    float64   // adjusted-scale one-step standard deviation
 	fitted   []float64
@@ -96,7 +104,9 @@ func (m Naive2) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, erro
 		f.figure = dec.Figure
 		idx = func(t int) float64 { return f.figure[t%p] }
 	}
-	for t, x := range v {
+	f.scale = scaling.Exponent(v)
+	w := scaling.Scale(nil, v, f.scale)
+	for t, x := range w {
 		adj[t] = x / idx(t)
 	}
 	f.last = adj[n-1]
@@ -108,9 +118,14 @@ func (m Naive2) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, erro
 		d := adj[t] - adj[t-1]
 		ss += d * d
 		f.fitted[t] = adj[t-1] * idx(t)
-		f.resid[t] = v[t] - f.fitted[t]
+		f.resid[t] = w[t] - f.fitted[t]
 	}
 	f.sigma = math.Sqrt(ss / float64(n-1))
+	scaling.Scale(f.fitted, f.fitted, -f.scale)
+	scaling.Scale(f.resid, f.resid, -f.scale)
+	if !scaling.NoInf(f.fitted) || !scaling.NoInf(f.resid) || math.IsInf(math.Ldexp(f.sigma, -f.scale), 0) || math.IsInf(math.Ldexp(f.last, -f.scale), 0) {
+		return nil, fmt.Errorf("accuracy: naive2: series %q: %w: the in-sample forecasts or errors exceed the float64 range", y.Key, almanac.ErrNonFinite)
+	}
 	return f, nil
 }
 
@@ -140,7 +155,8 @@ func (f *Naive2Fit) FittedValues() []float64 { return append([]float64(nil), f.f
 func (f *Naive2Fit) Residuals() []float64 { return append([]float64(nil), f.resid...) }
 
 // Forecast implements almanac.Fitted. Special cases: h < 1 wraps
-// almanac.ErrHorizon, a level outside (0, 100) almanac.ErrLevel.
+// almanac.ErrHorizon, a level outside (0, 100) almanac.ErrLevel, a
+// forecast or bound beyond the float64 range almanac.ErrNonFinite.
 func (f *Naive2Fit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
 	if err := almanac.CheckHorizon(h); err != nil {
 		return almanac.Forecast{}, fmt.Errorf("accuracy: naive2: %w", err)
@@ -156,8 +172,11 @@ func (f *Naive2Fit) Forecast(h int, levels ...float64) (almanac.Forecast, error)
 		if f.seasonal {
 			s = f.figure[(n+j)%f.period]
 		}
-		mean[j] = f.last * s
-		sd[j] = f.sigma * math.Sqrt(float64(j+1)) * s
+		mean[j] = math.Ldexp(f.last*s, -f.scale)
+		sd[j] = math.Ldexp(f.sigma*math.Sqrt(float64(j+1))*s, -f.scale)
+		if math.IsInf(sd[j], 0) {
+			return almanac.Forecast{}, fmt.Errorf("accuracy: naive2: %w: the standard deviation at step %d exceeds the float64 range", almanac.ErrNonFinite, j+1)
+		}
 	}
 	fc, err := almanac.NewForecast(f.y.Time(n), f.y.Freq, mean, &almanac.Normal{Mean: mean, SD: sd}, levels...)
 	if err != nil {

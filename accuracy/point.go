@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/internal/scaling"
 )
 
 // The point measures below share these rules (see also the package
@@ -19,7 +20,13 @@ import (
 //   - a pair in which either value is NaN (missing) is left out; when no
 //     pair is left the error wraps almanac.ErrAllMissing;
 //   - a measure that would divide by zero returns an error wrapping
-//     ErrUndefined, never a number.
+//     ErrUndefined, never a number;
+//   - the sums are taken on the values multiplied by a power of two that
+//     brings the largest magnitude near 2^256 (exact), so values near the
+//     float64 limit give their representable answer (the MAPE of
+//     {1e308, −1e308} against {−1e308, 1e308} is 200); a result that does
+//     not fit in a float64 (that MAE is 2e308) returns an error wrapping
+//     almanac.ErrNonFinite, never ±Inf.
 
 // checkPairs validates actual and forecast and returns the number of
 // pairs with both values observed.
@@ -51,6 +58,24 @@ func checkPairs(fn string, actual, forecast []float64) (int, error) {
 
 func observed(a, f float64) bool { return !math.IsNaN(a) && !math.IsNaN(f) }
 
+// pairExp returns the power-of-two exponent that brings the largest
+// finite magnitude of actual and forecast near 2^256 (internal/scaling).
+func pairExp(actual, forecast []float64) int { return scaling.Exponent(actual, forecast) }
+
+// unscale maps a result computed on values times 2^k back (power = the
+// power of the data's unit in the result: 1 for an error, 2 for a squared
+// error) and reports one beyond the float64 range.
+func unscale(fn string, v float64, k, power int) (float64, error) {
+	if math.IsNaN(v) {
+		return defined(fn, v)
+	}
+	u := math.Ldexp(v, -power*k)
+	if math.IsInf(u, 0) {
+		return math.NaN(), fmt.Errorf("accuracy: %s: %w: the result exceeds the float64 range (%v·2^%d)", fn, almanac.ErrNonFinite, v, -power*k)
+	}
+	return u, nil
+}
+
 // ME returns the mean error, mean(actual − forecast): the bias of the
 // forecasts in the units of the data. Pairs with a NaN are left out.
 func ME(actual, forecast []float64) (float64, error) {
@@ -58,21 +83,22 @@ func ME(actual, forecast []float64) (float64, error) {
 	if err != nil {
 		return math.NaN(), err
 	}
+	k := pairExp(actual, forecast)
 	s := 0.0
 	for i, a := range actual {
 		if f := forecast[i]; observed(a, f) {
-			s += a - f
+			s += math.Ldexp(a, k) - math.Ldexp(f, k)
 		}
 	}
-	return defined("ME", s/float64(n))
+	return unscale("ME", s/float64(n), k, 1)
 }
 
-// defined passes v on, or, when finite inputs overflowed to a NaN result
-// (for example +Inf and −Inf errors summed, or Inf/Inf), returns an error
-// wrapping almanac.ErrNonFinite instead of a silent NaN.
+// defined passes v on, or, when finite inputs overflowed to a NaN or
+// infinite result, returns an error wrapping almanac.ErrNonFinite instead
+// of a silent NaN or ±Inf.
 func defined(fn string, v float64) (float64, error) {
-	if math.IsNaN(v) {
-		return math.NaN(), fmt.Errorf("accuracy: %s: %w: the result overflows float64 (values near ±1.8e308)", fn, almanac.ErrNonFinite)
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return math.NaN(), fmt.Errorf("accuracy: %s: %w: the result is not representable in float64 (values near ±1.8e308)", fn, almanac.ErrNonFinite)
 	}
 	return v, nil
 }
@@ -84,14 +110,16 @@ func MAE(actual, forecast []float64) (float64, error) {
 	if err != nil {
 		return math.NaN(), err
 	}
-	return sumAbs(actual, forecast) / float64(n), nil
+	k := pairExp(actual, forecast)
+	return unscale("MAE", sumAbs(actual, forecast, k)/float64(n), k, 1)
 }
 
-func sumAbs(actual, forecast []float64) float64 {
+// sumAbs returns Σ|a − f|·2^k over the observed pairs.
+func sumAbs(actual, forecast []float64, k int) float64 {
 	s := 0.0
 	for i, a := range actual {
 		if f := forecast[i]; observed(a, f) {
-			s += math.Abs(a - f)
+			s += math.Abs(math.Ldexp(a, k) - math.Ldexp(f, k))
 		}
 	}
 	return s
@@ -104,14 +132,16 @@ func MSE(actual, forecast []float64) (float64, error) {
 	if err != nil {
 		return math.NaN(), err
 	}
-	return sumSq(actual, forecast) / float64(n), nil
+	k := pairExp(actual, forecast)
+	return unscale("MSE", sumSq(actual, forecast, k)/float64(n), k, 2)
 }
 
-func sumSq(actual, forecast []float64) float64 {
+// sumSq returns Σ(a − f)²·2^(2k) over the observed pairs.
+func sumSq(actual, forecast []float64, k int) float64 {
 	s := 0.0
 	for i, a := range actual {
 		if f := forecast[i]; observed(a, f) {
-			e := a - f
+			e := math.Ldexp(a, k) - math.Ldexp(f, k)
 			s += e * e
 		}
 	}
@@ -119,13 +149,15 @@ func sumSq(actual, forecast []float64) float64 {
 }
 
 // RMSE returns the root mean squared error, √MSE. Pairs with a NaN are
-// left out.
+// left out. It is computed on its own, so it is returned when it fits in
+// a float64 even where the MSE does not.
 func RMSE(actual, forecast []float64) (float64, error) {
-	mse, err := MSE(actual, forecast)
+	n, err := checkPairs("RMSE", actual, forecast)
 	if err != nil {
-		return math.NaN(), fmt.Errorf("accuracy: RMSE: %w", err)
+		return math.NaN(), err
 	}
-	return math.Sqrt(mse), nil
+	k := pairExp(actual, forecast)
+	return unscale("RMSE", math.Sqrt(sumSq(actual, forecast, k)/float64(n)), k, 1)
 }
 
 // MAPE returns the mean absolute percentage error in percent,
@@ -147,9 +179,33 @@ func MAPE(actual, forecast []float64) (float64, error) {
 		if a == 0 {
 			return math.NaN(), fmt.Errorf("accuracy: MAPE: %w: actual value 0 at index %d", ErrUndefined, i)
 		}
-		s += math.Abs(a-f) / math.Abs(a)
+		v := pctTerm(a, f)
+		if math.IsInf(v, 0) {
+			return math.NaN(), fmt.Errorf("accuracy: MAPE: %w: the percentage error at index %d (actual %v, forecast %v) exceeds the float64 range", almanac.ErrNonFinite, i, a, f)
+		}
+		s += v
 	}
-	return 100 * s / float64(n), nil
+	if math.IsInf(s, 0) {
+		// Terms near the float64 limit: average them at a smaller scale.
+		s = 0
+		for i, a := range actual {
+			if f := forecast[i]; observed(a, f) {
+				s += math.Ldexp(pctTerm(a, f), -64)
+			}
+		}
+		return unscale("MAPE", 100*s/float64(n), 64, 1)
+	}
+	return defined("MAPE", 100*s/float64(n))
+}
+
+// pctTerm is |a − f| / |a| for a ≠ 0, computed without forming a − f when
+// that would overflow (a term beyond the float64 range is +Inf).
+func pctTerm(a, f float64) float64 {
+	e := math.Abs(a - f)
+	if math.IsInf(e, 0) {
+		return math.Abs(a/2-f/2) / (math.Abs(a) / 2)
+	}
+	return e / math.Abs(a)
 }
 
 // SMAPE returns the symmetric mean absolute percentage error of the M3
@@ -194,7 +250,7 @@ func symTerm(a, f float64) (float64, bool) {
 		a, f = a/sc, f/sc
 		d, e = math.Abs(a)+math.Abs(f), math.Abs(a-f)
 	}
-	return 2 * e / d, true
+	return 2 * (e / d), true // 2·e could overflow; doubling is exact, so the bits are those of 2e/d
 }
 
 // MdAE returns the median absolute error. With an even number of pairs it
@@ -205,13 +261,14 @@ func MdAE(actual, forecast []float64) (float64, error) {
 	if err != nil {
 		return math.NaN(), err
 	}
+	k := pairExp(actual, forecast)
 	abs := make([]float64, 0, n)
 	for i, a := range actual {
 		if f := forecast[i]; observed(a, f) {
-			abs = append(abs, math.Abs(a-f))
+			abs = append(abs, math.Abs(math.Ldexp(a, k)-math.Ldexp(f, k)))
 		}
 	}
-	return median(abs), nil
+	return unscale("MdAE", median(abs), k, 1)
 }
 
 // median sorts xs in place and returns its median (mean of the two middle
@@ -235,8 +292,27 @@ func median(xs []float64) float64 {
 // almanac.ErrNonFinite; no observed difference (for example
 // len(insample) ≤ m) wraps almanac.ErrTooShort. A constant in-sample
 // part gives scales of 0, which is returned as is; MASE and RMSSE then
-// report ErrUndefined.
+// report ErrUndefined. A scale beyond the float64 range (the squared
+// scale of differences above about 1e154) wraps almanac.ErrNonFinite; MASE
+// and RMSSE do not need it in data units and are not affected.
 func NaiveScale(insample []float64, m int) (abs, sq float64, err error) {
+	k := scaling.Exponent(insample)
+	abs, sq, err = naiveScale(insample, m, k)
+	if err != nil {
+		return math.NaN(), math.NaN(), err
+	}
+	if abs, err = unscale("naive scale", abs, k, 1); err != nil {
+		return math.NaN(), math.NaN(), err
+	}
+	if sq, err = unscale("naive scale", sq, k, 2); err != nil {
+		return math.NaN(), math.NaN(), err
+	}
+	return abs, sq, nil
+}
+
+// naiveScale is NaiveScale on insample·2^k, in those units (sq in units
+// of 2^(2k)).
+func naiveScale(insample []float64, m, k int) (abs, sq float64, err error) {
 	if m < 1 {
 		return math.NaN(), math.NaN(), fmt.Errorf("accuracy: naive scale: %w: period %d, need at least 1", almanac.ErrInvalid, m)
 	}
@@ -247,7 +323,7 @@ func NaiveScale(insample []float64, m int) (abs, sq float64, err error) {
 	}
 	n := 0
 	for t := m; t < len(insample); t++ {
-		d := insample[t] - insample[t-m]
+		d := math.Ldexp(insample[t], k) - math.Ldexp(insample[t-m], k)
 		if math.IsNaN(d) {
 			continue
 		}
@@ -268,20 +344,22 @@ func NaiveScale(insample []float64, m int) (abs, sq float64, err error) {
 // 24 for hourly and 1 for other data.
 //
 // Special cases: as for MAE and NaiveScale; a zero scale (a constant
-// in-sample part) wraps ErrUndefined.
+// in-sample part) wraps ErrUndefined. The MAE and the scale are taken in
+// the same rescaled units, so neither needs to fit in a float64 on its own.
 func MASE(actual, forecast, insample []float64, m int) (float64, error) {
-	mae, err := MAE(actual, forecast)
+	n, err := checkPairs("MASE", actual, forecast)
 	if err != nil {
-		return math.NaN(), fmt.Errorf("accuracy: MASE: %w", err)
+		return math.NaN(), err
 	}
-	scale, _, err := NaiveScale(insample, m)
+	k := scaling.Exponent(actual, forecast, insample)
+	scale, _, err := naiveScale(insample, m, k)
 	if err != nil {
 		return math.NaN(), fmt.Errorf("accuracy: MASE: %w", err)
 	}
 	if scale == 0 {
 		return math.NaN(), fmt.Errorf("accuracy: MASE: %w: the in-sample lag-%d differences are all 0", ErrUndefined, m)
 	}
-	return defined("MASE", mae/scale)
+	return defined("MASE", sumAbs(actual, forecast, k)/float64(n)/scale)
 }
 
 // RMSSE returns the root mean squared scaled error of the M5 competition:
@@ -290,18 +368,19 @@ func MASE(actual, forecast, insample []float64, m int) (float64, error) {
 //
 // Special cases: as for MASE.
 func RMSSE(actual, forecast, insample []float64, m int) (float64, error) {
-	mse, err := MSE(actual, forecast)
+	n, err := checkPairs("RMSSE", actual, forecast)
 	if err != nil {
-		return math.NaN(), fmt.Errorf("accuracy: RMSSE: %w", err)
+		return math.NaN(), err
 	}
-	_, scale, err := NaiveScale(insample, m)
+	k := scaling.Exponent(actual, forecast, insample)
+	_, scale, err := naiveScale(insample, m, k)
 	if err != nil {
 		return math.NaN(), fmt.Errorf("accuracy: RMSSE: %w", err)
 	}
 	if scale == 0 {
 		return math.NaN(), fmt.Errorf("accuracy: RMSSE: %w: the in-sample lag-%d differences are all 0", ErrUndefined, m)
 	}
-	return defined("RMSSE", math.Sqrt(mse/scale))
+	return defined("RMSSE", math.Sqrt(sumSq(actual, forecast, k)/float64(n)/scale))
 }
 
 // TrackingSignal returns the cumulative error divided by the mean absolute
@@ -317,13 +396,14 @@ func TrackingSignal(actual, forecast []float64) (float64, error) {
 	if err != nil {
 		return math.NaN(), err
 	}
+	k := pairExp(actual, forecast)
 	sum := 0.0
 	for i, a := range actual {
 		if f := forecast[i]; observed(a, f) {
-			sum += a - f
+			sum += math.Ldexp(a, k) - math.Ldexp(f, k)
 		}
 	}
-	mad := sumAbs(actual, forecast) / float64(n)
+	mad := sumAbs(actual, forecast, k) / float64(n)
 	if mad == 0 {
 		return math.NaN(), fmt.Errorf("accuracy: tracking signal: %w: every error is 0", ErrUndefined)
 	}

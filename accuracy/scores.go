@@ -2,7 +2,8 @@ package accuracy
 
 import (
 	"math"
-	"slices"
+
+	"github.com/almanac-go/almanac/internal/scaling"
 )
 
 // Scores summarises the forecasts of one model over a set of (origin,
@@ -10,6 +11,10 @@ import (
 // Each field follows the function of the same name; a measure that is
 // undefined on the cells (see the package documentation, "Undefined
 // values") is NaN, never a silent number, and the other measures are kept.
+// The sums are taken on the values times a power of two (exact), so data
+// near the float64 limit give their representable scores; a score that
+// does not fit in a float64 at all (an MSE of errors above 1e154) is NaN
+// too, never ±Inf.
 //
 // MASE, RMSSE and MSIS scale each cell's error by the naive (or seasonal
 // naive) in-sample scale of its own origin's training window, then
@@ -97,6 +102,26 @@ type cells struct {
 // summarize computes the Scores of the cells whose index is in idx.
 func (c *cells) summarize(idx []int) Scores {
 	s := Scores{N: 0}
+	// The sums run on the values times 2^k, with k chosen from the
+	// largest magnitude among the cells (internal/scaling): exact, so the
+	// scores are those of the plain sums on ordinary data, and values near
+	// the float64 limit do not overflow.
+	big := 0.0
+	for _, i := range idx {
+		for _, v := range [2]float64{c.actual[i], c.mean[i]} {
+			if a := math.Abs(v); a > big && !math.IsInf(a, 0) {
+				big = a
+			}
+		}
+		for k := range c.levels {
+			for _, v := range [2]float64{c.lower[k][i], c.upper[k][i]} {
+				if a := math.Abs(v); a > big && !math.IsInf(a, 0) {
+					big = a
+				}
+			}
+		}
+	}
+	k := scaling.ExponentOfMax(big)
 	var sumE, sumAbs, sumSq, sumPct, sumSym, sumScaled, sumScaledSq, sumCRPS float64
 	mapeOK, smapeOK, scaleOK, crpsOK := true, true, true, true
 	abs := c.absWork[:0]
@@ -106,7 +131,7 @@ func (c *cells) summarize(idx []int) Scores {
 			continue
 		}
 		s.N++
-		e := a - f
+		e := math.Ldexp(a, k) - math.Ldexp(f, k)
 		ae := math.Abs(e)
 		sumE += e
 		sumAbs += ae
@@ -115,7 +140,7 @@ func (c *cells) summarize(idx []int) Scores {
 		if a == 0 {
 			mapeOK = false
 		} else {
-			sumPct += ae / math.Abs(a)
+			sumPct += pctTerm(a, f)
 		}
 		if v, ok := symTerm(a, f); ok {
 			sumSym += v
@@ -123,8 +148,13 @@ func (c *cells) summarize(idx []int) Scores {
 			smapeOK = false
 		}
 		if sc, sq := c.scale[i], c.scaleSq[i]; sc > 0 && sq > 0 {
-			sumScaled += ae / sc
-			sumScaledSq += e * e / sq
+			sumScaled += scaledRatio(ae, k, sc)
+			if u := math.Ldexp(ae, -k); !math.IsInf(u*u, 0) {
+				sumScaledSq += u * u / sq
+			} else {
+				q := scaledRatio(ae, k, math.Sqrt(sq))
+				sumScaledSq += q * q
+			}
 		} else {
 			scaleOK = false
 		}
@@ -140,11 +170,11 @@ func (c *cells) summarize(idx []int) Scores {
 	s.MASE, s.RMSSE, s.TrackingSignal, s.CRPS = nan, nan, nan, nan
 	if s.N > 0 {
 		n := float64(s.N)
-		s.ME = sumE / n
-		s.MAE = sumAbs / n
-		s.MSE = sumSq / n
-		s.RMSE = math.Sqrt(s.MSE)
-		s.MdAE = median(abs)
+		s.ME = math.Ldexp(sumE/n, -k)
+		s.MAE = math.Ldexp(sumAbs/n, -k)
+		s.MSE = math.Ldexp(sumSq/n, -2*k)
+		s.RMSE = math.Ldexp(math.Sqrt(sumSq/n), -k)
+		s.MdAE = math.Ldexp(median(abs), -k)
 		if mapeOK {
 			s.MAPE = 100 * sumPct / n
 		}
@@ -155,21 +185,21 @@ func (c *cells) summarize(idx []int) Scores {
 			s.MASE = sumScaled / n
 			s.RMSSE = math.Sqrt(sumScaledSq / n)
 		}
-		if s.MAE > 0 {
-			s.TrackingSignal = sumE / s.MAE
+		if sumAbs > 0 {
+			s.TrackingSignal = sumE / (sumAbs / n)
 		}
 		if crpsOK {
 			s.CRPS = sumCRPS / n
 		}
 	}
-	for k, level := range c.levels {
+	for k2, level := range c.levels {
 		iv := IntervalScores{Level: level, Coverage: nan, Score: nan, MSIS: nan}
 		alpha := 1 - level/100
 		var in, m int
 		var sum, sumScaled float64
 		ok := true
 		for _, i := range idx {
-			a, l, u := c.actual[i], c.lower[k][i], c.upper[k][i]
+			a, l, u := c.actual[i], c.lower[k2][i], c.upper[k2][i]
 			if math.IsNaN(a) || math.IsNaN(c.mean[i]) {
 				continue
 			}
@@ -181,24 +211,45 @@ func (c *cells) summarize(idx []int) Scores {
 			if a >= l && a <= u {
 				in++
 			}
-			w := winkler(a, l, u, alpha)
+			w := winkler(math.Ldexp(a, k), math.Ldexp(l, k), math.Ldexp(u, k), alpha)
 			sum += w
 			if sc := c.scale[i]; sc > 0 {
-				sumScaled += w / sc
+				sumScaled += scaledRatio(w, k, sc)
 			} else {
 				ok = false
 			}
 		}
 		if m > 0 {
 			iv.Coverage = float64(in) / float64(m)
-			iv.Score = sum / float64(m)
+			iv.Score = math.Ldexp(sum/float64(m), -k)
 			if ok {
 				iv.MSIS = sumScaled / float64(m)
 			}
 		}
+		iv.Score, iv.MSIS = finiteOrNaN(iv.Score), finiteOrNaN(iv.MSIS)
 		s.Intervals = append(s.Intervals, iv)
 	}
+	for _, p := range []*float64{&s.ME, &s.MAE, &s.MSE, &s.RMSE, &s.MAPE, &s.SMAPE, &s.MdAE, &s.MASE, &s.RMSSE, &s.TrackingSignal, &s.CRPS} {
+		*p = finiteOrNaN(*p)
+	}
 	return s
+}
+
+// scaledRatio returns (x·2^−k)/d for x given on the scale 2^k, without
+// overflowing in between when x·2^−k alone is beyond the float64 range.
+func scaledRatio(x float64, k int, d float64) float64 {
+	if u := math.Ldexp(x, -k); !math.IsInf(u, 0) {
+		return u / d
+	}
+	return math.Ldexp(x/d, -k)
+}
+
+// finiteOrNaN maps ±Inf (a score beyond the float64 range) to NaN.
+func finiteOrNaN(v float64) float64 {
+	if math.IsInf(v, 0) {
+		return math.NaN()
+	}
+	return v
 }
 
 // byStep returns the scores of each horizon step and of all cells.
@@ -219,41 +270,4 @@ func (c *cells) byStep(origins int) (steps []Scores, all Scores) {
 	all = c.summarize(idx)
 	c.selected = idx
 	return steps, all
-}
-
-// meanScores averages scores over series, field by field (NaN when any
-// series has NaN); N is the total.
-func meanScores(list []Scores) Scores {
-	var out Scores
-	if len(list) == 0 {
-		return out
-	}
-	n := float64(len(list))
-	fields := func(s *Scores) []*float64 {
-		return []*float64{&s.ME, &s.MAE, &s.MSE, &s.RMSE, &s.MAPE, &s.SMAPE, &s.MdAE, &s.MASE, &s.RMSSE, &s.TrackingSignal, &s.CRPS}
-	}
-	dst := fields(&out)
-	for _, s := range list {
-		out.N += s.N
-		for k, p := range fields(&s) {
-			*dst[k] += *p
-		}
-	}
-	for _, p := range dst {
-		*p /= n
-	}
-	out.Intervals = slices.Clone(list[0].Intervals)
-	for k := range out.Intervals {
-		iv := &out.Intervals[k]
-		iv.Coverage, iv.Score, iv.MSIS = 0, 0, 0
-		for _, s := range list {
-			iv.Coverage += s.Intervals[k].Coverage
-			iv.Score += s.Intervals[k].Score
-			iv.MSIS += s.Intervals[k].MSIS
-		}
-		iv.Coverage /= n
-		iv.Score /= n
-		iv.MSIS /= n
-	}
-	return out
 }

@@ -64,7 +64,7 @@ func (c Classical) Decompose(y almanac.Series) (*Decomposition, error) {
 	if err != nil {
 		return nil, seasonalError(err, y.Len(), m)
 	}
-	return &Decomposition{
+	return finish(&Decomposition{
 		Series:         y.Clone(),
 		Method:         "Classical",
 		Multiplicative: c.Multiplicative,
@@ -74,5 +74,5 @@ func (c Classical) Decompose(y almanac.Series) (*Decomposition, error) {
 		Seasonals:      [][]float64{r.Seasonal},
 		Remainder:      r.Remainder,
 		Figure:         r.Figure,
-	}, nil
+	})
 }

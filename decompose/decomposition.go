@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/internal/scaling"
 )
 
 // Method is a decomposition method: STL, MSTL or Classical, or a
@@ -123,6 +124,13 @@ func (d *Decomposition) Strength() (Strength, error) {
 		return Strength{}, fmt.Errorf("decompose: strength: %w: %d observations with all components defined", almanac.ErrTooShort, m)
 	}
 	tr, rem = tr[:m], rem[:m]
+	// Variances of components near the float64 limit would overflow; the
+	// ratios do not depend on a common scale, so take them on the
+	// components times a power of two (exact).
+	k := scaling.Exponent(append([][]float64{tr, rem}, seas...)...)
+	for _, c := range append([][]float64{tr, rem}, seas...) {
+		scaling.Scale(c, c, k)
+	}
 	vr := variance(rem, nil)
 	out := Strength{Trend: strength(vr, variance(tr, rem)), Seasonal: make([]float64, len(seas))}
 	for k := range seas {

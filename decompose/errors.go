@@ -3,6 +3,7 @@ package decompose
 import (
 	"errors"
 	"fmt"
+	"math"
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/internal/seasonal"
@@ -37,6 +38,8 @@ func stlError(err error) error {
 		return fmt.Errorf("decompose: %w: %v", almanac.ErrTooShort, err)
 	case errors.Is(err, stl.ErrNonFinite):
 		return fmt.Errorf("decompose: %w: %v (fill gaps with Repair.Fill first)", almanac.ErrMissing, err)
+	case errors.Is(err, stl.ErrOverflow):
+		return fmt.Errorf("decompose: %w: %v", almanac.ErrNonFinite, err)
 	case errors.Is(err, stl.ErrParams):
 		return fmt.Errorf("decompose: %w: %v", ErrWindow, err)
 	}
@@ -45,6 +48,9 @@ func stlError(err error) error {
 
 // seasonalError translates an error of internal/seasonal.
 func seasonalError(err error, n, m int) error {
+	if errors.Is(err, seasonal.ErrOverflow) {
+		return fmt.Errorf("decompose: classical: %w: %v", almanac.ErrNonFinite, err)
+	}
 	if errors.Is(err, seasonal.ErrShort) {
 		if m < 2 {
 			return fmt.Errorf("decompose: %w: period %d", ErrPeriod, m)
@@ -64,4 +70,42 @@ func checkComplete(y almanac.Series, what string) error {
 		return fmt.Errorf("decompose: %s needs complete data (fill gaps with Repair.Fill first): %w", what, err)
 	}
 	return nil
+}
+
+// finish checks a decomposition built by this package before it is
+// returned: no component may be ±Inf (NaN marks the undefined ends of a
+// classical trend), and the seasonally adjusted series must fit in a
+// float64, so that Adjusted never gives ±Inf. It returns d, or an error
+// wrapping almanac.ErrNonFinite.
+func finish(d *Decomposition) (*Decomposition, error) {
+	parts := []struct {
+		name string
+		x    []float64
+	}{{"trend", d.Trend}, {"seasonal", d.Seasonal}, {"remainder", d.Remainder}, {"seasonal figure", d.Figure}}
+	for k, s := range d.Seasonals {
+		parts = append(parts, struct {
+			name string
+			x    []float64
+		}{fmt.Sprintf("seasonal component %d", k+1), s})
+	}
+	for _, p := range parts {
+		for i, v := range p.x {
+			if math.IsInf(v, 0) {
+				return nil, fmt.Errorf("decompose: %s: %w: the %s at index %d exceeds the float64 range", d.Method, almanac.ErrNonFinite, p.name, i)
+			}
+		}
+	}
+	for i, v := range d.Series.Values {
+		if d.Multiplicative && d.Seasonal[i] == 0 {
+			return nil, fmt.Errorf("decompose: %s: %w: the seasonal factor at index %d is below the float64 range (it underflows to 0)", d.Method, almanac.ErrNonFinite, i)
+		}
+		a := v - d.Seasonal[i]
+		if d.Multiplicative {
+			a = v / d.Seasonal[i]
+		}
+		if math.IsInf(a, 0) {
+			return nil, fmt.Errorf("decompose: %s: %w: the seasonally adjusted value at index %d is beyond the float64 range", d.Method, almanac.ErrNonFinite, i)
+		}
+	}
+	return d, nil
 }

@@ -3,6 +3,7 @@ package decompose
 import (
 	"context"
 	"fmt"
+	"math"
 	"math/rand/v2"
 
 	"github.com/almanac-go/almanac"
@@ -77,6 +78,9 @@ func (f Forecaster) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, 
 			fitted[i] = fv[i] + d.Seasonal[i]
 		}
 		resid[i] = y.Values[i] - fitted[i]
+		if math.IsInf(fitted[i], 0) || math.IsInf(resid[i], 0) {
+			return nil, fmt.Errorf("decompose: forecaster: %w: the in-sample forecast or error at index %d exceeds the float64 range", almanac.ErrNonFinite, i)
+		}
 	}
 	return &ForecasterFit{decomp: d, inner: inner, fitted: fitted, resid: resid}, nil
 }
@@ -154,8 +158,9 @@ func (d *Decomposition) SeasonalForward(h int) []float64 {
 // intervals and distribution moved the same way.
 //
 // Special cases: h < 1 gives an error wrapping almanac.ErrHorizon; a bad
-// level one wrapping almanac.ErrLevel; the inner model's errors are
-// wrapped.
+// level one wrapping almanac.ErrLevel; a forecast or bound that is NaN or
+// beyond the float64 range once the seasonal part is added back one
+// wrapping almanac.ErrNonFinite; the inner model's errors are wrapped.
 func (f *ForecasterFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
 	if err := almanac.CheckHorizon(h); err != nil {
 		return almanac.Forecast{}, fmt.Errorf("decompose: %w", err)
@@ -177,7 +182,8 @@ func (f *ForecasterFit) Forecast(h int, levels ...float64) (almanac.Forecast, er
 	}
 	s := f.decomp.SeasonalForward(h)
 	mul := f.decomp.Multiplicative
-	move := func(x []float64) []float64 {
+	var bad error
+	move := func(what string, x []float64) []float64 {
 		out := make([]float64, len(x))
 		for i, v := range x {
 			if mul {
@@ -185,12 +191,20 @@ func (f *ForecasterFit) Forecast(h int, levels ...float64) (almanac.Forecast, er
 			} else {
 				out[i] = v + s[i]
 			}
+			if bad == nil && (math.IsNaN(out[i]) || math.IsInf(out[i], 0)) {
+				bad = fmt.Errorf("decompose: forecaster: %w: %s at step %d is %v with the seasonal part added back", almanac.ErrNonFinite, what, i+1, out[i])
+			}
 		}
 		return out
 	}
-	out := almanac.Forecast{Start: fc.Start, Freq: fc.Freq, Mean: move(fc.Mean)}
+	out := almanac.Forecast{Start: fc.Start, Freq: fc.Freq, Mean: move("the point forecast", fc.Mean)}
 	for _, iv := range fc.Intervals {
-		out.Intervals = append(out.Intervals, almanac.Interval{Level: iv.Level, Lower: move(iv.Lower), Upper: move(iv.Upper)})
+		lo := move(fmt.Sprintf("the lower %v%% bound", iv.Level), iv.Lower)
+		hi := move(fmt.Sprintf("the upper %v%% bound", iv.Level), iv.Upper)
+		out.Intervals = append(out.Intervals, almanac.Interval{Level: iv.Level, Lower: lo, Upper: hi})
+	}
+	if bad != nil {
+		return almanac.Forecast{}, bad
 	}
 	if fc.Dist != nil {
 		out.Dist = &seasonalDist{base: fc.Dist, s: s, mul: mul}
@@ -239,6 +253,9 @@ func (f *ForecasterFit) Simulate(h, n int, src rand.Source) ([][]float64, error)
 				p[k] *= s[k]
 			} else {
 				p[k] += s[k]
+			}
+			if math.IsInf(p[k], 0) || math.IsNaN(p[k]) {
+				return nil, fmt.Errorf("decompose: forecaster: %w: a simulated value at step %d is %v with the seasonal part added back", almanac.ErrNonFinite, k+1, p[k])
 			}
 		}
 	}

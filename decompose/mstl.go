@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/internal/scaling"
 	"github.com/almanac-go/almanac/internal/stl"
 )
 
@@ -124,7 +125,11 @@ func (m MSTL) Decompose(y almanac.Series) (*Decomposition, error) {
 		}
 		params[i], settings[i] = p, u
 	}
-	deseas := y.Slice()
+	// The sweeps run on the data times 2^k (largest magnitude near
+	// 2^256), so the additions between the STL runs cannot overflow; the
+	// components are scaled back at the end (exact for powers of two).
+	k := scaling.Exponent(y.Values)
+	deseas := scaling.Scale(nil, y.Values, k)
 	seas := make([][]float64, len(used))
 	for i := range seas {
 		seas[i] = make([]float64, n)
@@ -153,7 +158,10 @@ func (m MSTL) Decompose(y almanac.Series) (*Decomposition, error) {
 		}
 		rem[t] = deseas[t] - trend[t]
 	}
-	return &Decomposition{
+	for _, c := range append([][]float64{total, trend, rem}, seas...) {
+		scaling.Scale(c, c, -k)
+	}
+	return finish(&Decomposition{
 		Series:    y.Clone(),
 		Method:    "MSTL",
 		Periods:   used,
@@ -163,5 +171,5 @@ func (m MSTL) Decompose(y almanac.Series) (*Decomposition, error) {
 		Remainder: rem,
 		Weights:   weights,
 		Settings:  settings,
-	}, nil
+	})
 }

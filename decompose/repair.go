@@ -7,6 +7,7 @@ import (
 	"time"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/internal/scaling"
 )
 
 // Reason says why a value was replaced. The zero value is ReasonUnknown.
@@ -95,11 +96,16 @@ type Repair struct {
 // replaced, and one Change per replaced value in index order. A series
 // with nothing to fill is returned as a copy with no changes.
 //
+// The fill is computed on the data times a power of two that brings the
+// largest magnitude near 2^256, and scaled back (exact for powers of two):
+// data near the float64 limit are filled like any other.
+//
 // Special cases: a Disrupted index outside [0, n) gives an error wrapping
 // almanac.ErrInvalid; every value missing or disrupted one wrapping
 // almanac.ErrAllMissing; a negative Period, SeasonalWindow or Passes one
 // wrapping ErrPeriod or ErrWindow; with a seasonal period, n ≤ 2·period
-// one wrapping almanac.ErrTooShort (use Period: 1 for a linear fill).
+// one wrapping almanac.ErrTooShort (use Period: 1 for a linear fill); a
+// filled value beyond the float64 range one wrapping almanac.ErrNonFinite.
 func (r Repair) Fill(y almanac.Series) (almanac.Series, []Change, error) {
 	if err := y.Validate(); err != nil {
 		return almanac.Series{}, nil, fmt.Errorf("decompose: repair: %w", err)
@@ -120,7 +126,7 @@ func (r Repair) Fill(y almanac.Series) (almanac.Series, []Change, error) {
 			gap[i], reason[i] = true, Disrupted
 		}
 	}
-	out, err := r.fill(y, gap)
+	out, err := r.fillScaled(y, gap)
 	if err != nil {
 		return almanac.Series{}, nil, err
 	}
@@ -131,6 +137,25 @@ func (r Repair) Fill(y almanac.Series) (almanac.Series, []Change, error) {
 		}
 	}
 	return out, changes, nil
+}
+
+// fillScaled is fill on y times 2^k (largest magnitude near 2^256), with
+// the result scaled back and checked.
+func (r Repair) fillScaled(y almanac.Series, gap []bool) (almanac.Series, error) {
+	k := scaling.Exponent(y.Values)
+	ys := y.Clone()
+	scaling.Scale(ys.Values, ys.Values, k)
+	out, err := r.fill(ys, gap)
+	if err != nil {
+		return almanac.Series{}, err
+	}
+	scaling.Scale(out.Values, out.Values, -k)
+	for i, v := range out.Values {
+		if math.IsInf(v, 0) {
+			return almanac.Series{}, fmt.Errorf("decompose: repair: %w: the filled value at index %d exceeds the float64 range", almanac.ErrNonFinite, i)
+		}
+	}
+	return out, nil
 }
 
 // fill replaces the values where gap is true.
@@ -224,7 +249,7 @@ const DefaultFence = 3
 // values are filled first (and reported) so the screen can run.
 // Quartiles are the type-7 sample quantiles (linear interpolation between
 // order statistics, common practice). When the interquartile range of the
-// remainder is zero to rounding (1e-9 of the largest |value|), as for a
+// remainder is zero to rounding (1e-9 of the median |value|), as for a
 // constant or exactly periodic series, there is no scale to judge by and
 // nothing is flagged.
 //
@@ -249,9 +274,14 @@ type Screen struct {
 // replaced, and one Change per replaced value in index order (Reason
 // Missing or Outlier; Old is the flagged value, New its replacement).
 //
+// Like Repair, the screen is computed on the data times a power of two
+// and scaled back, so data near the float64 limit are screened like any
+// other.
+//
 // Special cases: K < 0 or NaN gives an error wrapping ErrWindow; a period
 // below 2 one wrapping ErrPeriod; n ≤ 2·period one wrapping
-// almanac.ErrTooShort.
+// almanac.ErrTooShort; a replacement beyond the float64 range one
+// wrapping almanac.ErrNonFinite.
 func (s Screen) Apply(y almanac.Series) (almanac.Series, []Change, error) {
 	if !(s.K >= 0) || math.IsInf(s.K, 0) {
 		return almanac.Series{}, nil, fmt.Errorf("decompose: screen: %w: fence %v", ErrWindow, s.K)
@@ -270,6 +300,28 @@ func (s Screen) Apply(y almanac.Series) (almanac.Series, []Change, error) {
 	if period < 2 {
 		return almanac.Series{}, nil, fmt.Errorf("decompose: screen: %w: period %d", ErrPeriod, period)
 	}
+	e := scaling.Exponent(y.Values)
+	orig := y
+	y = y.Clone()
+	scaling.Scale(y.Values, y.Values, e)
+	out, changes, err := s.apply(y, period, k)
+	if err != nil {
+		return almanac.Series{}, nil, err
+	}
+	scaling.Scale(out.Values, out.Values, -e)
+	for i := range changes {
+		c := &changes[i]
+		c.Old, c.New = orig.Values[c.Index], out.Values[c.Index]
+		if math.IsInf(c.New, 0) {
+			return almanac.Series{}, nil, fmt.Errorf("decompose: screen: %w: the replacement at index %d exceeds the float64 range", almanac.ErrNonFinite, c.Index)
+		}
+	}
+	return out, changes, nil
+}
+
+// apply is Apply on data already scaled by a power of two, with fence
+// width k.
+func (s Screen) apply(y almanac.Series, period int, k float64) (almanac.Series, []Change, error) {
 	rep := Repair{Period: period, SeasonalWindow: s.SeasonalWindow}
 	filled, changes, err := rep.Fill(y)
 	if err != nil {
@@ -282,10 +334,15 @@ func (s Screen) Apply(y almanac.Series) (almanac.Series, []Change, error) {
 	sorted := slices.Clone(d.Remainder)
 	slices.Sort(sorted)
 	q1, q3 := quantile7(sorted, 0.25), quantile7(sorted, 0.75)
-	scale := 0.0
-	for _, v := range filled.Values {
-		scale = math.Max(scale, math.Abs(v))
+	// The level the rounding is judged against is the median |value|, not
+	// the largest: one huge outlier (1e308) must not make the ordinary
+	// spread of the remainder look like rounding.
+	abs := make([]float64, len(filled.Values))
+	for i, v := range filled.Values {
+		abs[i] = math.Abs(v)
 	}
+	slices.Sort(abs)
+	scale := quantile7(abs, 0.5)
 	if q3-q1 <= 1e-9*scale {
 		// No spread in the remainder (a constant or exactly seasonal
 		// series, or one dominated by repeated values): no scale to

@@ -243,7 +243,7 @@ func (s STL) Decompose(y almanac.Series) (*Decomposition, error) {
 	if err != nil {
 		return nil, stlError(err)
 	}
-	return &Decomposition{
+	return finish(&Decomposition{
 		Series:    y.Clone(),
 		Method:    "STL",
 		Periods:   []int{p.Period},
@@ -253,5 +253,5 @@ func (s STL) Decompose(y almanac.Series) (*Decomposition, error) {
 		Remainder: rem,
 		Weights:   w,
 		Settings:  []STL{used},
-	}, nil
+	})
 }

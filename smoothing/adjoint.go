@@ -28,6 +28,7 @@ func newAdjWork(n, m int) *adjWork {
 // objectiveGrad returns the objective at x and writes its gradient into
 // grad. Outside the model's domain it returns penalty and a zero
 // gradient. It does not allocate.
+
 func (p *problem) objectiveGrad(x, grad []float64) float64 {
 	for i := range grad {
 		grad[i] = 0

@@ -107,7 +107,7 @@ func objectiveFor(tb testing.TB, sp Spec, y almanac.Series) (*problem, []float64
 	if err != nil {
 		tb.Fatal(err)
 	}
-	p := sp.newProblem(f, y.Slice(), 1)
+	p := sp.newProblem(f, y.Slice(), scaling{s0: 1, d: 1})
 	return p, p.start()
 }
 

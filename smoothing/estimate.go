@@ -33,6 +33,12 @@ type problem struct {
 
 	ws []float64 // seasonal ring, length m
 	aw *adjWork  // gradient workspace (sized by prepare)
+
+	// stall, when positive, cuts the next BFGS search off after that
+	// many iterations and sends optimise to its fallback (a test hook).
+	stall int
+	// maxIter, when positive, limits the BFGS iterations (screening).
+	maxIter int
 }
 
 // prepare sizes the gradient workspace.

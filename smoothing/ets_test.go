@@ -721,12 +721,15 @@ func TestSelect(t *testing.T) {
 		include string
 		exclude string
 	}{
-		{"default, positive monthly", Select{}, y, 15, "ETS(M,Ad,M)", "ETS(A,A,M)"},
-		{"multiplicative trends allowed", Select{MultiplicativeTrends: true}, y, 21, "ETS(M,Md,M)", "ETS(A,M,N)"},
-		{"unstable allowed", Select{AllowUnstable: true}, y, 18, "ETS(A,A,M)", ""},
-		{"restricted", Select{Errors: []ErrorType{AdditiveError}, Seasons: []SeasonType{NoSeason}}, y, 3, "ETS(A,Ad,N)", "ETS(A,A,A)"},
-		{"too short for seasons", Select{}, y.Head(20), 6, "ETS(M,A,N)", "ETS(A,N,A)"},
-		{"non-positive data", Select{}, shifted(y, -200), 6, "ETS(A,Ad,A)", "ETS(M,N,N)"},
+		{"default, positive monthly", Select{}, y, 10, "ETS(M,Ad,M)", "ETS(M,A,M)"},
+		{"undamped trends added", Select{UndampedTrends: true}, y, 15, "ETS(M,A,M)", "ETS(A,A,M)"},
+		{"multiplicative trends allowed", Select{MultiplicativeTrends: true}, y, 13, "ETS(M,Md,M)", "ETS(M,M,N)"},
+		{"multiplicative and undamped", Select{MultiplicativeTrends: true, UndampedTrends: true}, y, 21, "ETS(M,M,M)", "ETS(A,M,N)"},
+		{"unstable allowed", Select{AllowUnstable: true}, y, 12, "ETS(A,Ad,M)", "ETS(A,A,M)"},
+		{"restricted", Select{Errors: []ErrorType{AdditiveError}, Seasons: []SeasonType{NoSeason}}, y, 2, "ETS(A,Ad,N)", "ETS(A,A,N)"},
+		{"explicit trends", Select{Errors: []ErrorType{AdditiveError}, Trends: []TrendType{AdditiveTrend}, Seasons: []SeasonType{NoSeason}}, y, 1, "ETS(A,A,N)", ""},
+		{"too short for seasons", Select{}, y.Head(20), 4, "ETS(M,Ad,N)", "ETS(A,N,A)"},
+		{"non-positive data", Select{}, shifted(y, -200), 4, "ETS(A,Ad,A)", "ETS(M,N,N)"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

@@ -37,15 +37,20 @@ func ExampleCroston() {
 		}
 		fmt.Printf("%-8v %.3f per week, %.3f over the next 4 weeks\n", fit, fc.Mean[0], 4*fc.Mean[0])
 	}
-	// No distribution: asking for an interval is an error.
-	fit, _ := smoothing.Croston{}.Fit(context.Background(), y)
-	_, err := fit.Forecast(4, 90)
-	fmt.Println(err)
+	// A 90% band for next week's demand, from paths of the fitted
+	// process (never below zero).
+	fit, _ := smoothing.Croston{Seed: 7}.Fit(context.Background(), y)
+	fc, err := fit.Forecast(4, 90)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("90%% band for next week: [%.3f, %.3f]\n", fc.Intervals[0].Lower[0], fc.Intervals[0].Upper[0])
 	// Output:
 	// Croston  0.637 per week, 2.548 over the next 4 weeks
 	// SBA      0.605 per week, 2.421 over the next 4 weeks
 	// TSB      0.616 per week, 2.465 over the next 4 weeks
-	// smoothing: Croston: forecast has no distribution: intermittent-demand methods give point forecasts only
+	// 90% band for next week: [0.000, 3.345]
 }
 
 // TSB with both constants estimated by minimum in-sample squared error.

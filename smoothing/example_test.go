@@ -85,9 +85,9 @@ func ExampleSelect() {
 		fmt.Printf("%.3f [%.3f, %.3f]\n", fc.Mean[h], fc.Intervals[0].Lower[h], fc.Intervals[0].Upper[h])
 	}
 	// Output:
-	// ETS(M,A,M) AICc 431.617
-	// 323.475 [303.824, 343.127]
-	// 336.178 [315.755, 356.601]
+	// ETS(M,Ad,M) AICc 444.510
+	// 322.184 [300.894, 343.474]
+	// 334.475 [312.345, 356.605]
 }
 
 // Classical Holt-Winters with fixed constants.
@@ -124,9 +124,10 @@ func ExampleFitted_Update() {
 	// 2025-01 307.616
 }
 
-// List every candidate Select tried, with its criterion value.
+// List every candidate Select tried, with its criterion value; here the
+// undamped trend is admitted too.
 func ExampleSelect_Compare() {
-	cands, best, err := smoothing.Select{Errors: []smoothing.ErrorType{smoothing.MultiplicativeError}, Seasons: []smoothing.SeasonType{smoothing.MultiplicativeSeason}}.Compare(context.Background(), bookings())
+	cands, best, err := smoothing.Select{Errors: []smoothing.ErrorType{smoothing.MultiplicativeError}, Seasons: []smoothing.SeasonType{smoothing.MultiplicativeSeason}, UndampedTrends: true}.Compare(context.Background(), bookings())
 	if err != nil {
 		fmt.Println(err)
 		return

@@ -28,7 +28,7 @@ func TestGradient(t *testing.T) {
 						for i := range ys {
 							ys[i] /= 200
 						}
-						p := sp.newProblem(f, ys, 200)
+						p := sp.newProblem(f, ys, scaling{s0: 200, d: 1})
 						x := p.start()
 						for k := range x {
 							x[k] += 0.01 * float64(k%3-1)

@@ -293,20 +293,35 @@ func (f *HoltWintersFit) Variance(H int) ([]float64, error) {
 	}
 	c := append([]float64{f.A, f.B}, f.S...) // c[i-1] is R's c[i]
 	out := make([]float64, H)
+	if !h.Multiplicative {
+		sum := 1.0
+		for hh := 1; hh <= H; hh++ {
+			if hh > 1 {
+				p := psi(hh - 1)
+				sum += p * p
+			}
+			out[hh-1] = f.ResidualVariance * sum
+		}
+		return out, nil
+	}
+	// Σ_{j<hh} (ψ_j c[2+rel]/c[2+((rel−j) mod m)])² grouped by the
+	// residue q = j mod m: acc[q] = Σ ψ_j² over those j, so each step
+	// costs O(m) and the whole horizon O(H·m).
+	acc := make([]float64, m)
 	for hh := 1; hh <= H; hh++ {
+		j := hh - 1
+		p := psi(j)
+		acc[j%m] += p * p
+		rel := 1 + (hh-1)%m
+		num := c[2+rel-1]
 		sum := 0.0
-		if !h.Multiplicative {
-			sum = 1
-			for j := 1; j < hh; j++ {
-				sum += psi(j) * psi(j)
+		for q := 0; q < m; q++ {
+			if acc[q] == 0 {
+				continue
 			}
-		} else {
-			rel := 1 + (hh-1)%m
-			for j := 0; j < hh; j++ {
-				r := ((rel-j)%m + m) % m
-				v := psi(j) * c[2+rel-1] / c[2+r-1]
-				sum += v * v
-			}
+			r := ((rel-q)%m + m) % m
+			d := c[2+r-1]
+			sum += acc[q] * (num / d) * (num / d)
 		}
 		out[hh-1] = f.ResidualVariance * sum
 	}
@@ -372,6 +387,9 @@ func (f *HoltWintersFit) Forecast(h int, levels ...float64) (almanac.Forecast, e
 	fc, err := almanac.NewForecast(f.y.Time(f.y.Len()), f.y.Freq, mean, dist, levels...)
 	if err != nil {
 		return almanac.Forecast{}, fmt.Errorf("smoothing: %w", err)
+	}
+	if err := checkFinite(f.String(), fc); err != nil {
+		return almanac.Forecast{}, err
 	}
 	return fc, nil
 }

@@ -4,6 +4,8 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"math/rand/v2"
+	"slices"
 	"strconv"
 	"time"
 
@@ -83,6 +85,11 @@ type Croston struct {
 	Alpha float64
 	// EstimateAlpha estimates Alpha by minimum in-sample MSE.
 	EstimateAlpha bool
+	// Seed seeds the generator (math/rand/v2 PCG) of the sample paths
+	// behind the prediction intervals; Paths is their number (0 means
+	// 5000). See IntermittentFit.Simulate.
+	Seed  uint64
+	Paths int
 }
 
 // TSB is the method of Teunter, Syntetos & Babai (2011) for intermittent
@@ -117,6 +124,10 @@ type TSB struct {
 	Beta float64
 	// Estimate estimates Alpha and Beta by minimum in-sample MSE.
 	Estimate bool
+	// Seed and Paths set the simulated prediction intervals as for
+	// Croston.
+	Seed  uint64
+	Paths int
 }
 
 var (
@@ -124,6 +135,7 @@ var (
 	_ almanac.Model        = TSB{}
 	_ almanac.Fitted       = (*IntermittentFit)(nil)
 	_ almanac.ParamCounter = (*IntermittentFit)(nil)
+	_ almanac.Simulator    = (*IntermittentFit)(nil)
 )
 
 // IntermittentFit is a Croston, SBA or TSB model fitted to one series:
@@ -147,10 +159,22 @@ var (
 //   - Fitted values are the one-step forecasts made from the states after
 //     the previous period; there is none (NaN) up to and including
 //     period k, since the states are built from it.
-//   - No distribution: these methods estimate a mean demand rate and
-//     have no agreed forecast distribution, so Forecast returns point
-//     forecasts only (Dist nil); asking for interval levels gives an
-//     error wrapping almanac.ErrNoDistribution.
+//   - Intervals and sample paths: these methods estimate a mean demand
+//     rate and have no agreed forecast distribution of their own. The
+//     sample paths (Simulate) come from the fitted process with its
+//     states held at their final values: each period has a demand with
+//     the final probability (1/p, or TSB's π), independently, and its
+//     size is drawn from the observed non-zero demands (a bootstrap),
+//     rescaled so that the mean of every step equals the point forecast
+//     Rate. Each path first draws its own demand probability and size
+//     multiplier around the final states, with the variance of the
+//     exponentially smoothed estimates (see Simulate), so the bands
+//     include the uncertainty of the smoothed rate. Paths are never below
+//     zero. Forecast takes its interval bounds from Paths (default 5000)
+//     such paths seeded by Seed. Because a demand of 0 has positive
+//     probability, a central interval's lower bound is often 0 and then
+//     covers more than its level (its upper bound still has the nominal
+//     exceedance rate).
 //   - A series with no demand at all (every value 0) is forecast as 0,
 //     with fitted values and residuals 0.
 //   - Negative values give an error wrapping almanac.ErrNonPositive, NaN
@@ -185,6 +209,9 @@ type IntermittentFit struct {
 	freq   calendar.Frequency
 	fitted []float64
 	resid  []float64
+	sizes  []float64 // observed non-zero demands
+	seed   uint64
+	paths  int
 }
 
 // checkDemand validates an intermittent-demand series and returns the
@@ -271,7 +298,7 @@ func tsbRun(fitted, y []float64, k int, alpha, beta float64) (z, prob, sse float
 
 // newIntermittentFit prepares the result for y with fitted values NaN up
 // to and including the first demand (0 everywhere when there is none).
-func newIntermittentFit(method string, y almanac.Series, first int) *IntermittentFit {
+func newIntermittentFit(method string, y almanac.Series, first int, seed uint64, paths int) *IntermittentFit {
 	n := y.Len()
 	f := &IntermittentFit{
 		Method:      method,
@@ -281,6 +308,13 @@ func newIntermittentFit(method string, y almanac.Series, first int) *Intermitten
 		freq:        y.Freq,
 		fitted:      make([]float64, n),
 		resid:       make([]float64, n),
+		seed:        seed,
+		paths:       paths,
+	}
+	for _, v := range y.Values {
+		if v > 0 {
+			f.sizes = append(f.sizes, v)
+		}
 	}
 	if first < 0 {
 		return f // all zero: forecasts, fitted values and residuals 0
@@ -338,7 +372,10 @@ func (c Croston) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, err
 	if c.Variant == CrostonSBA {
 		method = "SBA"
 	}
-	f := newIntermittentFit(method, y, k)
+	if c.Paths < 0 {
+		return nil, fmt.Errorf("smoothing: %s: %w: negative Paths %d", name, almanac.ErrInvalid, c.Paths)
+	}
+	f := newIntermittentFit(method, y, k, c.Seed, c.Paths)
 	factorOf := func(a float64) float64 {
 		if c.Variant == CrostonSBA {
 			return 1 - a/2
@@ -402,7 +439,10 @@ func (s TSB) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) 
 	if err != nil {
 		return nil, err
 	}
-	f := newIntermittentFit("TSB", y, k)
+	if s.Paths < 0 {
+		return nil, fmt.Errorf("smoothing: %s: %w: negative Paths %d", name, almanac.ErrInvalid, s.Paths)
+	}
+	f := newIntermittentFit("TSB", y, k, s.Seed, s.Paths)
 	alpha, beta := s.Alpha, s.Beta
 	if alpha == 0 {
 		alpha = intermittentDefault
@@ -446,13 +486,14 @@ func (s TSB) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) 
 }
 
 // Forecast returns the point forecast Rate for each of h steps after the
-// end of the series. The forecast has no distribution (Dist nil).
+// end of the series, with prediction intervals at the given levels from
+// the sample paths of Simulate (see IntermittentFit; never below zero).
+// Without levels the forecast has no distribution (Dist nil).
 //
-// Special cases: h < 1 gives an error wrapping almanac.ErrHorizon; any
-// level gives an error wrapping almanac.ErrNoDistribution (after a level
-// outside (0, 100) one wrapping almanac.ErrLevel), since these methods
-// have no agreed forecast distribution; an IntermittentFit not returned
-// by Fit (e.g. a zero value) gives an error wrapping almanac.ErrNotFitted.
+// Special cases: h < 1 gives an error wrapping almanac.ErrHorizon, and so
+// does h × Paths above 2^25 when levels are asked for; a level outside
+// (0, 100) one wrapping almanac.ErrLevel; an IntermittentFit not returned
+// by Fit (e.g. a zero value) one wrapping almanac.ErrNotFitted.
 func (f *IntermittentFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
 	if f == nil || f.fitted == nil {
 		return almanac.Forecast{}, fmt.Errorf("smoothing: %w: use the value returned by Fit", almanac.ErrNotFitted)
@@ -463,18 +504,123 @@ func (f *IntermittentFit) Forecast(h int, levels ...float64) (almanac.Forecast, 
 	if err := almanac.CheckLevels(levels...); err != nil {
 		return almanac.Forecast{}, fmt.Errorf("smoothing: %s: %w", f.Method, err)
 	}
-	if len(levels) > 0 {
-		return almanac.Forecast{}, fmt.Errorf("smoothing: %s: %w: intermittent-demand methods give point forecasts only", f.Method, almanac.ErrNoDistribution)
-	}
 	mean := make([]float64, h)
 	for i := range mean {
 		mean[i] = f.Rate
 	}
-	fc, err := almanac.NewForecast(f.start, f.freq, mean, nil)
+	var dist almanac.Distribution
+	if len(levels) > 0 {
+		n := f.paths
+		if n == 0 {
+			n = defaultPaths
+		}
+		paths, err := f.Simulate(h, n, rand.NewPCG(f.seed, 0x9e3779b97f4a7c15))
+		if err != nil {
+			return almanac.Forecast{}, err
+		}
+		dist = &almanac.Sample{Paths: paths}
+	}
+	fc, err := almanac.NewForecast(f.start, f.freq, mean, dist, levels...)
 	if err != nil {
 		return almanac.Forecast{}, fmt.Errorf("smoothing: %s: %w", f.Method, err)
 	}
+	if err := checkFinite(f.Method, fc); err != nil {
+		return almanac.Forecast{}, err
+	}
 	return fc, nil
+}
+
+// Simulate returns n sample paths of h future periods (paths[i][step])
+// from the fitted process (see IntermittentFit): in each period a demand
+// occurs with probability Probability, independently, and its size is
+// one of the observed non-zero demands drawn uniformly, multiplied by
+// Rate/(Probability·mean of the observed demands) so that each step's
+// mean is Rate. Without any demand in the series the paths are 0. The
+// draws come from src only: the same source state gives the same paths.
+//
+// Special cases: h < 1, or h × n above 2^25, gives an error wrapping
+// almanac.ErrHorizon; n < 1 or a nil src one wrapping almanac.ErrInvalid;
+// an IntermittentFit not returned by Fit one wrapping almanac.ErrNotFitted.
+func (f *IntermittentFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
+	if f == nil || f.fitted == nil {
+		return nil, fmt.Errorf("smoothing: %w: use the value returned by Fit", almanac.ErrNotFitted)
+	}
+	if err := almanac.CheckHorizon(h); err != nil {
+		return nil, fmt.Errorf("smoothing: %s: %w", f.Method, err)
+	}
+	if n < 1 {
+		return nil, fmt.Errorf("smoothing: %s: %w: %d sample paths", f.Method, almanac.ErrInvalid, n)
+	}
+	if src == nil {
+		return nil, fmt.Errorf("smoothing: %s: %w: nil random source", f.Method, almanac.ErrInvalid)
+	}
+	if h > maxSimValues/n {
+		return nil, fmt.Errorf("smoothing: %s: %w: %d paths of %d steps exceed the %d simulated values allowed; ask for fewer steps or paths", f.Method, almanac.ErrHorizon, n, h, maxSimValues)
+	}
+	flat := make([]float64, h*n)
+	paths := make([][]float64, n)
+	for i := range paths {
+		paths[i] = flat[i*h : (i+1)*h : (i+1)*h]
+	}
+	if len(f.sizes) == 0 || !(f.Rate > 0) {
+		return paths, nil
+	}
+	// Scale of the bootstrapped sizes: Rate/(π·s̄), with s̄ computed on
+	// sizes divided by their largest value so it cannot overflow.
+	top := slices.Max(f.sizes)
+	mean, sq := 0.0, 0.0
+	for _, v := range f.sizes {
+		mean += v / top
+		sq += (v / top) * (v / top)
+	}
+	k := len(f.sizes)
+	mean /= float64(k)
+	cv2 := math.Max(sq/float64(k)/(mean*mean)-1, 0) // squared coefficient of variation of the sizes
+	scale := f.Rate / f.Probability / mean          // multiplies sizes/top
+	// Estimation uncertainty of the smoothed states: an exponentially
+	// weighted mean with constant c of independent draws of variance s²
+	// has variance c/(2−c)·s² (common practice, the steady-state variance
+	// of an EWMA). TSB smooths the occurrence indicator every period
+	// (c = β, s² = π(1−π)); Croston smooths the intervals (c = α, s² of a
+	// geometric interval (1−π)/π², so by the delta method the variance of
+	// π = 1/p is c/(2−c)·π²(1−π)). Both smooth the sizes when a demand
+	// occurs (c = α, relative variance the sizes' squared coefficient of
+	// variation). Each path draws its own occurrence probability from the
+	// Beta distribution and its own size multiplier from the gamma
+	// distribution with those means (π and 1) and variances, so the
+	// mean of every step is still Rate.
+	pi := f.Probability
+	var wp float64
+	if f.Method == "TSB" {
+		wp = f.Beta / (2 - f.Beta) * pi * (1 - pi)
+	} else {
+		wp = f.Alpha / (2 - f.Alpha) * pi * pi * (1 - pi)
+	}
+	ws := f.Alpha / (2 - f.Alpha) * cv2
+	rng := rand.New(src)
+	for _, path := range paths {
+		pPath := pi
+		if wp > 0 && pi > 0 && pi < 1 {
+			if kappa := pi*(1-pi)/wp - 1; kappa > 0 {
+				a := gammaDraw(rng, pi*kappa)
+				b := gammaDraw(rng, (1-pi)*kappa)
+				if a+b > 0 {
+					pPath = a / (a + b)
+				}
+			}
+		}
+		mult := 1.0
+		if ws > 0 {
+			shape := 1 / ws
+			mult = gammaDraw(rng, shape) / shape
+		}
+		for t := range path {
+			if rng.Float64() < pPath {
+				path[t] = f.sizes[rng.IntN(k)] / top * scale * mult
+			}
+		}
+	}
+	return paths, nil
 }
 
 // FittedValues returns the in-sample one-step forecasts (NaN up to and
@@ -499,3 +645,31 @@ func (f *IntermittentFit) NumParams() int {
 
 // String returns the method's published name: "Croston", "SBA" or "TSB".
 func (f *IntermittentFit) String() string { return f.Method }
+
+// gammaDraw returns a draw from the gamma distribution with the given
+// shape and scale 1, by the method of Marsaglia & Tsang (2000), with the
+// usual boost U^{1/shape} for shape < 1.
+func gammaDraw(rng *rand.Rand, shape float64) float64 {
+	if !(shape > 0) {
+		return 0
+	}
+	boost := 1.0
+	if shape < 1 {
+		boost = math.Pow(rng.Float64(), 1/shape)
+		shape++
+	}
+	d := shape - 1.0/3
+	c := 1 / math.Sqrt(9*d)
+	for {
+		x := rng.NormFloat64()
+		v := 1 + c*x
+		if v <= 0 {
+			continue
+		}
+		v = v * v * v
+		u := rng.Float64()
+		if u < 1-0.0331*x*x*x*x || math.Log(u) < 0.5*x*x+d*(1-v+math.Log(v)) {
+			return d * v * boost
+		}
+	}
+}

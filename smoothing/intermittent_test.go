@@ -285,10 +285,13 @@ func TestIntermittentBadInput(t *testing.T) {
 	if !errors.As(err, &se) || se.Index != 4 {
 		t.Errorf("negative value: %v, want a SeriesError at index 4", err)
 	}
-	// Forecast arguments: no distribution, so any level is refused.
+	// Forecast arguments.
 	f := fitIntermittent(t, smoothing.Croston{}, weekly(handSeries))
-	if _, err := f.Forecast(3, 90); !errors.Is(err, almanac.ErrNoDistribution) {
-		t.Errorf("level 90: %v, want ErrNoDistribution", err)
+	if _, err := f.Forecast(3, 90); err != nil {
+		t.Errorf("level 90: %v", err)
+	}
+	if _, err := (smoothing.Croston{Paths: -1}).Fit(context.Background(), weekly(handSeries)); !errors.Is(err, almanac.ErrInvalid) {
+		t.Errorf("Paths -1: %v, want ErrInvalid", err)
 	}
 	if _, err := f.Forecast(3, 150); !errors.Is(err, almanac.ErrLevel) {
 		t.Errorf("level 150: %v, want ErrLevel", err)

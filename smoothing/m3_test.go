@@ -8,6 +8,7 @@ import (
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/calendar"
 	"github.com/almanac-go/almanac/internal/m3data"
+	"github.com/almanac-go/almanac/internal/seasonal"
 )
 
 // m3File reads one category of the M3 competition data (Makridakis &
@@ -22,32 +23,33 @@ func m3File(t *testing.T, name string) (train, test [][]float64) {
 	return train, test
 }
 
-// TestM3Accuracy forecasts every yearly and quarterly M3 series with
-// Select and compares the symmetric MAPE (mean of 200|y−f|/(|y|+|f|) over
-// all series and horizons) with the published M3 results in
-// /work/shared/data/README.md (recomputed from the competition's
-// submitted forecasts): it must beat the Naive2 benchmark (yearly 17.88,
-// quarterly 9.95), and is reported beside the damped-trend method (17.36,
-// 9.36) and Theta (16.87, 8.96). The monthly category (1428 series) is
-// left out to keep the test short; run by hand with the same code it gave
-// 14.41 against Naive2 16.91 and damped trend 14.59.
+// TestM3Accuracy forecasts every tenth yearly and quarterly M3 series
+// (a subset, to keep the test short) with Select and compares the
+// symmetric MAPE (mean of 200|y−f|/(|y|+|f|) over all series and
+// horizons) with Naive2 computed here on the same series as the M3
+// competition defines it (Makridakis & Hibon 2000: the naive forecast of
+// the series seasonally adjusted by classical multiplicative
+// decomposition when the 90% autocorrelation test finds seasonality):
+// Select must beat it. Whole-category figures (yearly 16.75, quarterly
+// 9.34, monthly 13.93, all 3,003 series 13.12; published Naive2 17.88,
+// 9.95, 16.91 and 15.47, damped trend 17.36, 9.36, 14.59 and 13.65) come
+// from a separate evaluation run, not from a test.
 func TestM3Accuracy(t *testing.T) {
 	if testing.Short() {
-		t.Skip("whole M3 categories; skipped with -short")
+		t.Skip("M3 subsets; skipped with -short")
 	}
 	for _, tc := range []struct {
-		file           string
-		freq           calendar.Frequency
-		naive2, damped float64
-		theta          float64
+		file string
+		freq calendar.Frequency
 	}{
-		{"m3_yearly.csv", calendar.Yearly, 17.88, 17.36, 16.87},
-		{"m3_quarterly.csv", calendar.Quarterly, 9.95, 9.36, 8.96},
+		{"m3_yearly.csv", calendar.Yearly},
+		{"m3_quarterly.csv", calendar.Quarterly},
 	} {
 		t.Run(tc.file, func(t *testing.T) {
 			train, test := m3File(t, tc.file)
-			sum, cnt := 0.0, 0
-			for i := range train {
+			sum, sumN2, cnt, series := 0.0, 0.0, 0, 0
+			for i := 0; i < len(train); i += 10 {
+				series++
 				y := almanac.Series{Start: time.Date(1990, 1, 1, 0, 0, 0, 0, time.UTC), Freq: tc.freq, Values: train[i]}
 				fit, err := Select{}.Fit(ctx, y)
 				if err != nil {
@@ -57,17 +59,42 @@ func TestM3Accuracy(t *testing.T) {
 				if err != nil {
 					t.Fatal(err)
 				}
+				n2 := naive2(train[i], y.Period(), len(test[i]))
 				for h, a := range test[i] {
 					f := fc.Mean[h]
 					sum += 200 * math.Abs(a-f) / (math.Abs(a) + math.Abs(f))
+					sumN2 += 200 * math.Abs(a-n2[h]) / (math.Abs(a) + math.Abs(n2[h]))
 					cnt++
 				}
 			}
-			smape := sum / float64(cnt)
-			t.Logf("%s: %d series, sMAPE %.2f (published: Naive2 %.2f, damped trend %.2f, Theta %.2f)", tc.file, len(train), smape, tc.naive2, tc.damped, tc.theta)
-			if !(smape < tc.naive2) {
-				t.Errorf("sMAPE %.2f not below Naive2's %.2f", smape, tc.naive2)
+			smape, n2 := sum/float64(cnt), sumN2/float64(cnt)
+			t.Logf("%s: %d series, sMAPE %.2f, Naive2 %.2f", tc.file, series, smape, n2)
+			if !(smape < n2) {
+				t.Errorf("sMAPE %.2f not below Naive2's %.2f", smape, n2)
 			}
 		})
 	}
+}
+
+// naive2 is the M3 competition's Naive2 benchmark: the last value of the
+// series seasonally adjusted (classical multiplicative decomposition)
+// when the 90% autocorrelation test at lag m finds seasonality, with the
+// seasonal indices put back.
+func naive2(y []float64, m, h int) []float64 {
+	out := make([]float64, h)
+	last := y[len(y)-1]
+	var idx []float64
+	if m >= 2 && seasonal.IsSeasonal(y, m, thetaSeasonalZ) {
+		if dec, err := seasonal.Classical(y, m, true); err == nil {
+			idx = dec.Figure
+			last /= idx[(len(y)-1)%m]
+		}
+	}
+	for i := range out {
+		out[i] = last
+		if idx != nil {
+			out[i] *= idx[(len(y)+i)%m]
+		}
+	}
+	return out
 }

@@ -17,8 +17,9 @@ import (
 // adjoint gradient (adjoint.go), restarted once from its end point with a
 // fresh inverse Hessian when it stops without converging, and then, if it
 // still has not converged (e.g. stalled along the edge of the model's
-// domain), the restarted Nelder–Mead simplex search of simplexRestarts
-// from the BFGS end point. It returns the best point and value and
+// domain), the fallback: the restarted Nelder–Mead simplex search of
+// simplexRestarts from the BFGS end point followed by one more BFGS run
+// from the simplex's end point. It returns the best point and value and
 // whether the last search converged.
 func (p *problem) optimise(ctx context.Context, x0 []float64) ([]float64, float64, bool, error) {
 	d := len(x0)
@@ -26,6 +27,43 @@ func (p *problem) optimise(ctx context.Context, x0 []float64) ([]float64, float6
 	if d == 0 {
 		return x, p.objective(x), true, nil
 	}
+	fx, converged, err := p.bfgs(ctx, x, 2)
+	if p.stall > 0 {
+		converged = false // test hook: the first BFGS runs were cut off
+	}
+	if err != nil || converged {
+		return x, fx, converged, err
+	}
+	fx, converged, err = p.fallback(ctx, x, fx)
+	return x, fx, converged, err
+}
+
+// fallback is the search run when BFGS stops without converging: the
+// restarted simplex from x (value fx), then BFGS from the simplex's end
+// point. x is overwritten with the best point.
+func (p *problem) fallback(ctx context.Context, x []float64, fx float64) (float64, bool, error) {
+	d := len(x)
+	f, conv, err := simplexRestarts(ctx, p.objective, x, fx, p.steps(x), 1e-8, 2000*d, 1e-7, 0)
+	if err != nil {
+		return 0, false, err
+	}
+	xs := slices.Clone(x)
+	fb, convB, err := p.bfgs(ctx, xs, 1)
+	if err != nil {
+		return 0, false, err
+	}
+	if fb < f {
+		copy(x, xs)
+		return fb, convB, nil
+	}
+	return f, conv, nil
+}
+
+// bfgs runs optimize.BFGS from x (overwritten with the end point) up to
+// runs times, restarting with a fresh inverse Hessian while it stops
+// without converging, and returns the value and whether it converged.
+func (p *problem) bfgs(ctx context.Context, x []float64, runs int) (float64, bool, error) {
+	d := len(x)
 	// The adjoint pass yields the value and the gradient together, and
 	// gonum asks for the gradient at the point whose value it has just
 	// requested: Func evaluates both and keeps the gradient for Grad.
@@ -48,7 +86,7 @@ func (p *problem) optimise(ctx context.Context, x0 []float64) ([]float64, float6
 	}
 	fx := fg(x)
 	converged := false
-	for run := 0; run < 2 && !converged && fx < penalty; run++ {
+	for run := 0; run < runs && !converged && fx < penalty; run++ {
 		settings := &optimize.Settings{
 			// The value and gradient at x are known (cx, cg).
 			InitValues: &optimize.Location{F: fx, Gradient: slices.Clone(cg)},
@@ -57,10 +95,18 @@ func (p *problem) optimise(ctx context.Context, x0 []float64) ([]float64, float6
 			Converger:       &optimize.FunctionConverge{Relative: 1e-10, Absolute: 1e-20, Iterations: 2},
 			MajorIterations: 200 * d,
 		}
+		if p.maxIter > 0 {
+			settings.MajorIterations = p.maxIter
+		}
+		if p.stall > 0 {
+			settings.MajorIterations = p.stall
+			p.stall = 0
+			runs = 1
+		}
 		bfgs := &optimize.BFGS{GradStopThreshold: 1e-10 * (1 + math.Abs(fx))}
 		res, err := optimize.Minimize(prob, x, settings, bfgs)
 		if cerr := ctx.Err(); cerr != nil {
-			return nil, 0, false, cerr
+			return 0, false, cerr
 		}
 		if res == nil || !(res.F <= fx) {
 			break
@@ -72,14 +118,7 @@ func (p *problem) optimise(ctx context.Context, x0 []float64) ([]float64, float6
 			fx = fg(x) // refresh the cached gradient for the restart
 		}
 	}
-	if converged {
-		return x, fx, true, nil
-	}
-	f, conv, err := simplexRestarts(ctx, p.objective, x, fx, p.steps(x), 1e-8, 2000*d, 1e-7, 0)
-	if err != nil {
-		return nil, 0, false, err
-	}
-	return x, f, conv, nil
+	return fx, converged, nil
 }
 
 // ctxStatus returns a Problem.Status function that ends the search with

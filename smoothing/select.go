@@ -27,9 +27,24 @@ const (
 
 // Select fits every admissible ETS model to a series and keeps the one
 // with the lowest information criterion. It implements almanac.Model; Fit
-// returns the chosen *Fitted. The zero value is the common-practice
-// default: AICc; error A and M; trend N, A, Ad; season N, A, M (when the
-// series has a period of 2..MaxPeriod and at least two full seasons).
+// returns the chosen *Fitted. The zero value is the default: AICc; error
+// A and M; trend N and Ad; season N, A, M (when the series has a period
+// of 2..MaxPeriod and at least two full seasons).
+//
+// Undamped trends are left out of the default set (UndampedTrends adds
+// them), on evidence from the M3 competition data (Makridakis & Hibon
+// 2000; all 3,003 series, fit on the training part, sMAPE over the test
+// part): AICc picked an undamped additive trend for 1,192 of them (230
+// of the 645 yearly series as ETS(M,A,N), sMAPE 19.9 there against 17.0
+// for the damped trend alone), because the in-sample likelihood cannot
+// see the cost of extrapolating a trend without damping. With trends N
+// and Ad the sMAPE is 16.75 yearly, 9.34 quarterly, 13.93 monthly, 4.30
+// other and 13.12 over all series, against 17.65, 9.63, 14.52, 4.31 and
+// 13.66 with trends N, A and Ad. Counting σ² among the parameters
+// (13.68 without it), the cap φ ≤ 0.98 and damped fits ending below
+// their undamped neighbour's likelihood (letting each damped candidate
+// score at least its neighbour's likelihood: 13.66) did not change the
+// outcome measurably.
 //
 // Excluded from the candidate set:
 //   - multiplicative error, trend or season when any value is ≤ 0;
@@ -56,9 +71,14 @@ type Select struct {
 	Errors  []ErrorType
 	Trends  []TrendType
 	Seasons []SeasonType
-	// MultiplicativeTrends adds M and Md trends to the default set of
-	// trends (ignored when Trends is set). Default false.
+	// MultiplicativeTrends adds the damped multiplicative trend Md to the
+	// default set of trends, and with UndampedTrends also M (ignored when
+	// Trends is set). Default false.
 	MultiplicativeTrends bool
+	// UndampedTrends adds the undamped trends (A, and M with
+	// MultiplicativeTrends) to the default set (ignored when Trends is
+	// set). Default false: see above.
+	UndampedTrends bool
 	// AllowUnstable admits additive error with multiplicative trend or
 	// season.
 	AllowUnstable bool
@@ -132,9 +152,15 @@ func (s Select) candidates(y almanac.Series) ([]Spec, error) {
 	}
 	trends := s.Trends
 	if trends == nil {
-		trends = []TrendType{NoTrend, AdditiveTrend, DampedTrend}
+		trends = []TrendType{NoTrend, DampedTrend}
+		if s.UndampedTrends {
+			trends = []TrendType{NoTrend, AdditiveTrend, DampedTrend}
+		}
 		if s.MultiplicativeTrends {
-			trends = append(trends, MultiplicativeTrend, DampedMultiplicativeTrend)
+			if s.UndampedTrends {
+				trends = append(trends, MultiplicativeTrend)
+			}
+			trends = append(trends, DampedMultiplicativeTrend)
 		}
 	}
 	m := s.Period

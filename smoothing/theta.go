@@ -162,6 +162,7 @@ type ThetaFit struct {
 	Indices  []float64
 
 	n      int
+	sigma  float64 // √Sigma2, kept apart so it never overflows
 	start  time.Time
 	freq   calendar.Frequency
 	fitted []float64
@@ -262,33 +263,49 @@ func (s Theta) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 		}
 	}
 
+	// Estimate on x/s0 (s0 = max |x|) so sums of squares cannot overflow,
+	// and map the results back: levels, slopes and the residual scale
+	// multiply by s0, sums of squares by s0².
+	s0 := 0.0
+	for _, v := range x {
+		s0 = math.Max(s0, math.Abs(v))
+	}
+	if !(s0 > 0) {
+		s0 = 1
+	}
+	xz := make([]float64, n)
+	for i, v := range x {
+		xz[i] = v / s0
+	}
+	var sseZ float64
 	if s.Alpha != 0 {
 		f.Alpha = s.Alpha
-		f.InitialLevel, f.SSE = sesProfile(x, s.Alpha)
+		f.InitialLevel, sseZ = sesProfile(xz, s.Alpha)
 	} else {
 		f.AlphaEstimated = true
 		obj := func(a float64) float64 {
-			_, sse := sesProfile(x, a)
+			_, sse := sesProfile(xz, a)
 			return sse
 		}
 		f.Alpha, _ = minimize1D(obj, sesAlphaLower, sesAlphaUpper, thetaGridN)
-		f.InitialLevel, f.SSE = sesProfile(x, f.Alpha)
+		f.InitialLevel, sseZ = sesProfile(xz, f.Alpha)
 	}
-	if math.IsNaN(f.SSE) || math.IsInf(f.SSE, 0) {
-		return nil, fmt.Errorf("smoothing: theta: %w: sum of squares not finite (values too large?)", almanac.ErrNotFitted)
+	if math.IsNaN(sseZ) || math.IsInf(sseZ, 0) {
+		return nil, fmt.Errorf("smoothing: theta: %w: sum of squares not finite", almanac.ErrNotFitted)
 	}
-	f.Intercept, f.Slope = olsTimeSlope(x)
-	f.Drift = (1 - 1/theta) * f.Slope
+	interceptZ, slopeZ := olsTimeSlope(xz)
+	driftZ := (1 - 1/theta) * slopeZ
 
 	// One-step fitted values: the Theta forecast from origin t (0-based)
 	// for h = 1: ℓ_t + Drift·(1 − (1−α)^t)/α.
 	levels := f.fitted
-	f.Level = sesFilterTo(levels, x, f.Alpha, f.InitialLevel)
+	levelZ := sesFilterTo(levels, xz, f.Alpha, f.InitialLevel)
 	pow, ss := 1.0, 0.0
 	for t := range n {
-		fit := levels[t] + f.Drift*(1-pow)/f.Alpha
-		e := x[t] - fit
+		fit := levels[t] + driftZ*(1-pow)/f.Alpha
+		e := xz[t] - fit
 		ss += e * e
+		fit *= s0
 		if adjust {
 			fit *= f.Indices[t%m]
 		}
@@ -296,7 +313,17 @@ func (s Theta) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 		f.resid[t] = y.Values[t] - fit
 		pow *= 1 - f.Alpha
 	}
-	f.Sigma2 = ss / float64(n)
+	f.InitialLevel *= s0
+	f.Level = levelZ * s0
+	f.Intercept, f.Slope, f.Drift = interceptZ*s0, slopeZ*s0, driftZ*s0
+	f.SSE = sseZ * s0 * s0
+	f.sigma = math.Sqrt(ss/float64(n)) * s0
+	f.Sigma2 = f.sigma * f.sigma
+	for _, v := range []float64{f.Level, f.Intercept, f.Slope, f.Drift, f.SSE, f.Sigma2} {
+		if math.IsInf(v, 0) || math.IsNaN(v) {
+			return nil, fmt.Errorf("smoothing: theta: %w: the fitted level, slope or residual variance is not representable in float64", almanac.ErrNonFinite)
+		}
+	}
 	return f, nil
 }
 
@@ -321,7 +348,7 @@ func (f *ThetaFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) 
 	sd := make([]float64, h)
 	a := f.Alpha
 	c := (1 - math.Pow(1-a, float64(f.n))) / a
-	sigma := math.Sqrt(f.Sigma2)
+	sigma := f.sigma
 	for i := range h {
 		mean[i] = f.Level + f.Drift*(float64(i)+c)
 		sd[i] = sigma * math.Sqrt(1+a*a*float64(i))
@@ -335,6 +362,9 @@ func (f *ThetaFit) Forecast(h int, levels ...float64) (almanac.Forecast, error) 
 	fc, err := almanac.NewForecast(f.start, f.freq, mean, dist, levels...)
 	if err != nil {
 		return almanac.Forecast{}, fmt.Errorf("smoothing: theta: %w", err)
+	}
+	if err := checkFinite(f.String(), fc); err != nil {
+		return almanac.Forecast{}, err
 	}
 	return fc, nil
 }
@@ -364,7 +394,7 @@ func (f *ThetaFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
 	rng := rand.New(src)
 	a := f.Alpha
 	c := (1 - math.Pow(1-a, float64(f.n))) / a
-	sigma := math.Sqrt(f.Sigma2)
+	sigma := f.sigma
 	paths := make([][]float64, n)
 	for i := range paths {
 		p := make([]float64, h)

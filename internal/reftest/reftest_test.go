@@ -63,3 +63,32 @@ func TestLoadRejectsFixtureWithoutKind(t *testing.T) {
 		t.Error("fixture without kind accepted")
 	}
 }
+
+func TestToleranceAt(t *testing.T) {
+	f := &Fixture{Case: "c", Doc: map[string]any{"tolerance": map[string]any{
+		"acf":        map[string]any{"abs": 1e-13, "why": "closed form"},
+		"acf.values": map[string]any{"rel": 1e-9},
+		"pacf":       map[string]any{"why": "only informative"},
+		"llf":        map[string]any{"bar": "go_llf >= expect - 1e-9 * abs(expect)"},
+		"*":          map[string]any{"abs": 1e-6, "rel": 1e-6},
+	}}}
+	for _, tt := range []struct {
+		path     string
+		key      string
+		abs, rel float64
+		info     bool
+	}{
+		{"acf.values", "acf.values", 0, 1e-9, false},
+		{"acf.lags", "acf", 1e-13, 0, false},
+		{"pacf.values", "pacf", 0, 0, true},
+		{"me", "*", 1e-6, 1e-6, false},
+	} {
+		got := f.ToleranceAt(t, tt.path)
+		if got.Key != tt.key || got.Abs != tt.abs || got.Rel != tt.rel || got.Informative != tt.info {
+			t.Errorf("%s: %+v", tt.path, got)
+		}
+	}
+	if r := f.ToleranceAt(t, "llf").BarRel(t); r != 1e-9 {
+		t.Errorf("bar factor %v", r)
+	}
+}

@@ -18,7 +18,11 @@
 // # Numerical notes
 //
 // The moving average is a direct weighted sum per point (no running
-// sums, so no drift). Multiplicative decomposition divides by the trend
+// sums, so no drift). Classical and IsSeasonal work on the data
+// multiplied by a power of two that brings the largest magnitude near
+// 2^256 (internal/scaling): bit-identical results on ordinary data, no
+// overflow near 1e308, and ErrOverflow for a component beyond the float64
+// range. Multiplicative decomposition divides by the trend
 // and needs a trend that is never zero. IsSeasonal's bound uses Bartlett's
 // approximation to the variance of r_m under the hypothesis that the
 // autocorrelations beyond lag m−1 are zero (common practice).

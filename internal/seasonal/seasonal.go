@@ -4,12 +4,19 @@ import (
 	"errors"
 	"math"
 
+	"github.com/almanac-go/almanac/internal/scaling"
 	"github.com/almanac-go/almanac/internal/tsstat"
 )
 
-// ErrShort reports a series with fewer than two full periods, or a period
-// below 2.
-var ErrShort = errors.New("seasonal: need period ≥ 2 and at least two full periods")
+var (
+	// ErrShort reports a series with fewer than two full periods, or a
+	// period below 2.
+	ErrShort = errors.New("seasonal: need period ≥ 2 and at least two full periods")
+	// ErrOverflow reports finite data whose decomposition has a
+	// component beyond the float64 range (for example a remainder of
+	// 2e308).
+	ErrOverflow = errors.New("seasonal: a component overflows float64")
+)
 
 // Result is a classical decomposition. Trend and Remainder are NaN for the
 // first and last floor(m/2) observations (and wherever a missing value
@@ -66,10 +73,35 @@ func MovingAverage(y []float64, m int) []float64 {
 // divides instead of subtracting and needs a trend that is never zero.
 // Missing values in y propagate to the trend windows that contain them and
 // are ignored in the seasonal means.
+//
+// The work is done on y·2^k with the largest |y| near 2^256
+// (internal/scaling), and the components in the units of y are scaled
+// back: the results are bit for bit those of the unscaled computation
+// when that neither overflows nor underflows, and data near the float64
+// limit do not overflow. A component that does not fit in a float64
+// gives ErrOverflow.
 func Classical(y []float64, m int, multiplicative bool) (Result, error) {
 	if m < 2 || len(y) < 2*m {
 		return Result{}, ErrShort
 	}
+	k := scaling.Exponent(y)
+	r := classical(scaling.Scale(nil, y, k), m, multiplicative)
+	units := [][]float64{r.Trend}
+	if !multiplicative {
+		units = append(units, r.Seasonal, r.Remainder, r.Figure)
+	}
+	for _, c := range units {
+		scaling.Scale(c, c, -k)
+	}
+	for _, c := range [][]float64{r.Trend, r.Seasonal, r.Remainder, r.Figure} {
+		if !scaling.NoInf(c) {
+			return Result{}, ErrOverflow
+		}
+	}
+	return r, nil
+}
+
+func classical(y []float64, m int, multiplicative bool) Result {
 	n := len(y)
 	trend := MovingAverage(y, m)
 	sums := make([]float64, m)
@@ -111,7 +143,7 @@ func Classical(y []float64, m int, multiplicative bool) (Result, error) {
 			rem[i] = y[i] - seas[i] - trend[i]
 		}
 	}
-	return Result{Trend: trend, Seasonal: seas, Remainder: rem, Figure: figure}, nil
+	return Result{Trend: trend, Seasonal: seas, Remainder: rem, Figure: figure}
 }
 
 // IsSeasonal is the autocorrelation test for seasonality used with the
@@ -119,13 +151,15 @@ func Classical(y []float64, m int, multiplicative bool) (Result, error) {
 // r the sample autocorrelations of y, y is seasonal with period m iff
 // m > 1, n ≥ 3m and |r_m| > z·√((1 + 2 Σ_{i=1}^{m−1} r_i²)/n), where
 // z = 1.645 gives the usual 90% level (two-sided; common practice).
-// y must be complete.
+// y must be complete. The autocorrelations are computed on y rescaled by
+// a power of two (they do not depend on the scale), so data near the
+// float64 limit are tested like any other.
 func IsSeasonal(y []float64, m int, z float64) bool {
 	n := len(y)
 	if m <= 1 || n < 3*m {
 		return false
 	}
-	r := tsstat.ACF(y, m)
+	r := tsstat.ACF(scaling.Scale(nil, y, scaling.Exponent(y)), m)
 	if math.IsNaN(r[m]) {
 		return false
 	}

@@ -15,4 +15,7 @@ var (
 	ErrNonFinite = errors.New("non-finite value")
 	// ErrLength: an output buffer of the wrong length.
 	ErrLength = errors.New("mismatched lengths")
+	// ErrOverflow: a component is not representable in float64 (finite
+	// data whose trend, seasonal or remainder lies beyond ±1.8e308).
+	ErrOverflow = errors.New("component overflows float64")
 )

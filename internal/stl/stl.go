@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"slices"
+
+	"github.com/almanac-go/almanac/internal/scaling"
 )
 
 // Params are the settings of one STL run, in R's terms. Every field is
@@ -136,6 +138,7 @@ func (p Params) Validate(n int) error {
 // use. A Workspace must not be used by two goroutines at once.
 type Workspace struct {
 	work [5][]float64 // n + 2·period each, as the Fortran's work(n+2np, 5)
+	ys   []float64    // the data rescaled by a power of two
 	rw   []float64    // robustness weights
 	sel  []float64    // scratch for the median
 	kern kernel       // tabulated tricube weights
@@ -154,6 +157,7 @@ func (w *Workspace) resize(n, period int) {
 		w.work[i] = grow(w.work[i], m)
 	}
 	w.rw = grow(w.rw, n)
+	w.ys = grow(w.ys, n)
 	w.sel = grow(w.sel, n)
 	w.kern.buf = grow(w.kern.buf, 2*m+1)
 	w.kern.tab = nil
@@ -176,8 +180,17 @@ func Decompose(y []float64, p Params) (seasonal, trend, remainder, weights []flo
 
 // DecomposeTo runs STL on y with parameters p, writing the components
 // into seasonal, trend, remainder and weights (each of length len(y)).
-// The error wraps ErrLength, ErrNonFinite, ErrPeriod, ErrTooShort or
-// ErrParams; on error the outputs are unspecified.
+// The error wraps ErrLength, ErrNonFinite, ErrPeriod, ErrTooShort,
+// ErrParams or ErrOverflow; on error the outputs are unspecified.
+//
+// The computation runs on y·2^k, with k chosen (internal/scaling) so that
+// the largest |y| is near 2^256, and the components are scaled back by
+// 2^−k. STL is equivariant under scaling and multiplying by a power of
+// two is exact, so the result is bit for bit the same as without the
+// rescaling whenever that would neither overflow nor underflow; data near
+// the float64 limit (1e308) no longer overflow inside the smoothers. A
+// component that does not fit in a float64 once scaled back (for example
+// a remainder of 2e308) gives ErrOverflow.
 func (w *Workspace) DecomposeTo(seasonal, trend, remainder, weights, y []float64, p Params) error {
 	n := len(y)
 	if len(seasonal) != n || len(trend) != n || len(remainder) != n || len(weights) != n {
@@ -193,12 +206,27 @@ func (w *Workspace) DecomposeTo(seasonal, trend, remainder, weights, y []float64
 	}
 	q := p.Effective()
 	w.resize(n, q.Period)
-	w.run(y, q, seasonal, trend, weights)
+	k := scaling.Exponent(y)
+	ys := scaling.Scale(w.ys[:n], y, k)
+	if err := w.run(ys, q, seasonal, trend, weights); err != nil {
+		return err
+	}
 	if p.Periodic {
 		cycleMeans(seasonal, q.Period)
 	}
-	for i := range y {
-		remainder[i] = y[i] - seasonal[i] - trend[i]
+	for i := range ys {
+		remainder[i] = ys[i] - seasonal[i] - trend[i]
+	}
+	for _, c := range [][]float64{seasonal, trend, remainder} {
+		scaling.Scale(c, c, -k)
+	}
+	for _, c := range []struct {
+		name string
+		x    []float64
+	}{{"seasonal", seasonal}, {"trend", trend}, {"remainder", remainder}} {
+		if !scaling.Finite(c.x) {
+			return fmt.Errorf("stl: %w: the %s component exceeds the float64 range", ErrOverflow, c.name)
+		}
 	}
 	return nil
 }
@@ -227,8 +255,12 @@ func cycleMeans(s []float64, period int) {
 }
 
 // run is the Fortran subroutine stl: Outer+1 passes of stlstp with the
-// robustness weights updated in between.
-func (w *Workspace) run(y []float64, p Params, season, trend, rw []float64) {
+// robustness weights updated in between. It returns an error wrapping
+// ErrOverflow when a fit is not finite (which the rescaling in
+// DecomposeTo rules out for finite data; the check keeps NaN away from
+// the partial sort, which assumes ordered values and would run past the
+// ends of its array on NaN).
+func (w *Workspace) run(y []float64, p Params, season, trend, rw []float64) error {
 	n := len(y)
 	for i := range trend {
 		trend[i] = 0
@@ -244,7 +276,9 @@ func (w *Workspace) run(y []float64, p Params, season, trend, rw []float64) {
 		for i := range fit {
 			fit[i] = trend[i] + season[i]
 		}
-		robustnessWeights(rw, y, fit, w.sel[:n], p.ExactMedian)
+		if !robustnessWeights(rw, y, fit, w.sel[:n], p.ExactMedian) {
+			return fmt.Errorf("stl: %w: the fit of robustness pass %d is not finite", ErrOverflow, k)
+		}
 		userw = true
 	}
 	if p.Outer <= 0 {
@@ -252,6 +286,7 @@ func (w *Workspace) run(y []float64, p Params, season, trend, rw []float64) {
 			rw[i] = 1
 		}
 	}
+	return nil
 }
 
 // step is the Fortran stlstp: Inner inner iterations.
@@ -289,10 +324,17 @@ func (w *Workspace) step(y []float64, p Params, userw bool, rw, season, trend []
 //
 // With exact, the two middle order statistics are found by sorting, so
 // cmad is six times the median.
-func robustnessWeights(rw, y, fit, scratch []float64, exact bool) {
+//
+// It returns false, leaving rw unchanged, when a residual is NaN or ±Inf:
+// neither sort can order those (psort would index outside a on NaN).
+func robustnessWeights(rw, y, fit, scratch []float64, exact bool) bool {
 	n := len(y)
 	for i := range scratch {
-		scratch[i] = math.Abs(y[i] - fit[i])
+		r := math.Abs(y[i] - fit[i])
+		if !(r <= math.MaxFloat64) { // NaN or +Inf
+			return false
+		}
+		scratch[i] = r
 	}
 	mid := [2]int{n/2 + 1, 0}
 	mid[1] = n - mid[0] + 1
@@ -317,6 +359,7 @@ func robustnessWeights(rw, y, fit, scratch []float64, exact bool) {
 			rw[i] = 0
 		}
 	}
+	return true
 }
 
 // subseries is the Fortran stlss: loess of each cycle-subseries of y

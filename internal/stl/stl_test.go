@@ -271,3 +271,123 @@ func TestExactMedian(t *testing.T) {
 		}
 	}
 }
+
+// TestExtremeValues (issue 11, item 1): data near the float64 limit used
+// to overflow inside the smoothers, giving NaN components, and with
+// robustness passes NaN residuals reached the partial sort, which ran off
+// its array (index out of range [-1]). Now every case gives finite
+// components that add back to the data, or ErrOverflow when a component
+// itself is beyond the float64 range.
+func TestExtremeValues(t *testing.T) {
+	rep := func(n int, f func(i int) float64) []float64 {
+		y := make([]float64, n)
+		for i := range y {
+			y[i] = f(i)
+		}
+		return y
+	}
+	const big = 1e308
+	tests := []struct {
+		name     string
+		y        []float64
+		overflow bool
+	}{
+		{"twelve values of 1e308", rep(12, func(int) float64 { return big }), false},
+		{"alternating ±1e308", rep(12, func(i int) float64 { return big * float64(1-2*(i%2)) }), false},
+		{"one 1e308 spike", rep(24, func(i int) float64 {
+			if i == 9 {
+				return big
+			}
+			return 10 + float64(i%4)
+		}), false},
+		{"tiny values", rep(16, func(i int) float64 { return 1e-300 * float64(1+i%4) }), false},
+		{"mixed tiny and huge", rep(16, func(i int) float64 { return []float64{1e-300, 1e300, 3, -1e300}[i%4] }), false},
+		// A +1.7e308 spike in a series at −1.7e308: the remainder there is
+		// about 3.4e308, which no float64 holds.
+		{"remainder beyond the range", rep(20, func(i int) float64 {
+			if i == 10 {
+				return math.MaxFloat64
+			}
+			return -math.MaxFloat64
+		}), true},
+	}
+	for _, tt := range tests {
+		for _, v := range []struct {
+			name string
+			p    func(n int) Params
+		}{
+			{"plain", func(n int) Params { return Defaults(n, 4, 7, false, false) }},
+			{"periodic", func(n int) Params { return Defaults(n, 4, 0, true, false) }},
+			{"robust", func(n int) Params { return Defaults(n, 4, 7, false, true) }},
+			{"robust exact median", func(n int) Params { p := Defaults(n, 4, 7, false, true); p.ExactMedian = true; return p }},
+		} {
+			t.Run(tt.name+"/"+v.name, func(t *testing.T) {
+				s, tr, r, w, err := Decompose(tt.y, v.p(len(tt.y)))
+				if tt.overflow {
+					if !errors.Is(err, ErrOverflow) {
+						t.Fatalf("err = %v, want ErrOverflow", err)
+					}
+					return
+				}
+				if err != nil {
+					t.Fatal(err)
+				}
+				for i := range tt.y {
+					for _, c := range []float64{s[i], tr[i], r[i], w[i]} {
+						if math.IsNaN(c) || math.IsInf(c, 0) {
+							t.Fatalf("index %d: components %v %v %v %v", i, s[i], tr[i], r[i], w[i])
+						}
+					}
+					// y = s + t + r, compared at half scale so the sum
+					// itself cannot overflow.
+					sum := s[i]/2 + tr[i]/2 + r[i]/2
+					if math.Abs(sum-tt.y[i]/2) > 1e-12*math.Max(math.Abs(tt.y[i]/2), 1e-300)+math.Abs(s[i])*1e-12 {
+						t.Errorf("index %d: %v + %v + %v does not add back to %v", i, s[i], tr[i], r[i], tt.y[i])
+					}
+				}
+			})
+		}
+	}
+}
+
+// TestPowerOfTwoScaling: the components of y·2^j are exactly 2^j times
+// those of y (the rescaling and STL's equivariance), so scale invariance
+// is exact for powers of two.
+func TestPowerOfTwoScaling(t *testing.T) {
+	y := loadInput(t, "stl_airpassengers_log_swin13_robust")
+	p := Defaults(len(y), 12, 13, false, true)
+	s0, t0, r0, w0, err := Decompose(y, p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, j := range []int{-900, -20, 7, 900} {
+		yj := make([]float64, len(y))
+		for i, v := range y {
+			yj[i] = math.Ldexp(v, j)
+		}
+		s, tr, r, w, err := Decompose(yj, p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range y {
+			if s[i] != math.Ldexp(s0[i], j) || tr[i] != math.Ldexp(t0[i], j) || r[i] != math.Ldexp(r0[i], j) || w[i] != w0[i] {
+				t.Fatalf("2^%d: index %d differs", j, i)
+			}
+		}
+	}
+}
+
+// TestRobustnessWeightsRefuseNaN: a NaN or infinite residual is refused
+// before the partial sort (which indexes outside its array on NaN).
+func TestRobustnessWeightsRefuseNaN(t *testing.T) {
+	y := []float64{1, 2, 3, 4, 5, 6}
+	for _, bad := range []float64{math.NaN(), math.Inf(1), math.Inf(-1)} {
+		fit := []float64{1, 2, bad, 4, 5, 6}
+		rw := make([]float64, len(y))
+		for _, exact := range []bool{false, true} {
+			if robustnessWeights(rw, y, fit, make([]float64, len(y)), exact) {
+				t.Errorf("fit with %v accepted (exact %v)", bad, exact)
+			}
+		}
+	}
+}
