@@ -30,9 +30,9 @@ import (
 //     instead.
 //   - Yearly, quarterly, monthly and other series with one whole seasonal
 //     period of at most 24: the mean of the forecasts of the automatic
-//     ETS choice (smoothing.Select among models without an undamped
-//     trend), the automatic ARIMA (arima.Search) and the Theta method
-//     (RouteCombination), combined by almanac.Combination.
+//     ETS choice (smoothing.Select), the automatic ARIMA (arima.Search)
+//     and the Theta method (RouteCombination), combined by
+//     almanac.Combination.
 //   - Weekly series (a year of 365.25/7 weeks) of more than two years:
 //     the non-seasonal combination on the series adjusted by STL at 52
 //     weeks, Theta with a 52-week seasonal adjustment, and dynamic

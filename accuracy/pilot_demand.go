@@ -113,8 +113,9 @@ func classifyDemand(y []float64) DemandClass {
 }
 
 // intermittentStage fits the Syntetos–Boylan approximation with its
-// constant estimated (0.1 when the series is too short to estimate it),
-// with sample paths from a bootstrap of the fitted process.
+// constant estimated (0.1 when the series is too short to estimate it);
+// its bands and sample paths are those of smoothing's intermittent-demand
+// fit (simulated from the fitted process, never below zero).
 func intermittentStage() stage {
 	return stage{route: RouteIntermittent, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
 		var dropped []string
@@ -125,72 +126,8 @@ func intermittentStage() stage {
 				return nil, dropped, err
 			}
 		}
-		if _, ok := fit.(almanac.Simulator); ok {
-			return fit, dropped, nil
-		}
-		im, ok := fit.(*smoothing.IntermittentFit)
-		if !ok {
-			return nil, dropped, fmt.Errorf("%w: %s has no sample paths", almanac.ErrNoDistribution, fit)
-		}
-		return newDemandPaths(im, y.Values), dropped, nil
+		return fit, dropped, nil
 	}}
-}
-
-// demandPaths gives an intermittent-demand fit sample paths by a
-// bootstrap of the fitted process: at each step demand occurs with the
-// fitted probability (1/p, the smoothed interval), independently of the
-// other steps, and its size is a non-zero demand of the history drawn
-// at random and rescaled so that the sizes average the smoothed size z.
-// The paths are never negative. Their mean, probability × z, is
-// Croston's z/p; the point forecast stays the fit's own (SBA's is
-// (1 − α/2)·z/p).
-type demandPaths struct {
-	*smoothing.IntermittentFit
-	sizes []float64 // rescaled non-zero demands
-}
-
-func newDemandPaths(f *smoothing.IntermittentFit, y []float64) *demandPaths {
-	d := &demandPaths{IntermittentFit: f}
-	sum := 0.0
-	for _, v := range y {
-		if v > 0 {
-			d.sizes = append(d.sizes, v)
-			sum += v
-		}
-	}
-	if len(d.sizes) > 0 && sum > 0 {
-		k := f.Size / (sum / float64(len(d.sizes)))
-		for i := range d.sizes {
-			d.sizes[i] *= k
-		}
-	}
-	return d
-}
-
-// Simulate draws n paths of h steps with src.
-func (d *demandPaths) Simulate(h, n int, src rand.Source) ([][]float64, error) {
-	if err := almanac.CheckHorizon(h); err != nil {
-		return nil, fmt.Errorf("accuracy: demand paths: %w", err)
-	}
-	if n < 1 || src == nil {
-		return nil, fmt.Errorf("accuracy: demand paths: %w: %d paths or a nil source", almanac.ErrInvalid, n)
-	}
-	rng := rand.New(src)
-	p := d.Probability
-	if math.IsNaN(p) || p < 0 {
-		p = 0
-	}
-	out := make([][]float64, n)
-	for i := range out {
-		path := make([]float64, h)
-		for j := range path {
-			if len(d.sizes) > 0 && rng.Float64() < p {
-				path[j] = d.sizes[rng.IntN(len(d.sizes))]
-			}
-		}
-		out[i] = path
-	}
-	return out, nil
 }
 
 // lastValue forecasts the last observed value of a series with a single

@@ -77,7 +77,7 @@ func ExamplePilot_catalogue() {
 	// Output:
 	// rakes: combination, next month 83.833 [81.830, 85.875]
 	// seed trays: combination, next month 335.520 [326.935, 344.183]
-	// spare blades: intermittent, next month 0.617 [0.000, 3.058]
+	// spare blades: intermittent, next month 0.617 [0.000, 2.575]
 }
 
 // catalogueCSV writes the invented catalogue of ExamplePilot_catalogue.
