@@ -42,7 +42,7 @@ type Fitted interface {
 	// model documents (normally y − fitted), NaN where undefined.
 	Residuals() []float64
 	// String returns the model in its published notation, e.g.
-	// "ETS(M,Ad,M)" or "ARIMA(0,1,1)(0,1,1)[12]". This text is stable.
+	// "ETS(M,Ad,M)" or "ARIMA(0,1,1)×(0,1,1)_12". This text is stable.
 	String() string
 }
 

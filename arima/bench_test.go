@@ -103,7 +103,7 @@ func BenchmarkLikelihood(b *testing.B) {
 		spec Spec
 	}{
 		{"airline", airline},
-		{"ARIMA(2,0,1)(1,0,0)[12]", Spec{P: 2, Q: 1, SP: 1, Constant: ConstantNone, Method: ML}},
+		{"ARIMA(2,0,1)×(1,0,0)_12", Spec{P: 2, Q: 1, SP: 1, Constant: ConstantNone, Method: ML}},
 	} {
 		for _, n := range []int{144, 576} {
 			vals := make([]float64, n)

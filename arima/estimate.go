@@ -187,10 +187,10 @@ func (pr *problem) adjust(c []float64) {
 func (pr *problem) likelihood(c []float64, resid []float64) (filterResult, bool) {
 	pr.lay.expand(c, pr.phi, pr.theta)
 	pr.kal.setARMA(pr.phi, pr.theta)
-	if !pr.kal.init() {
+	pr.adjust(c)
+	if !pr.kal.initFor(pr.kal.chandrasekhar(pr.w, resid)) {
 		return filterResult{}, false
 	}
-	pr.adjust(c)
 	return pr.kal.filter(pr.w, resid), true
 }
 

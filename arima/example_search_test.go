@@ -36,10 +36,12 @@ func ExampleSearch() {
 		fmt.Println(err)
 		return
 	}
-	res := fit.(*arima.SearchResult)
-	fmt.Println("chosen:", res)
-	fmt.Printf("candidates tried: %d, AICc %.1f\n", len(res.Candidates), res.AICc())
-	fc, err := res.Forecast(3, 80)
+	// Search.Fit returns the chosen model as a *arima.Fitted, like
+	// Spec.Fit; the record of the search comes with it.
+	model := fit.(*arima.Fitted)
+	fmt.Println("chosen:", model)
+	fmt.Printf("candidates tried: %d, AICc %.1f\n", len(model.SearchResult().Candidates), model.AICc())
+	fc, err := fit.Forecast(3, 80)
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -49,36 +51,35 @@ func ExampleSearch() {
 		fmt.Printf("%s  %.0f  [%.0f, %.0f]\n", fc.Time(h).Format("2006-01"), fc.Mean[h], lo[h], hi[h])
 	}
 	// Output:
-	// chosen: ARIMA(1,0,1)(2,1,0)[12]
+	// chosen: ARIMA(1,0,1)×(2,1,0)_12
 	// candidates tried: 38, AICc 696.7
 	// 2025-01  265  [247, 282]
 	// 2025-02  283  [264, 301]
 	// 2025-03  302  [283, 321]
 }
 
-// ExampleSearch_exhaustive searches the whole bounded grid in parallel,
+// ExampleSearch_Compare searches the whole bounded grid in parallel,
 // ranks by BIC, and lists the three best candidates.
-func ExampleSearch_exhaustive() {
+func ExampleSearch_Compare() {
 	y := guestNights()
 	s := arima.Search{Exhaustive: true, Workers: 2, Criterion: arima.BIC, MaxP: 1, MaxQ: 1, MaxSP: 1, MaxSQ: 1}
-	fit, err := s.Fit(context.Background(), y)
+	res, err := s.Compare(context.Background(), y)
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	res := fit.(*arima.SearchResult)
-	fmt.Println("chosen:", res)
+	fmt.Println("chosen:", res.Model)
 	fmt.Println("grid size:", len(res.Candidates))
 	for _, i := range res.Ranked()[:3] {
 		c := res.Candidates[i]
 		fmt.Printf("%-36s BIC %.1f\n", c, c.Score)
 	}
 	// Output:
-	// chosen: ARIMA(1,0,1)(1,1,0)[12]
+	// chosen: ARIMA(1,0,1)×(1,1,0)_12
 	// grid size: 32
-	// ARIMA(1,0,1)(1,1,0)[12]              BIC 711.5
-	// ARIMA(1,0,1)(1,1,0)[12] + drift      BIC 715.6
-	// ARIMA(1,0,0)(0,1,1)[12]              BIC 722.2
+	// ARIMA(1,0,1)×(1,1,0)_12              BIC 711.5
+	// ARIMA(1,0,1)×(1,1,0)_12 + drift      BIC 715.6
+	// ARIMA(1,0,0)×(0,1,1)_12              BIC 722.2
 }
 
 // ExampleSearch_regressors chooses the ARIMA errors of a regression on a
@@ -105,7 +106,7 @@ func ExampleSearch_regressors() {
 		fmt.Println(err)
 		return
 	}
-	res := fit.(*arima.SearchResult)
+	res := fit.(*arima.Fitted)
 	fmt.Println("chosen:", res)
 	for _, c := range res.Coef() {
 		if c.Name == "promotion" {
@@ -162,26 +163,4 @@ func ExampleKPSS() {
 	// level: statistic 0.405, 2 lags, p-value 0.075 (not clipped), reject at 5%: false
 	// trend: statistic 0.022, 4 lags, p-value 0.100 (true p-value is larger)
 	// d = 0, D = 1 (seasonal strength 0.981)
-}
-
-// ExampleACF prints the autocorrelations that stand out from white noise.
-func ExampleACF() {
-	y := guestNights().Values
-	c, err := arima.ACF(y, 24)
-	if err != nil {
-		fmt.Println(err)
-		return
-	}
-	fmt.Printf("bound ±%.3f\n", c.Bound)
-	fmt.Printf("r(1) %.3f, r(6) %.3f, r(12) %.3f\n", c.Values[1], c.Values[6], c.Values[12])
-	p, err := arima.PACF(y, 24)
-	if err != nil {
-		fmt.Println(err)
-		return
-	}
-	fmt.Println("significant partial autocorrelations at lags", p.Significant())
-	// Output:
-	// bound ±0.200
-	// r(1) 0.848, r(6) -0.734, r(12) 0.847
-	// significant partial autocorrelations at lags [1 2 3 7 8 11]
 }

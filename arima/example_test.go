@@ -57,7 +57,7 @@ func ExampleSpec() {
 			math.Exp(fc.Intervals[0].Lower[h]), math.Exp(fc.Intervals[0].Upper[h]))
 	}
 	// Output:
-	// ARIMA(0,1,1)(0,1,1)[12]
+	// ARIMA(0,1,1)×(0,1,1)_12
 	// ma1 -0.911 (se 0.11)
 	// sma1 -0.896 (se 0.61)
 	// 2025-01 653 [607, 702]
@@ -139,7 +139,7 @@ func ExampleFitted_Simulate() {
 	fmt.Printf("mean total %.0f\n", fc.Mean[0]+fc.Mean[1]+fc.Mean[2])
 	fmt.Printf("P(total > 2150) ≈ %.2f\n", float64(over)/float64(len(paths)))
 	// Output:
-	// ARIMA(1,0,1)(0,1,0)[12]
+	// ARIMA(1,0,1)×(0,1,0)_12
 	// mean total 2092
 	// P(total > 2150) ≈ 0.25
 }

@@ -43,6 +43,8 @@ type Fitted struct {
 	sigma          float64   // √σ², kept separately so extreme scales do not under/overflow
 	covScale       []float64 // cov is for the coefficients divided by these (data scale for regression ones)
 	converged      bool
+
+	search *SearchResult // the record of the Search that chose the model, nil for Spec.Fit
 }
 
 var (
@@ -157,6 +159,11 @@ func (f *Fitted) Method() Method { return f.method }
 // returned).
 func (f *Fitted) Converged() bool { return f.converged }
 
+// SearchResult returns the record of the Search that chose this model
+// (every candidate tried, with its score), or nil when the model was
+// fitted by Spec.Fit.
+func (f *Fitted) SearchResult() *SearchResult { return f.search }
+
 // Spec returns the specification that was fitted.
 func (f *Fitted) Spec() Spec { return f.spec }
 
@@ -193,7 +200,7 @@ func (f *Fitted) FittedValues() []float64 {
 	return out
 }
 
-// String returns the model in the usual notation, "ARIMA(0,1,1)(0,1,1)[12]",
+// String returns the model in the notation of Spec.String, "ARIMA(0,1,1)×(0,1,1)_12",
 // with the deterministic and regression terms appended in our own form:
 // " + mean" or " + drift" when present and " + regressors(name, ...)"
 // when regressors were used, e.g.

@@ -360,7 +360,7 @@ func (m HarmonicRegression) fit(ctx context.Context, y almanac.Series) (*Harmoni
 	if err != nil {
 		return nil, err
 	}
-	c := sr.Fitted.Spec()
+	c := sr.Model.Spec()
 	spec := Spec{P: c.P, D: d, Q: c.Q, Constant: c.Constant, Calendar: final}
 	f, err := spec.fit(ctx, y)
 	if err != nil {

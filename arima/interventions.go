@@ -240,7 +240,7 @@ func (d Detection) detect(ctx context.Context, y almanac.Series) (*DetectionResu
 		if err != nil {
 			return nil, err
 		}
-		base = r.Fitted
+		base = r.Model
 		spec = base.Spec()
 		spec.Regressors, spec.Calendar = d.Search.Regressors, d.Search.Calendar
 		spec.Method = CSSThenML
@@ -319,7 +319,7 @@ func (d Detection) detect(ctx context.Context, y almanac.Series) (*DetectionResu
 		s2 := d.Search
 		s2.Calendar.Effects = append(append([]calendar.Effect(nil), baseEffects...), eventsOf(y, found, rate)...)
 		if r2, err := s2.searchTimed(ctx, y); err == nil {
-			c := r2.Fitted.Spec()
+			c := r2.Model.Spec()
 			if c.P != spec.P || c.D != spec.D || c.Q != spec.Q || c.SP != spec.SP || c.SD != spec.SD || c.SQ != spec.SQ || c.Constant != spec.Constant || c.Period != spec.Period {
 				old := spec
 				spec.P, spec.D, spec.Q, spec.SP, spec.SD, spec.SQ, spec.Period, spec.Constant = c.P, c.D, c.Q, c.SP, c.SD, c.SQ, c.Period, c.Constant

@@ -39,9 +39,11 @@ type LagRule int
 
 const (
 	// LagSquareRoot (the zero value): L = ⌊3√n/13⌋, capped at n−1, a short
-	// truncation commonly used when repeated KPSS tests choose the order
-	// of differencing (common practice; recalled from memory as the rule
-	// of the usual automatic order-selection step).
+	// truncation used in automatic order selection (recalled from
+	// memory). It is not a rule of the published sources (Kwiatkowski et
+	// al. 1992 use l4 and l12, LagShort and LagLong; Hobijn et al. 2004
+	// LagDataDependent); it is the default because Search forecasts the
+	// M3 data best with it (package documentation, Order selection).
 	LagSquareRoot LagRule = iota
 	// LagShort: L = ⌊4 (n/100)^(1/4)⌋, the "l4" rule of Kwiatkowski et
 	// al. (1992), capped at n−1.

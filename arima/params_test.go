@@ -102,8 +102,8 @@ func TestStationaryCovSolvesLyapunov(t *testing.T) {
 		lay  *layout
 		coef []float64
 	}{
-		{"ARMA(2,1)(1,0)[12]", newLayout(2, 0, 1, 1, 0, 0, 12, false, false, nil), []float64{0.5, -0.3, 0.4, 0.6}},
-		{"ARMA(1,2)(1,1)[4]", newLayout(1, 0, 2, 1, 0, 1, 4, false, false, nil), []float64{-0.7, 0.2, 0.3, 0.5, -0.4}},
+		{"ARMA(2,1)×(1,0)_12", newLayout(2, 0, 1, 1, 0, 0, 12, false, false, nil), []float64{0.5, -0.3, 0.4, 0.6}},
+		{"ARMA(1,2)×(1,1)_4", newLayout(1, 0, 2, 1, 0, 1, 4, false, false, nil), []float64{-0.7, 0.2, 0.3, 0.5, -0.4}},
 		{"AR(3)", newLayout(3, 0, 0, 0, 0, 0, 0, false, false, nil), []float64{0.6448, -0.0634, -0.2198}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

@@ -76,7 +76,7 @@ func TestSeriesFExactML(t *testing.T) {
 	numtest.Scalar(t, "sigma2", f.Sigma2(), 112.72, 5e-3, 1e-3)
 }
 
-// TestSeriesGAirline fits the airline model (0,1,1)(0,1,1)[12] to log
+// TestSeriesGAirline fits the airline model (0,1,1)×(0,1,1)_12 to log
 // Series G (monthly airline passengers 1949–1960) and checks it against
 // Box & Jenkins' published estimates θ ≈ 0.40, Θ ≈ 0.61,
 // σ_a² ≈ 1.34·10⁻³ — values recalled from memory (published.md marks them
@@ -91,7 +91,7 @@ func TestSeriesGAirline(t *testing.T) {
 		t.Fatal(err)
 	}
 	f := fm.(*Fitted)
-	if got := f.String(); got != "ARIMA(0,1,1)(0,1,1)[12]" {
+	if got := f.String(); got != "ARIMA(0,1,1)×(0,1,1)_12" {
 		t.Errorf("String() = %q", got)
 	}
 	c := coefMap(f)

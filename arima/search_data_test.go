@@ -41,3 +41,11 @@ var selAirPassengers = []float64{
 	360, 342, 406, 396, 420, 472, 548, 559, 463, 407, 362, 405, 417, 391, 419, 461, 472, 535, 622, 606,
 	508, 461, 390, 432,
 }
+
+// selSeriesF is Box, Jenkins & Reinsel's Series F (70 yields of a batch
+// chemical process) as printed in the NIST/SEMATECH e-Handbook of
+// Statistical Methods, section 6.4.4.9 (copied in
+// ../shared/reference/published.md).
+var selSeriesF = []float64{47, 64, 23, 71, 38, 64, 55, 41, 59, 48, 71, 35, 57, 40, 58, 44, 80, 55, 37, 74, 51, 57, 50, 60, 45, 57, 50, 45,
+	25, 59, 50, 71, 56, 74, 50, 58, 45, 54, 36, 54, 48, 55, 45, 57, 50, 62, 44, 64, 43, 52, 38, 59, 55, 41, 53, 49, 34, 35, 54, 45, 68,
+	38, 50, 60, 39, 59, 40, 57, 54, 23}

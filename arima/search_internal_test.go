@@ -62,8 +62,8 @@ func TestSearchStoppingRules(t *testing.T) {
 				if err != nil {
 					t.Fatal(err)
 				}
-				if r.String() != rf.String() || math.Float64bits(r.AICc()) != math.Float64bits(rf.AICc()) {
-					t.Errorf("chose %s (AICc %.8f); with the full rules %s (AICc %.8f)", r, r.AICc(), rf, rf.AICc())
+				if r.Model.String() != rf.Model.String() || math.Float64bits(r.Model.AICc()) != math.Float64bits(rf.Model.AICc()) {
+					t.Errorf("chose %s (AICc %.8f); with the full rules %s (AICc %.8f)", r.Model, r.Model.AICc(), rf.Model, rf.Model.AICc())
 				}
 				if s.Exhaustive {
 					return

@@ -24,23 +24,35 @@ func yearly(key string, v []float64) almanac.Series {
 	return almanac.Series{Key: key, Start: time.Date(1871, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Yearly, Values: v}
 }
 
-func searchFit(t *testing.T, s arima.Search, y almanac.Series) *arima.SearchResult {
+// searched is a model chosen by Search with the record of its search.
+type searched struct {
+	*arima.Fitted
+	*arima.SearchResult
+}
+
+// searchFit runs s.Fit, checks that it returns the chosen *arima.Fitted
+// (as Spec.Fit does) carrying its search record, and returns both.
+func searchFit(t *testing.T, s arima.Search, y almanac.Series) searched {
 	t.Helper()
 	f, err := s.Fit(context.Background(), y)
 	if err != nil {
 		t.Fatalf("%+v: %v", s, err)
 	}
-	r, ok := f.(*arima.SearchResult)
+	fit, ok := f.(*arima.Fitted)
 	if !ok {
-		t.Fatalf("Fit returned %T, want *arima.SearchResult", f)
+		t.Fatalf("Fit returned %T, want *arima.Fitted", f)
 	}
-	return r
+	r := fit.SearchResult()
+	if r == nil || r.Model != fit {
+		t.Fatalf("Fit's model has search record %p whose Model is not the model", r)
+	}
+	return searched{fit, r}
 }
 
 // TestSearchAirline: the stepwise search on log(AirPassengers).
 //
 // The well-known answer of the automatic stepwise algorithm on
-// log(AirPassengers) is ARIMA(0,1,1)(0,1,1)[12], the airline model of Box &
+// log(AirPassengers) is ARIMA(0,1,1)×(0,1,1)_12, the airline model of Box &
 // Jenkins (recalled from memory). The check that can fail independently of
 // that memory: the chosen model's AICc is not above the AICc of the airline
 // model fitted directly on the same differencing (d = 1, D = 1; Box &
@@ -60,8 +72,8 @@ func TestSearchAirline(t *testing.T) {
 	if got := r.AICc(); got > want+1e-9*math.Abs(want) {
 		t.Errorf("chosen %s has AICc %.6f, above the airline model's %.6f", r, got, want)
 	}
-	if got := r.String(); got != "ARIMA(0,1,1)(0,1,1)[12]" {
-		t.Errorf("chose %s, want ARIMA(0,1,1)(0,1,1)[12] (recalled from memory as the stepwise algorithm's answer)", got)
+	if got := r.String(); got != "ARIMA(0,1,1)×(0,1,1)_12" {
+		t.Errorf("chose %s, want ARIMA(0,1,1)×(0,1,1)_12 (recalled from memory as the stepwise algorithm's answer)", got)
 	}
 	// The record of the search: the chosen candidate is scored, its
 	// score is the smallest, and it matches the returned model.
@@ -72,7 +84,18 @@ func TestSearchAirline(t *testing.T) {
 	if ch.Err != nil || ch.Spec.P != sp.P || ch.Spec.Q != sp.Q || ch.Spec.SP != sp.SP || ch.Spec.SQ != sp.SQ {
 		t.Errorf("Candidates[Chosen] = %+v, fitted %s", ch, r)
 	}
-	numtest.Scalar(t, "chosen score", ch.Score, r.AICc(), 0, 0)
+	// Candidates are scored on the exact likelihood of the differenced
+	// series (DiffusePrior); the returned model is the Spec.Fit fit.
+	ds := ch.Spec
+	ds.Prior = arima.DiffusePrior
+	dm, err := ds.Fit(context.Background(), y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	numtest.Scalar(t, "chosen score", ch.Score, dm.(*arima.Fitted).AICc(), 0, 0)
+	if m, err := ch.Spec.Fit(context.Background(), y); err != nil || m.(*arima.Fitted).AICc() != r.AICc() {
+		t.Errorf("chosen model AICc %v, Spec.Fit of its spec %v (%v)", r.AICc(), m, err)
+	}
 	if rk := r.Ranked(); len(rk) == 0 || rk[0] != r.Chosen {
 		t.Errorf("Ranked() = %v, want the chosen %d first", rk, r.Chosen)
 	} else {
@@ -144,7 +167,7 @@ func TestSearchFixedDifferencing(t *testing.T) {
 func TestSearchExhaustiveDeterministic(t *testing.T) {
 	y := monthly("log AirPassengers", logOf(selAirPassengers))
 	base := arima.Search{Exhaustive: true, MaxP: 1, MaxQ: 1, MaxSP: 1, MaxSQ: 1}
-	var runs []*arima.SearchResult
+	var runs []searched
 	for _, w := range []int{1, 4} {
 		s := base
 		s.Workers = w
@@ -305,8 +328,9 @@ func TestSearchMissingValues(t *testing.T) {
 	}
 }
 
-// TestSearchRankedByCSS: a long series is searched by CSS and the chosen
-// model refitted by exact likelihood.
+// TestSearchRankedByCSS: a series searched by CSS (LikelihoodCSS; the
+// default ranks it by exact likelihood) has its chosen model refitted by
+// exact likelihood.
 func TestSearchRankedByCSS(t *testing.T) {
 	src := rand.New(rand.NewPCG(3, 5))
 	v := make([]float64, 240)
@@ -319,9 +343,13 @@ func TestSearchRankedByCSS(t *testing.T) {
 		}
 		e1 = e
 	}
-	r := searchFit(t, arima.Search{}, yearly("invented ARMA(1,1)", v))
+	y := yearly("invented ARMA(1,1)", v)
+	if r := searchFit(t, arima.Search{}, y); r.RankedByCSS {
+		t.Error("a 240-point yearly series was searched by CSS by default")
+	}
+	r := searchFit(t, arima.Search{Likelihood: arima.LikelihoodCSS}, y)
 	if !r.RankedByCSS {
-		t.Error("a 240-point series was not searched by CSS")
+		t.Error("LikelihoodCSS: the search was not ranked by CSS")
 	}
 	if r.Method() == arima.CSS {
 		t.Errorf("chosen model fitted by %v, want an exact refit", r.Method())

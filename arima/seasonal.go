@@ -92,13 +92,25 @@ func SeasonalStrength(y []float64, period, span int) (float64, error) {
 
 // selStrength computes F_s for complete data x with len(x) > 2·period.
 func selStrength(x []float64, period, span int) (float64, error) {
+	return strengthWith(x, stl.Defaults(len(x), period, span, false, false))
+}
+
+// strengthWith computes F_s for complete data x from the STL
+// decomposition with parameters p.
+func strengthWith(x []float64, p stl.Params) (float64, error) {
 	if selIsConstant(x) {
 		return 0, nil
 	}
-	s, _, r, _, err := stl.Decompose(x, stl.Defaults(len(x), period, span, false, false))
+	s, _, r, _, err := stl.Decompose(x, p)
 	if err != nil {
 		return 0, fmt.Errorf("arima: %w: seasonal strength: %v", almanac.ErrInvalid, err)
 	}
+	return strengthOf(s, r)
+}
+
+// strengthOf returns max(0, 1 − Var(r)/Var(s + r)) (s is overwritten by
+// s + r).
+func strengthOf(s, r []float64) (float64, error) {
 	for i := range s {
 		s[i] += r[i]
 	}

@@ -116,7 +116,7 @@ type Regressor struct {
 	Values []float64
 }
 
-// Spec is a seasonal ARIMA model (p,d,q)(P,D,Q)[Period], optionally with
+// Spec is a seasonal ARIMA model (p,d,q)×(P,D,Q)_Period, optionally with
 // a mean or drift and regressors (regression with ARIMA errors):
 //
 //	φ(B) Φ(B^s) (1−B)^d (1−B^s)^D (y_t − x_t'β) = θ(B) Θ(B^s) e_t,  e_t ~ N(0, σ²)
@@ -167,9 +167,11 @@ type Spec struct {
 
 var _ almanac.Model = Spec{}
 
-// String returns the model in the usual notation, e.g.
-// "ARIMA(0,1,1)(0,1,1)[12]" (the period shows as [s] when it is not yet
-// known from a series and Period is 0).
+// String returns the model in the multiplicative notation of Box &
+// Jenkins, the seasonal orders after "×" and the period after "_", e.g.
+// "ARIMA(0,1,1)×(0,1,1)_12" ("_s" when the period is not yet known from a
+// series and Period is 0); "ARIMA(2,1,0)" for a non-seasonal model. The
+// form is stable.
 func (s Spec) String() string {
 	return orderString(s.P, s.D, s.Q, s.SP, s.SD, s.SQ, s.Period)
 }
@@ -182,7 +184,7 @@ func orderString(p, d, q, sp, sd, sq, period int) string {
 		if period > 0 {
 			per = strconv.Itoa(period)
 		}
-		fmt.Fprintf(&b, "(%d,%d,%d)[%s]", sp, sd, sq, per)
+		fmt.Fprintf(&b, "×(%d,%d,%d)_%s", sp, sd, sq, per)
 	}
 	return b.String()
 }

@@ -231,7 +231,7 @@ func TestPartlyFixed(t *testing.T) {
 	if fit.NumParams() != 1 {
 		t.Errorf("NumParams = %d, want 1", fit.NumParams())
 	}
-	a, r := tol(t, f, "coef")
+	a, r, _ := tol(t, f, "coef")
 	numtest.Scalar(t, "sma1", c["sma1"].Value, f.Float(t, "expect.coef.sma1"), a, r)
 }
 
@@ -326,16 +326,21 @@ func TestDiffuseFilterEqualsShortcut(t *testing.T) {
 	}
 	pr := newProblem(lay, y.Slice(), nil, nil, DiffusePrior)
 	coef := []float64{f.Float(t, "expect.coef.ma1"), f.Float(t, "expect.coef.sma1")}
-	fast, _ := pr.likelihood(coef, nil)
+	// With residuals the shortcut runs the covariance recursion and keeps
+	// the final state; without, the Chandrasekhar recursions give the sums.
+	fast, _ := pr.likelihood(coef, make([]float64, y.Len()))
 	a1 := append([]float64(nil), pr.kal.a...)
+	chandra, _ := pr.likelihood(coef, nil)
 	pr.kal.init()
 	pr.adjust(coef)
 	full := pr.kal.filterDiffuse(pr.w, nil)
-	if fast.nu != full.nu || fast.nu != y.Len()-13 {
-		t.Fatalf("nu %d vs %d", fast.nu, full.nu)
+	if fast.nu != full.nu || fast.nu != y.Len()-13 || chandra.nu != full.nu {
+		t.Fatalf("nu %d, %d vs %d", fast.nu, chandra.nu, full.nu)
 	}
 	numtest.Scalar(t, "ssq", full.ssq, fast.ssq, 0, 1e-10)
 	numtest.Scalar(t, "sumlog", full.sumlog, fast.sumlog, 1e-10, 1e-10)
+	numtest.Scalar(t, "ssq (Chandrasekhar)", full.ssq, chandra.ssq, 0, 1e-10)
+	numtest.Scalar(t, "sumlog (Chandrasekhar)", full.sumlog, chandra.sumlog, 1e-10, 1e-10)
 	numtest.Slice(t, "state", pr.kal.a, a1, 1e-8, 1e-10)
 	if pr.kal.diffuseLeft() {
 		t.Error("diffuse part left after complete data")
@@ -484,6 +489,21 @@ func TestNoAllocPerLikelihood(t *testing.T) {
 			t.Errorf("%v with a missing value: ML objective allocates %v times per evaluation", s, n)
 		}
 	}
+	// A long series whose covariance recursion reaches the fixed gain
+	// (finite prior, seasonal differencing, period 24).
+	src := rand.New(rand.NewPCG(5, 6))
+	long := make([]float64, 960)
+	for i := range long {
+		long[i] = 10*math.Sin(2*math.Pi*float64(i%24)/24) + src.NormFloat64()
+	}
+	pr := newProblem(newLayout(1, 0, 1, 0, 1, 1, 24, false, false, nil), long, nil, nil, FinitePrior)
+	p := []float64{0.3, 0.2, -0.3}
+	if n := testing.AllocsPerRun(20, func() { pr.mlObjective(p, true) }); n != 0 {
+		t.Errorf("period 24, 960 values: ML objective allocates %v times per evaluation", n)
+	}
+	if pr.kal.steadyFrom < 0 {
+		t.Errorf("period 24, 960 values: the fixed gain was not reached")
+	}
 }
 
 func TestEnumStrings(t *testing.T) {
@@ -492,8 +512,8 @@ func TestEnumStrings(t *testing.T) {
 		{FinitePrior.String(), "finite"}, {DiffusePrior.String(), "diffuse"}, {Prior(4).String(), "Prior(4)"},
 		{ConstantAuto.String(), "auto"}, {ConstantNone.String(), "none"}, {ConstantInclude.String(), "include"}, {Constant(5).String(), "Constant(5)"},
 		{Spec{P: 1, D: 1, Q: 1}.String(), "ARIMA(1,1,1)"},
-		{Spec{D: 1, Q: 1, SD: 1, SQ: 1, Period: 12}.String(), "ARIMA(0,1,1)(0,1,1)[12]"},
-		{Spec{SP: 1}.String(), "ARIMA(0,0,0)(1,0,0)[s]"},
+		{Spec{D: 1, Q: 1, SD: 1, SQ: 1, Period: 12}.String(), "ARIMA(0,1,1)×(0,1,1)_12"},
+		{Spec{SP: 1}.String(), "ARIMA(0,0,0)×(1,0,0)_s"},
 	} {
 		if tc.got != tc.want {
 			t.Errorf("got %q, want %q", tc.got, tc.want)

@@ -164,8 +164,8 @@ func (s Search) searchTimed(ctx context.Context, y almanac.Series) (*SearchResul
 	if err != nil {
 		return nil, err
 	}
-	r.Fitted.timed = tm
-	r.Fitted.spec.Regressors = given.Regressors
-	r.Fitted.spec.Calendar = given.Calendar
+	r.Model.timed = tm
+	r.Model.spec.Regressors = given.Regressors
+	r.Model.spec.Calendar = given.Calendar
 	return r, nil
 }

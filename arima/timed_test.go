@@ -153,7 +153,7 @@ func TestCalendarLeftOut(t *testing.T) {
 	if _, err := r.Forecast(13, 95); err != nil {
 		t.Fatal(err)
 	}
-	if sp := r.(*SearchResult).Spec(); len(sp.Calendar.Effects) != 4 || len(sp.Regressors) != 0 {
+	if sp := r.(*Fitted).Spec(); len(sp.Calendar.Effects) != 4 || len(sp.Regressors) != 0 {
 		t.Errorf("Spec of the result: %d effects, %d regressors", len(sp.Calendar.Effects), len(sp.Regressors))
 	}
 }
