@@ -33,11 +33,12 @@ import (
 //     ETS choice (smoothing.Select), the automatic ARIMA (arima.Search)
 //     and the Theta method (RouteCombination), combined by
 //     almanac.Combination.
-//   - Weekly series (a year of 365.25/7 weeks) of more than two years:
-//     the non-seasonal combination on the series adjusted by STL at 52
-//     weeks, Theta with a 52-week seasonal adjustment, and dynamic
-//     harmonic regression on the exact year (arima.HarmonicRegression),
-//     combined (RouteWeekly).
+//   - Weekly series (a year of 365.25/7 weeks) of more than two years,
+//     and others with one cycle longer than 24 or not a whole number of
+//     observations: the non-seasonal combination on the series adjusted
+//     by STL at 52 weeks, Theta with a 52-week seasonal adjustment, and
+//     dynamic harmonic regression on the exact year
+//     (arima.HarmonicRegression), combined (RouteWeekly).
 //   - Daily, hourly and finer series (two seasonal periods: 7 and 365.25
 //     days, 24 and 168 hours): the non-seasonal combination on the series
 //     adjusted by MSTL at the periods with more than two cycles of data;

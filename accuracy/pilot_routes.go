@@ -34,10 +34,6 @@ type routeOpts struct {
 // longer cycles go by decomposition.
 const maxCombinationPeriod = smoothing.MaxPeriod
 
-// weeklyPeriod is the seasonal period of weekly data in whole weeks,
-// 365.25/7 rounded.
-const weeklyPeriod = 52
-
 // planRoutes lists the stages to try for y, best first, ending with the
 // benchmarks; decisions taken before fitting (a cycle the series is too
 // short for) are recorded in rep.Fallbacks.
@@ -65,12 +61,14 @@ func planRoutes(y almanac.Series, rep *PilotReport, o routeOpts) []stage {
 		}
 		plan = append(plan, combinationStage(RouteCombination, m, o))
 	case len(periods) == 1:
-		if n <= 2*weeklyPeriod {
-			rep.Fallbacks = append(rep.Fallbacks, fmt.Sprintf("%v: %d observed values, not more than two cycles of %d", RouteWeekly, n, weeklyPeriod))
+		// A long or non-integer cycle: the year of weekly data
+		// (365.25/7 weeks), or of fortnightly data.
+		if m := int(math.Round(periods[0])); n <= 2*m {
+			rep.Fallbacks = append(rep.Fallbacks, fmt.Sprintf("%v: %d observed values, not more than two cycles of %d", RouteWeekly, n, m))
 			nonSeasonalFirst = true
 			break
 		}
-		plan = append(plan, weeklyStage(o))
+		plan = append(plan, weeklyStage(periods[0], o))
 	default:
 		var usable []float64
 		for _, p := range periods {
@@ -163,15 +161,20 @@ func combinationStage(r Route, m int, o routeOpts) stage {
 // took MASE from 1.686 to 1.680 on the invented weekly series of
 // internal/synth and from 1.246 to 0.901 on 14 windows of the weekly
 // Mauna Loa CO2 record (../shared/data/co2_weekly.csv, 13 weeks ahead).
-func weeklyStage(o routeOpts) stage {
-	return stage{route: RouteWeekly, periods: []float64{365.25 / 7}, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
+//
+// The period p is the cycle in observations (365.25/7 for weekly data);
+// STL and Theta use it rounded to whole observations (52), the harmonic
+// regression exactly.
+func weeklyStage(p float64, o routeOpts) stage {
+	m := int(math.Round(p))
+	return stage{route: RouteWeekly, periods: []float64{p}, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
 		return combineMembers(ctx, y, o,
 			decompose.Forecaster{
-				Method: decompose.STL{Period: weeklyPeriod, Robust: true},
+				Method: decompose.STL{Period: m, Robust: true},
 				Model:  almanac.Combination{Members: nonSeasonal(), Seed: o.seed, Paths: o.paths},
 			},
-			smoothing.Theta{Period: weeklyPeriod},
-			arima.HarmonicRegression{},
+			smoothing.Theta{Period: m},
+			arima.HarmonicRegression{Periods: []float64{p}},
 		)
 	}}
 }

@@ -459,3 +459,21 @@ func TestPilotCyclicCounts(t *testing.T) {
 		t.Errorf("forecast at night %.2f, by day %.2f: the daily cycle is lost", night, day)
 	}
 }
+
+// TestPilotFortnightly: data every two weeks has a yearly cycle of
+// 365.25/14 ≈ 26.09 observations; it takes the weekly route at that
+// period.
+func TestPilotFortnightly(t *testing.T) {
+	w, _ := inventedWeekly(8*52, 0, 3)
+	v := make([]float64, 0, len(w.Values)/2)
+	for i := 0; i+1 < len(w.Values); i += 2 {
+		v = append(v, w.Values[i]+w.Values[i+1])
+	}
+	y := almanac.Series{Key: "fortnightly", Start: w.Start, Freq: calendar.Every(2, calendar.Week), Values: v}
+	f := fitPilot(t, y)
+	rep := f.Report()
+	if rep.Route != accuracy.RouteWeekly || len(rep.Periods) != 1 || math.Abs(rep.Periods[0]-365.25/14) > 1e-12 {
+		t.Fatalf("report %+v", rep)
+	}
+	checkForecast(t, f, 6)
+}
