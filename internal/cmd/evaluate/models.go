@@ -15,25 +15,28 @@ type entry struct {
 	name  string
 	about string
 	model almanac.Model
+	// pool, when set, lets the fits of the batch share information (the
+	// calibration of bands) before they forecast.
+	pool func([]almanac.BatchResult) ([]almanac.BatchResult, error)
 }
 
 // registry lists the models by the names -models accepts, in the order
 // -help prints them.
 func registry() []entry {
 	return []entry{
-		{"auto", "the automatic forecaster (accuracy.Pilot)", accuracy.Pilot{}},
+		{"auto", "the automatic forecaster (accuracy.Pilot)", accuracy.Pilot{}, nil},
 		{"combo", "mean of the ETS selection, the ARIMA search and Theta (almanac.Combination)", almanac.Combination{Members: []almanac.Model{
 			smoothing.Select{Workers: 1}, arima.Search{}, smoothing.Theta{},
-		}}},
-		{"ets", "ETS chosen by AICc (smoothing.Select)", smoothing.Select{Workers: 1}},
-		{"arima", "seasonal ARIMA with orders chosen by AICc (arima.Search)", arima.Search{}},
-		{"theta", "the Theta method (smoothing.Theta)", smoothing.Theta{}},
-		{"naive2", "M3/M4 Naive2: naive on the seasonally adjusted series", accuracy.Naive2{}},
-		{"snaive", "seasonal naive, the period from the frequency", almanac.SeasonalNaive{}},
-		{"naive", "naive (random walk)", almanac.Naive{}},
-		{"drift", "random walk with drift", almanac.Drift{}},
-		{"ses", "simple exponential smoothing, ETS(A,N,N)", smoothing.Spec{}},
-		{"damped", "damped trend, ETS(A,Ad,N)", smoothing.Spec{Trend: smoothing.DampedTrend}},
+		}}, nil},
+		{"ets", "ETS chosen by AICc (smoothing.Select)", smoothing.Select{Workers: 1}, nil},
+		{"arima", "seasonal ARIMA with orders chosen by AICc (arima.Search)", arima.Search{}, nil},
+		{"theta", "the Theta method (smoothing.Theta)", smoothing.Theta{}, nil},
+		{"naive2", "M3/M4 Naive2: naive on the seasonally adjusted series", accuracy.Naive2{}, nil},
+		{"snaive", "seasonal naive, the period from the frequency", almanac.SeasonalNaive{}, nil},
+		{"naive", "naive (random walk)", almanac.Naive{}, nil},
+		{"drift", "random walk with drift", almanac.Drift{}, nil},
+		{"ses", "simple exponential smoothing, ETS(A,N,N)", smoothing.Spec{}, nil},
+		{"damped", "damped trend, ETS(A,Ad,N)", smoothing.Spec{Trend: smoothing.DampedTrend}, nil},
 	}
 }
 

@@ -45,24 +45,37 @@ type result struct {
 	lo, hi [2][]float64
 }
 
-// evaluateOne fits m to the training part of it, forecasts the test part
-// and scores the forecast. seed makes the paths for the total's band
-// reproducible. Any panic is turned into a failure.
-func evaluateOne(ctx context.Context, m almanac.Model, it item, seed uint64) (r result) {
+// fitOne fits m to the training part of it, turning a panic into an
+// error, and returns the fit with the time it took.
+func fitOne(ctx context.Context, m almanac.Model, it item) (fit almanac.Fitted, secs float64, err error) {
 	defer func() {
 		if v := recover(); v != nil {
-			r = result{err: fmt.Errorf("%w: panic: %v", almanac.ErrNotFitted, v)}
+			fit, err = nil, fmt.Errorf("fit: %w: panic: %v", almanac.ErrNotFitted, v)
+		}
+	}()
+	t0 := time.Now()
+	fit, err = m.Fit(ctx, it.train)
+	secs = time.Since(t0).Seconds()
+	if err != nil {
+		return nil, secs, fmt.Errorf("fit: %w", err)
+	}
+	if fit == nil {
+		return nil, secs, fmt.Errorf("fit: %w: no fit and no error", almanac.ErrNotFitted)
+	}
+	return fit, secs, nil
+}
+
+// scoreFit forecasts the test part of it from a fitted model and scores
+// the forecast; fitSecs is the time the fit took. seed makes the paths
+// for the total's band reproducible. Any panic is turned into a failure.
+func scoreFit(fit almanac.Fitted, fitSecs float64, it item, seed uint64) (r result) {
+	defer func() {
+		if v := recover(); v != nil {
+			r = result{err: fmt.Errorf("forecast: %w: panic: %v", almanac.ErrNotFitted, v)}
 		}
 	}()
 	h := len(it.test)
 	t0 := time.Now()
-	fit, err := m.Fit(ctx, it.train)
-	if err != nil {
-		return result{err: fmt.Errorf("fit: %w", err)}
-	}
-	if fit == nil {
-		return result{err: fmt.Errorf("fit: %w: no fit and no error", almanac.ErrNotFitted)}
-	}
 	fc, err := fit.Forecast(h, levels[:]...)
 	bands := err == nil
 	if err != nil {
@@ -72,7 +85,7 @@ func evaluateOne(ctx context.Context, m almanac.Model, it item, seed uint64) (r 
 		}
 		r.note = "no bands: " + err.Error()
 	}
-	r.secs = time.Since(t0).Seconds()
+	r.secs = fitSecs + time.Since(t0).Seconds()
 	r.fit = fit.String()
 	if pf, ok := fit.(*accuracy.PilotFit); ok {
 		r.route = pf.Report().Route.String()
