@@ -1,7 +1,7 @@
 // Package accuracy measures forecasts against what happened: point error
 // measures, interval and quantile scores, residual diagnostics of fitted
-// models, and rolling-origin backtests of any almanac.Model against the
-// benchmark methods.
+// models, rolling-origin backtests of any almanac.Model against the
+// benchmark methods, and bands calibrated from out-of-sample errors.
 //
 // Point measures (error = actual − forecast): ME, MAE, MSE, RMSE, MAPE,
 // SMAPE (the M3 definition, in percent), MdAE, MASE and RMSSE (scaled by
@@ -67,6 +67,37 @@
 // (internal/cmd/evaluate): the M3 competition data and invented weekly,
 // daily and hourly series (internal/synth); the README gives the figures.
 //
+// # Calibrated bands
+//
+// Calibrated wraps any almanac.Model and sets its bands and sample paths
+// from the model's scale-free out-of-sample errors at rolling origins, per
+// horizon step, resampling whole error trajectories so that sums over the
+// horizon are calibrated too; PoolCalibration lets the fits of a batch
+// share the errors of their group, which short series need. See
+// Calibrated for the method, its assumptions (exchangeable scaled errors;
+// within a pool, across series) and its finite-sample behaviour. Measured
+// on all 3,003 M3 series with errors pooled by category (the defaults;
+// out-of-sample bands scored on the held-out test parts):
+//
+//	                        80% band          95% band        total over h
+//	                   coverage   MSIS   coverage   MSIS     80%     95%
+//	smoothing.Select       74.4   5.83       89.6  10.01    66.0    81.2
+//	  calibrated           81.9   5.99       96.4   9.72    82.9    96.3
+//	damped trend           73.6   7.54       87.4  14.26    62.6    75.3
+//	  calibrated           81.0   7.55       95.5  12.36    81.8    95.1
+//
+// ("damped trend" is smoothing.Spec ETS(A,Ad,N) without seasonal
+// adjustment; coverage in percent of the test values, MSIS as the M4
+// competition defines it, totals' coverage in percent of the series.) By
+// category the 80% coverage of the calibrated Select is 85.6 yearly,
+// 79.2 quarterly, 81.9 monthly and 84.8 other; by step it stays within
+// 76–88 (yearly series are over-covered at the first steps, 87%). Errors
+// from a series' own recent origins alone did worse than the model's
+// bands (M3 monthly, damped trend, 20 origins one step apart: 56%
+// coverage of the 80% bands against the model's 77%): consecutive
+// origins share most of their errors, so one series rarely has enough
+// independent ones. Calibrate catalogues with pooling.
+//
 // # Missing values
 //
 // NaN marks a missing value everywhere. A measure leaves out every index
@@ -115,6 +146,11 @@
 // O(n log n). Portmanteau p-values are chi-square upper tails from
 // gonum's distuv.
 //
+// # Persistence
+//
+// A Naive2Fit is an almanac.Storable of kind "accuracy.naive2" (the
+// period and the data; fitting again is exact).
+//
 // # Concurrency
 //
 // Every function is safe for concurrent use. A Backtest value is a
@@ -147,6 +183,21 @@
 // ≈ 10 ms, ≈ 0.1 ms a series, on one worker or two (fits this cheap
 // leave little to share).
 //
+// Calibrated on the same AirPassengers series (damped-trend ETS, 18
+// steps, 20 origins), counted in instructions (valgrind --tool=callgrind
+// on the benchmarks, because timings on the shared machine varied by a
+// factor of five): the model's own fit 10.7 million, calibrated with the
+// fit rolled forward (RollForward) 22.7 million (×2.1), re-estimated at
+// every origin (RefitEach) 189 million (×17.6); a forecast of 18 steps
+// with two bands from a pool of 2000 trajectories 6.4 million (sorting
+// the paths). On all of M3 (2 workers, loaded machine) the calibrated
+// Select took 592 s against 303 s for Select alone, and the calibrated
+// mean of Select, arima.Search and Theta 1.8 times that combination's
+// CPU time (37 s against 21 s for every twentieth series, user time).
+// Re-estimating at every origin instead of rolling forward improved the
+// calibrated damped trend's 80% MSIS from 7.90 to 7.54 (measured with an
+// earlier 8-observation minimum training window) at ten times the cost.
+//
 // # References
 //
 //   - Makridakis, S. & Hibon, M. (2000). The M3-Competition: results,
@@ -173,4 +224,19 @@
 //     Research Society 56, 495–503 (ADI and CV² cut-offs 1.32 and 0.49).
 //   - Tashman, L. J. (2000). Out-of-sample tests of forecasting accuracy:
 //     an analysis and review. IJF 16, 437–450 (rolling origins).
+//   - Williams, W. H. & Goodman, M. L. (1971). A simple method for the
+//     construction of empirical confidence limits for economic forecasts.
+//     JASA 66, 752–754 (bands from out-of-sample errors).
+//   - Vovk, V., Gammerman, A. & Shafer, G. (2005). Algorithmic Learning in
+//     a Random World. Springer (conformal prediction).
+//   - Papadopoulos, H., Vovk, V. & Gammerman, A. (2011). Regression
+//     conformal prediction with nearest neighbours. JAIR 40, 815–840
+//     (normalised nonconformity scores; recalled from memory).
+//   - Stankeviciute, K., Alaa, A. M. & van der Schaar, M. (2021).
+//     Conformal time-series forecasting. NeurIPS 34 (multi-step horizons).
+//   - Hyndman, R. J. & Fan, Y. (1996). Sample quantiles in statistical
+//     packages. The American Statistician 50, 361–365 (type 7).
+//   - Brown, R. G. (1959). Statistical Forecasting for Inventory Control.
+//     McGraw-Hill; Trigg, D. W. (1964). Monitoring a forecasting system.
+//     Operational Research Quarterly 15, 271–274 (tracking signals).
 package accuracy

@@ -304,6 +304,7 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 	if method == CSS {
 		f.ncond = pr.ncond
 	}
+	f.sums, f.scale, f.nfit = res, c, n
 	f.rescale(c, na, colScale)
 	return f, nil
 }

@@ -216,6 +216,30 @@
 // probability is smoothed every period, is the least well covered. A series
 // without any demand is forecast as 0 with zero-width bands.
 //
+// # Persistence and refresh
+//
+// Every fitted model of this package — ETS (Spec and Select fits),
+// Holt-Winters, Theta, Croston, SBA and TSB — is an almanac.Storable; the
+// package registers the kinds "smoothing.ets", "smoothing.holt-winters",
+// "smoothing.theta" and "smoothing.intermittent" with almanac.Register,
+// so importing it is enough for almanac.LoadModel. An ETS document holds
+// the specification, the parameters, the internal frame in which the
+// states live (y = s0·(c + d·z), see Numerical notes), the initial
+// states in that frame, the number of observations the parameters were
+// estimated on, and the data; the loader runs the filter over the
+// estimation sample as Fit did and over later observations as Update
+// did, so the loaded model is bit-identical. The other methods store
+// their constants and the data and are fitted again with those
+// constants fixed, which is exact.
+//
+// Fitted.Update (and Refresh, its almanac.Refresher form) advances an
+// ETS model over new observations without estimating again. A missing
+// observation (NaN) follows the state-space convention: the one-step
+// prediction becomes the state (the recursion with a zero innovation),
+// the fitted value is the prediction, the residual NaN, and σ² and the
+// likelihood are taken over the observed values only. The result equals
+// a fit with every parameter and initial state fixed, to rounding.
+//
 // # References
 //
 //   - Hyndman, R.J., Koehler, A.B., Snyder, R.D. & Grose, S. (2002). A state

@@ -167,6 +167,7 @@ type ThetaFit struct {
 	freq   calendar.Frequency
 	fitted []float64
 	resid  []float64
+	y      almanac.Series // the data (for saving)
 }
 
 // Fit estimates the Theta method on y.
@@ -244,6 +245,7 @@ func (s Theta) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 		freq:   y.Freq,
 		fitted: make([]float64, n),
 		resid:  make([]float64, n),
+		y:      y.Clone(),
 	}
 	x := y.Slice()
 	if adjust {

@@ -162,8 +162,12 @@ func run(ctx context.Context, w io.Writer) (*plan, error) {
 	}
 	chosen := make([]string, len(nodes))
 	mase := make([]float64, len(nodes))
+	leftOut := map[int]bool{}
+	for _, f := range cmp.Failed {
+		leftOut[f.Index] = true
+	}
 	for i, c := range cmp.Series {
-		if c == nil { // left out of the backtest: see cmp.Failed
+		if c == nil || leftOut[i] { // left out of the backtest: see cmp.Failed
 			chosen[i], mase[i] = "seasonal naive", math.NaN()
 			continue
 		}
