@@ -57,16 +57,30 @@ import (
 // series' period when it holds more than two cycles, linear otherwise)
 // and every filled value is listed in Report().Repairs.
 //
-// Bands come from sample paths of the fitted route (Paths of them, drawn
-// with a generator seeded by Seed), so the bands of single steps and of
-// sums over the horizon agree. When every observed value is ≥ 0 the
-// paths, the bands and the point forecasts are censored at zero: a
-// forecast of a quantity that cannot be negative is never negative (the
-// quantiles of max(Y, 0) are the quantiles of Y raised to 0).
+// Bands are calibrated by default: the route is wrapped in Calibrated,
+// which measures its scale-free out-of-sample errors at rolling origins
+// at the end of the series and draws the sample paths behind the bands
+// by resampling whole error trajectories (so the bands of single steps
+// and of sums over the horizon agree). The combination route is brought
+// forward through its origins without re-estimation (up to
+// DefaultCalibrationOrigins of them); the other routes refit at each of
+// 5 origins. A short series has too few errors of its own: fit a batch
+// with almanac.BatchFit and pass the results through PoolPilots, which
+// pools the errors of the series of the same frequency and route (the
+// exchangeability this assumes is discussed at Calibrated). Without
+// enough errors, own or pooled, the bands are the route's own, and
+// Report().Calibration says so. Uncalibrated switches the calibration
+// off. When every observed value is ≥ 0 the paths, the bands and the
+// point forecasts are censored at zero: a forecast of a quantity that
+// cannot be negative is never negative (the quantiles of max(Y, 0) are
+// the quantiles of Y raised to 0).
 //
 // The zero value is ready to use. A Pilot is a specification, safe to
 // share between goroutines; one fit runs on the calling goroutine.
 type Pilot struct {
+	// Uncalibrated switches off the calibration of the bands: they are
+	// then the route's own (see the type's documentation).
+	Uncalibrated bool
 	// Seed seeds the sample paths behind the bands; the same Seed gives
 	// the same bands. 0 is a valid seed.
 	Seed uint64
@@ -154,6 +168,12 @@ type PilotReport struct {
 	// NonNegative reports that every observed value was ≥ 0, so forecasts,
 	// bands and paths are censored at zero.
 	NonNegative bool
+	// Calibrated reports that the bands are calibrated (Calibrated
+	// wraps the route); Calibration then says from how many errors and
+	// from where (the series' own, pooled across a batch by PoolPilots,
+	// or, with too few, the route's own bands).
+	Calibrated  bool
+	Calibration CalibrationStatus
 }
 
 // PilotFit is a series fitted by Pilot. It is read-only and safe for
@@ -234,7 +254,7 @@ func (p Pilot) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 			}
 			work, rep.Repairs = filled, changes
 		}
-		fit, dropped, err := st.fit(ctx, work)
+		fit, err := p.fitStage(ctx, st, work, rep.NonNegative, f.paths)
 		if err != nil {
 			if ctx.Err() != nil {
 				return nil, ctx.Err()
@@ -245,8 +265,11 @@ func (p Pilot) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 			rep.Fallbacks = append(rep.Fallbacks, fmt.Sprintf("%v: %v", st.route, err))
 			continue
 		}
-		rep.Route, rep.Periods, rep.Dropped = st.route, st.periods, dropped
+		rep.Route, rep.Periods, rep.Dropped = st.route, st.periods, droppedOf(fit)
 		rep.Members = membersOf(fit)
+		if cf, ok := fit.(*CalibratedFit); ok {
+			rep.Calibrated, rep.Calibration = true, cf.Status()
+		}
 		inner = fit
 		break
 	}
@@ -270,6 +293,24 @@ func (p Pilot) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 		}
 	}
 	return f, nil
+}
+
+// refitOrigins is the number of calibration origins of a route that
+// refits its models at each origin (see stage.rolls): a few per series
+// suffice when a batch pools them (PoolPilots), and they cost a fit each.
+const refitOrigins = 5
+
+// fitStage fits a stage, calibrated unless switched off (the benchmarks
+// at the end of the chain keep their own bands).
+func (p Pilot) fitStage(ctx context.Context, st stage, y almanac.Series, nonNegative bool, paths int) (almanac.Fitted, error) {
+	if p.Uncalibrated || st.route == RouteBenchmark {
+		return st.fit(ctx, y)
+	}
+	c := Calibrated{Model: st, NonNegative: nonNegative, Seed: p.Seed, Paths: paths}
+	if !st.rolls {
+		c.Origins = refitOrigins
+	}
+	return c.Fit(ctx, y)
 }
 
 // repairGaps fills the missing values of y with decompose.Repair, at the

@@ -117,16 +117,12 @@ func classifyDemand(y []float64) DemandClass {
 // its bands and sample paths are those of smoothing's intermittent-demand
 // fit (simulated from the fitted process, never below zero).
 func intermittentStage() stage {
-	return stage{route: RouteIntermittent, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
-		var dropped []string
+	return stage{route: RouteIntermittent, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
 		fit, err := smoothing.Croston{Variant: smoothing.CrostonSBA, EstimateAlpha: true}.Fit(ctx, y)
-		if err != nil {
-			dropped = append(dropped, fmt.Sprintf("SBA with estimated constant: %v", err))
-			if fit, err = (smoothing.Croston{Variant: smoothing.CrostonSBA}).Fit(ctx, y); err != nil {
-				return nil, dropped, err
-			}
+		if err != nil && ctx.Err() == nil {
+			fit, err = smoothing.Croston{Variant: smoothing.CrostonSBA}.Fit(ctx, y)
 		}
-		return fit, dropped, nil
+		return fit, err
 	}}
 }
 

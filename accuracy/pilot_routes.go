@@ -20,7 +20,17 @@ type stage struct {
 	route         Route
 	periods       []float64
 	needsComplete bool // gaps are repaired before this stage
-	fit           func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error)
+	fit           func(ctx context.Context, y almanac.Series) (almanac.Fitted, error)
+	// rolls says that the route's fit can be brought forward to a longer
+	// series without re-estimation (a combination of ETS, ARIMA and
+	// Theta), so calibrating it is cheap; the other routes refit at each
+	// calibration origin and calibrate on fewer of them.
+	rolls bool
+}
+
+// Fit makes a stage an almanac.Model, for Calibrated.
+func (st stage) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	return st.fit(ctx, y)
 }
 
 // routeOpts are the options every route passes to its combinations.
@@ -110,17 +120,30 @@ func cyclic(y almanac.Series, m int) bool {
 }
 
 // combineMembers fits the members as an equal-weight mean
-// (almanac.Combination) and returns the fit and the members left out.
-func combineMembers(ctx context.Context, y almanac.Series, o routeOpts, members ...almanac.Model) (almanac.Fitted, []string, error) {
-	fit, err := almanac.Combination{Members: members, Seed: o.seed, Paths: o.paths}.Fit(ctx, y)
-	if err != nil {
-		return nil, nil, err
+// (almanac.Combination).
+func combineMembers(ctx context.Context, y almanac.Series, o routeOpts, members ...almanac.Model) (almanac.Fitted, error) {
+	return almanac.Combination{Members: members, Seed: o.seed, Paths: o.paths}.Fit(ctx, y)
+}
+
+// droppedOf lists what a route's fit left out: the members of a
+// combination that failed, or the estimation of an intermittent-demand
+// constant.
+func droppedOf(fit almanac.Fitted) []string {
+	switch f := fit.(type) {
+	case *CalibratedFit:
+		return droppedOf(f.Inner())
+	case *almanac.CombinationFit:
+		var out []string
+		for _, m := range f.Failures() {
+			out = append(out, m.Error())
+		}
+		return out
+	case *smoothing.IntermittentFit:
+		if !f.Estimated {
+			return []string{fmt.Sprintf("%s: too few periods after the first demand to estimate the constant; fixed at %v", f.Method, f.Alpha)}
+		}
 	}
-	var dropped []string
-	for _, f := range fit.(*almanac.CombinationFit).Failures() {
-		dropped = append(dropped, f.Error())
-	}
-	return fit, dropped, nil
+	return nil
 }
 
 // nonSeasonal are the members of the combination without seasonal
@@ -147,7 +170,7 @@ func combinationStage(r Route, m int, o routeOpts) stage {
 			smoothing.Theta{Period: m},
 		}
 	}
-	return stage{route: r, periods: periods, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
+	return stage{route: r, periods: periods, needsComplete: true, rolls: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
 		return combineMembers(ctx, y, o, members...)
 	}}
 }
@@ -167,7 +190,7 @@ func combinationStage(r Route, m int, o routeOpts) stage {
 // regression exactly.
 func weeklyStage(p float64, o routeOpts) stage {
 	m := int(math.Round(p))
-	return stage{route: RouteWeekly, periods: []float64{p}, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
+	return stage{route: RouteWeekly, periods: []float64{p}, needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
 		return combineMembers(ctx, y, o,
 			decompose.Forecaster{
 				Method: decompose.STL{Period: m, Robust: true},
@@ -191,7 +214,7 @@ func weeklyStage(p float64, o routeOpts) stage {
 // regression by 8% at five times the cost, so hourly and finer data keep
 // the MSTL combination alone.
 func multiSeasonalStage(periods []float64, daily bool, o routeOpts) stage {
-	return stage{route: RouteMultiSeasonal, periods: slices.Clone(periods), needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
+	return stage{route: RouteMultiSeasonal, periods: slices.Clone(periods), needsComplete: true, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
 		members := []almanac.Model{decompose.Forecaster{
 			Method: decompose.MSTL{Periods: periods},
 			Model:  almanac.Combination{Members: nonSeasonal(), Seed: o.seed, Paths: o.paths},
@@ -208,22 +231,24 @@ func multiSeasonalStage(periods []float64, daily bool, o routeOpts) stage {
 
 // naiveStage is the naive method (two observed values or more).
 func naiveStage() stage {
-	return stage{route: RouteBenchmark, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
-		f, err := almanac.Naive{}.Fit(ctx, y)
-		return f, nil, err
+	return stage{route: RouteBenchmark, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+		return almanac.Naive{}.Fit(ctx, y)
 	}}
 }
 
 // lastValueStage forecasts the last observed value with bands of zero
 // width: with one observation nothing measures the spread.
 func lastValueStage() stage {
-	return stage{route: RouteBenchmark, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, []string, error) {
-		return newLastValue(y), nil, nil
+	return stage{route: RouteBenchmark, fit: func(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+		return newLastValue(y), nil
 	}}
 }
 
 // membersOf lists the fitted models behind fit, flattening combinations.
 func membersOf(fit almanac.Fitted) []string {
+	if c, ok := fit.(*CalibratedFit); ok {
+		return membersOf(c.Inner())
+	}
 	if c, ok := fit.(*almanac.CombinationFit); ok {
 		var out []string
 		for _, m := range c.Members() {

@@ -3,6 +3,7 @@ package accuracy_test
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -476,4 +477,65 @@ func TestPilotFortnightly(t *testing.T) {
 		t.Fatalf("report %+v", rep)
 	}
 	checkForecast(t, f, 6)
+}
+
+// TestPoolPilots: short invented yearly series have too few errors of
+// their own to calibrate their bands; pooled across the batch they share
+// the errors of all the fits of their frequency and route. Results that
+// failed or hold another model pass through; a wrong number of group
+// labels is an error.
+func TestPoolPilots(t *testing.T) {
+	ctx := context.Background()
+	var ys []almanac.Series
+	for i := range 12 {
+		r := rand.New(rand.NewPCG(uint64(i), 7))
+		v := make([]float64, 30)
+		x := 100.0
+		for k := range v {
+			x += 1 + 3*r.NormFloat64()
+			v[k] = x
+		}
+		ys = append(ys, almanac.Series{Key: fmt.Sprint("y", i), Start: date(1990, 1, 1), Freq: calendar.Yearly, Values: v})
+	}
+	res, err := almanac.BatchFit(ctx, accuracy.Pilot{}, ys, almanac.BatchOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	own := 0
+	for _, r := range res {
+		rep := r.Fitted.(*accuracy.PilotFit).Report()
+		if !rep.Calibrated || rep.Calibration.Source != accuracy.BandsFromModel {
+			t.Fatalf("%s alone: %+v", r.Key, rep.Calibration)
+		}
+		own += rep.Calibration.Own
+	}
+	res = append(res, almanac.BatchResult{Key: "failed", Err: almanac.ErrTooShort})
+	nv, _ := almanac.Naive{}.Fit(ctx, ys[0])
+	res = append(res, almanac.BatchResult{Key: "naive", Fitted: nv})
+	pooled, err := accuracy.PoolPilots(res, accuracy.PoolOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, r := range pooled[:len(ys)] {
+		rep := r.Fitted.(*accuracy.PilotFit).Report()
+		if rep.Calibration.Source != accuracy.BandsFromPooledErrors || rep.Calibration.Pooled != own {
+			t.Errorf("%s pooled: %+v, want %d pooled trajectories", r.Key, rep.Calibration, own)
+		}
+		if res[i].Fitted.(*accuracy.PilotFit).Report().Calibration.Source != accuracy.BandsFromModel {
+			t.Errorf("%s: the input was modified", r.Key)
+		}
+		checkForecast(t, r.Fitted.(*accuracy.PilotFit), 6)
+	}
+	if pooled[len(ys)].Err == nil || pooled[len(ys)+1].Fitted != nv {
+		t.Error("failed and foreign results must pass through unchanged")
+	}
+	if _, err := accuracy.PoolPilots(res, accuracy.PoolOptions{Groups: []string{"a"}}); !errors.Is(err, almanac.ErrLength) {
+		t.Errorf("wrong group count: %v", err)
+	}
+	// Uncalibrated fits pass through too.
+	raw, _ := almanac.BatchFit(ctx, accuracy.Pilot{Uncalibrated: true}, ys[:2], almanac.BatchOptions{})
+	p2, err := accuracy.PoolPilots(raw, accuracy.PoolOptions{})
+	if err != nil || p2[0].Fitted != raw[0].Fitted || raw[0].Fitted.(*accuracy.PilotFit).Report().Calibrated {
+		t.Errorf("uncalibrated: %v", err)
+	}
 }

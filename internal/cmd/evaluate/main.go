@@ -58,7 +58,11 @@
 //
 // Each model is first fitted to every series, then (for a model whose
 // fits share information across the batch) the fits are pooled, then
-// every series is forecast and scored.
+// every series is forecast and scored. The automatic forecaster ("auto")
+// pools the out-of-sample errors behind its calibrated bands across the
+// scored series of the same frequency and route (accuracy.PoolPilots), as
+// a catalogue run would; "auto-raw" is the same forecaster with its
+// calibration switched off.
 //
 // A series whose fit or forecast fails, or whose forecast or band holds a
 // NaN or an infinity, is counted as failed and listed; the measures of
@@ -117,7 +121,7 @@ func parseFlags(args []string, stderr io.Writer) (*options, error) {
 	var models string
 	var list bool
 	fs.StringVar(&o.data, "data", "../shared/data/m3", "data folder laid out like the M3 folder")
-	fs.StringVar(&models, "models", "combo,ets,arima,theta,naive2", "comma-separated model names (see -list)")
+	fs.StringVar(&models, "models", "auto,combo,ets,arima,theta,naive2", "comma-separated model names (see -list)")
 	fs.IntVar(&o.subset, "subset", 0, "score at most `N` series of each category, spread evenly (0: all)")
 	fs.BoolVar(&o.json, "json", false, "print one JSON object per line per model and category")
 	fs.IntVar(&o.workers, "workers", 0, "series fitted at once (0: GOMAXPROCS)")

@@ -24,7 +24,8 @@ type entry struct {
 // -help prints them.
 func registry() []entry {
 	return []entry{
-		{"auto", "the automatic forecaster (accuracy.Pilot)", accuracy.Pilot{}, nil},
+		{"auto", "the automatic forecaster (accuracy.Pilot), bands pooled across the batch (accuracy.PoolPilots)", accuracy.Pilot{}, poolPilots},
+		{"auto-raw", "the automatic forecaster with its calibration switched off", accuracy.Pilot{Uncalibrated: true}, nil},
 		{"combo", "mean of the ETS selection, the ARIMA search and Theta (almanac.Combination)", almanac.Combination{Members: []almanac.Model{
 			smoothing.Select{Workers: 1}, arima.Search{}, smoothing.Theta{},
 		}}, nil},
@@ -38,6 +39,13 @@ func registry() []entry {
 		{"ses", "simple exponential smoothing, ETS(A,N,N)", smoothing.Spec{}, nil},
 		{"damped", "damped trend, ETS(A,Ad,N)", smoothing.Spec{Trend: smoothing.DampedTrend}, nil},
 	}
+}
+
+// poolPilots pools the calibration errors of the automatic forecaster's
+// fits across the batch, grouped by frequency and route (the default of
+// accuracy.PoolPilots).
+func poolPilots(rs []almanac.BatchResult) ([]almanac.BatchResult, error) {
+	return accuracy.PoolPilots(rs, accuracy.PoolOptions{})
 }
 
 // pickModels resolves a comma-separated list of names.
