@@ -51,7 +51,8 @@ func ExamplePilot() {
 }
 
 // The README's first program: read a catalogue in long CSV, fit every
-// series with Pilot on all cores, print each forecast (invented monthly
+// series with Pilot on all cores, pool the out-of-sample errors behind
+// the bands across the catalogue, print each forecast (invented monthly
 // sales of three fictional product lines; one is slow-moving).
 func ExamplePilot_catalogue() {
 	file := strings.NewReader(catalogueCSV())
@@ -62,6 +63,10 @@ func ExamplePilot_catalogue() {
 		log.Fatal(err)
 	}
 	results, err := almanac.BatchFit(ctx, accuracy.Pilot{}, ys, almanac.BatchOptions{})
+	if err != nil {
+		log.Fatal(err)
+	}
+	results, err = accuracy.PoolPilots(results, accuracy.PoolOptions{}) // calibrate bands on the whole catalogue's errors
 	if err != nil {
 		log.Fatal(err)
 	}
