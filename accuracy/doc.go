@@ -24,6 +24,16 @@
 // table for the terminal and WriteCSV a long CSV; these printed layouts
 // are our own and are not a stable API (read the fields instead).
 //
+// Pilot is the automatic forecaster: an almanac.Model for any series of a
+// catalogue. It chooses a route from the frequency and the data —
+// intermittent demand (classified as Syntetos, Boylan & Croston 2005 do:
+// ClassifyDemand, DemandClass), the combination of ETS, ARIMA and Theta
+// for yearly to monthly data, decomposition-based combinations for weekly
+// and for daily and hourly data with two cycles — repairs gaps, falls
+// back to simpler methods down to the benchmarks when a route cannot be
+// fitted, censors forecasts of non-negative data at zero, and reports
+// what it did per series (PilotFit.Report).
+//
 // A failure never aborts the other fits. A candidate that fails to fit or
 // forecast at an origin (or panics) is scored over the origins it
 // completed; the failure is listed in its Run (Run.Done, Run.Failures)
@@ -70,6 +80,18 @@
 // one-step errors, with TriggLimit its usual 95% bound; the review page
 // flags bias with it.
 //
+// # The automatic forecaster
+//
+// Pilot's routes and fallback chain are listed on its type. Its bands
+// are quantiles of sample paths of the fitted route, so the bands of one
+// step and of sums over several steps come from one joint distribution.
+// A combination's paths are those of almanac.Combination (the members'
+// quantiles averaged step by step, the paths keeping the dependence
+// across steps). Which route and which models serve which kind of series
+// was decided by measuring on whole data sets with the evaluation program
+// (internal/cmd/evaluate): the M3 competition data and invented weekly,
+// daily and hourly series (internal/synth); the README gives the figures.
+//
 // # Calibrated bands
 //
 // Calibrated wraps any almanac.Model and sets its bands and sample paths
@@ -111,7 +133,9 @@
 // portmanteau tests pass over NaN as R's acf does with na.pass (n counts
 // the observed values). TriggSignal passes over a NaN error, leaving its
 // smoothed values unchanged. The review page draws missing values as
-// gaps in the history line. ±Inf is never data: it is an error wrapping
+// gaps in the history line. Pilot leaves out leading missing values and
+// fills the others with decompose.Repair, listing each in its report.
+// ±Inf is never data: it is an error wrapping
 // almanac.ErrNonFinite.
 //
 // # Undefined values
@@ -173,7 +197,11 @@
 // fail and with which error (every fit runs whatever the others gave; the
 // sample paths of the horizon totals are seeded by candidate and origin).
 // Only a cancellation makes the result depend on timing: which fits were
-// done by then. Nothing else in the package starts goroutines.
+// done by then. Nothing else in the package starts goroutines: a Pilot
+// fit runs its models one after another on the calling goroutine
+// (BatchFit spreads series over cores), and its sample paths come from a
+// generator seeded by Pilot.Seed, so a series gets bit-identical
+// forecasts however a batch is scheduled.
 //
 // # Performance
 //
@@ -235,6 +263,9 @@
 //   - Trigg, D. W. (1964). Monitoring a forecasting system. Operational
 //     Research Quarterly 15, 271–274 (the smoothed tracking signal and
 //     its limits; details recalled from memory).
+//   - Syntetos, A. A., Boylan, J. E. & Croston, J. D. (2005). On the
+//     categorization of demand patterns. Journal of the Operational
+//     Research Society 56, 495–503 (ADI and CV² cut-offs 1.32 and 0.49).
 //   - Tashman, L. J. (2000). Out-of-sample tests of forecasting accuracy:
 //     an analysis and review. IJF 16, 437–450 (rolling origins).
 //   - Williams, W. H. & Goodman, M. L. (1971). A simple method for the
