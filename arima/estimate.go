@@ -232,6 +232,22 @@ func (pr *problem) cssAt(c []float64) (float64, int) {
 type optSettings struct {
 	relTol  float64 // stop when a step improves f by ≤ relTol·(|f|+relTol)
 	maxIter int     // gradient evaluations allowed
+
+	// then, when not nil, are the rules of a second stage: where the
+	// rules above stop the maximum-likelihood run, fitWith builds the
+	// fitted model there and hands it to decide; if decide returns true
+	// the same run goes on under *then. The path is the one a run under
+	// *then from the start follows (the stopping rules do not steer the
+	// minimiser), so the final fit is the one fitWith gives with *then,
+	// bit for bit, without repeating the first stage's evaluations.
+	then   *optSettings
+	decide func(*Fitted) bool
+}
+
+// staged returns o with a second stage (see optSettings.then).
+func (o optSettings) staged(then optSettings, decide func(*Fitted) bool) optSettings {
+	o.then, o.decide = &then, decide
+	return o
 }
 
 var (
@@ -249,14 +265,30 @@ var (
 	searchOpt = optSettings{relTol: 1e-6, maxIter: 100}
 )
 
-// minimize runs the quasi-Newton minimiser on f from x0.
-func minimize(ctx context.Context, f func([]float64) float64, x0 []float64, o optSettings) (x []float64, fmin float64, converged bool, err error) {
+// minimize runs the quasi-Newton minimiser on f from x0. With o.then
+// set and checkpoint not nil, checkpoint is called with the minimiser
+// and convergence flag where the rules of o stop; when it returns true
+// the minimisation continues under *o.then (see optSettings.then).
+// checkpoint is not called when the run ends before that point (a
+// failed line search, an error): the result is then that of both
+// stages.
+func minimize(ctx context.Context, f func([]float64) float64, x0 []float64, o optSettings, checkpoint func(x []float64, converged bool) bool) (x []float64, fmin float64, converged bool, err error) {
+	if o.then == nil {
+		checkpoint = nil
+	}
 	if useGonum {
-		x, fmin, converged, err = gonumMinimize(ctx, f, x0, o)
+		x, fmin, converged, err = gonumMinimize(ctx, f, x0, o, checkpoint)
 	} else {
 		q := newQuasiNewton(len(x0))
 		q.relTol, q.maxIter = o.relTol, o.maxIter
 		x, fmin, converged, err = q.minimize(ctx, f, x0)
+		if err == nil && checkpoint != nil && checkpoint(x, converged) {
+			// This minimiser cannot resume: the second stage runs again
+			// from the start (along the same path).
+			q = newQuasiNewton(len(x0))
+			q.relTol, q.maxIter = o.then.relTol, o.then.maxIter
+			x, fmin, converged, err = q.minimize(ctx, f, x0)
+		}
 	}
 	if ctxErr := ctx.Err(); ctxErr != nil {
 		return nil, 0, false, fmt.Errorf("arima: %w", ctxErr)

@@ -159,9 +159,39 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 		}
 	}
 
-	f := &Fitted{spec: given, timed: tm, lay: lay, key: y.Key, start: y.Start, freq: y.Freq, n: n, method: method, nUsed: pr.nUsed}
-	f.y = y.Slice()
-	f.x = xGiven
+	yGiven := y.Slice()
+	// build returns the fitted model at the coefficients coef (as
+	// estimated, before invertBlocks for ML), with the covariance of the
+	// estimates computed on first use from covFn.
+	build := func(coef []float64, covFn func() *mat.SymDense, converged bool) (*Fitted, error) {
+		f := &Fitted{spec: given, timed: tm, lay: lay, key: y.Key, start: y.Start, freq: y.Freq, n: n, method: method, nUsed: pr.nUsed, y: yGiven, x: xGiven}
+		if err := pr.finishFit(f, coef, covFn, converged, c, colScale); err != nil {
+			return nil, err
+		}
+		return f, nil
+	}
+	// checkpoint builds the fitted model where the first stage of staged
+	// stopping rules (optSettings.then) stops, and asks o.decide whether
+	// to go on; loose keeps that model for when it does not.
+	var loose *Fitted
+	checkpointFor := func(toCoef func(xs []float64) (coef []float64, covFn func() *mat.SymDense)) func([]float64, bool) bool {
+		if o.decide == nil {
+			return nil
+		}
+		return func(xs []float64, conv bool) bool {
+			loose = nil
+			cf, cov := toCoef(append([]float64(nil), xs...))
+			f, err := build(cf, cov, conv)
+			if err != nil {
+				return false // the error is found again at the end
+			}
+			if o.decide(f) {
+				return true
+			}
+			loose = f
+			return false
+		}
+	}
 	coef := start
 	var covFn func() *mat.SymDense // the Hessian is computed on first use
 	converged := true
@@ -169,6 +199,9 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 		if k > 0 {
 			x0, _ := pr.paramsFrom(coef, false)
 			obj := func(v []float64) float64 { return pr.cssObjective(v) }
+			cssCoef := func(xs []float64) ([]float64, func() *mat.SymDense) {
+				return append([]float64(nil), pr.coefFrom(xs, false)...), func() *mat.SymDense { return pr.covariance(obj, xs) }
+			}
 			var xs []float64
 			var conv bool
 			err := fmt.Errorf("conditional sum of squares not finite at the starting values")
@@ -177,11 +210,13 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 			// (searchOpt) follows the same path as the full one, only
 			// stopping earlier.
 			cssOpt := fullOpt
+			var check func([]float64, bool) bool
 			if method == CSS {
 				cssOpt = o
+				check = checkpointFor(cssCoef)
 			}
 			if obj(x0) < badObjective {
-				xs, _, conv, err = minimize(ctx, obj, x0, cssOpt)
+				xs, _, conv, err = minimize(ctx, obj, x0, cssOpt, check)
 			}
 			switch {
 			case err != nil && ctx.Err() != nil:
@@ -190,12 +225,13 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 				return nil, fmt.Errorf("arima: %w: %s by CSS: %v", almanac.ErrNotFitted, lay.orders(), err)
 			case err != nil:
 				// CSS failed: ML starts from the default values instead.
+			case loose != nil:
+				return loose, nil
 			default:
 				converged = conv
 				coef = append([]float64(nil), pr.coefFrom(xs, false)...)
 				if method == CSS {
-					xs := xs
-					covFn = func() *mat.SymDense { return pr.covariance(obj, xs) }
+					_, covFn = cssCoef(xs)
 				}
 			}
 		}
@@ -248,23 +284,37 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 			if f0 >= badObjective {
 				return nil, fmt.Errorf("arima: %w: %s: likelihood not finite at the starting values", almanac.ErrNotFitted, lay.orders())
 			}
-			xs, _, conv, err := minimize(ctx, obj, x0, o)
+			mlCoef := func(xs []float64) ([]float64, func() *mat.SymDense) {
+				coef := append([]float64(nil), pr.coefFrom(xs, true)...)
+				invertBlocks(pr, coef)
+				xr, _ := pr.paramsFrom(coef, false)
+				raw := func(v []float64) float64 { return pr.mlObjective(v, false) }
+				return coef, func() *mat.SymDense { return pr.covariance(raw, xr) }
+			}
+			xs, _, conv, err := minimize(ctx, obj, x0, o, checkpointFor(mlCoef))
 			if err != nil {
 				if ctx.Err() != nil {
 					return nil, err
 				}
 				return nil, fmt.Errorf("arima: %w: %s by ML: %v", almanac.ErrNotFitted, lay.orders(), err)
 			}
+			if loose != nil {
+				return loose, nil
+			}
 			converged = conv
-			coef = append([]float64(nil), pr.coefFrom(xs, true)...)
-			invertBlocks(pr, coef)
-			xr, _ := pr.paramsFrom(coef, false)
-			raw := func(v []float64) float64 { return pr.mlObjective(v, false) }
-			covFn = func() *mat.SymDense { return pr.covariance(raw, xr) }
+			coef, covFn = mlCoef(xs)
 		}
 	}
+	return build(coef, covFn, converged)
+}
 
-	// Final quantities at the estimate.
+// finishFit completes f at the estimate
+// coef: residuals, σ², log-likelihood and the filter state, scaled back
+// by the data scale c and the regression columns' colScale.
+func (pr *problem) finishFit(f *Fitted, coef []float64, covFn func() *mat.SymDense, converged bool, c float64, colScale []float64) error {
+	lay, n, method := pr.lay, f.n, f.method
+	na := lay.narma()
+	nd := lay.d + lay.s*lay.sd
 	f.coef = coef
 	f.free = pr.free
 	f.covFn = covFn
@@ -272,12 +322,12 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 	f.resid = make([]float64, n)
 	res, ok := pr.likelihood(coef, f.resid)
 	if !ok && method != CSS {
-		return nil, fmt.Errorf("arima: %w: %s: the AR part at the estimate is not stationary (fixed AR coefficients?)", ErrNonStationary, lay.orders())
+		return fmt.Errorf("arima: %w: %s: the AR part at the estimate is not stationary (fixed AR coefficients?)", ErrNonStationary, lay.orders())
 	}
 	if method == CSS {
 		ssq, nu := pr.cssAt(coef)
 		if nu == 0 {
-			return nil, fmt.Errorf("arima: %w: no conditional residuals", almanac.ErrNotFitted)
+			return fmt.Errorf("arima: %w: no conditional residuals", almanac.ErrNotFitted)
 		}
 		f.sigma2 = ssq / float64(nu)
 		f.loglik = -0.5 * float64(pr.nUsed) * (math.Log(2*math.Pi) + 1 + math.Log(f.sigma2))
@@ -288,14 +338,14 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 		}
 	} else {
 		if res.nu == 0 {
-			return nil, fmt.Errorf("arima: %w: no observation entered the likelihood", almanac.ErrNotFitted)
+			return fmt.Errorf("arima: %w: no observation entered the likelihood", almanac.ErrNotFitted)
 		}
 		nu, nobs := float64(res.nu), float64(pr.nUsed)
 		f.sigma2 = res.ssq / nobs
 		f.loglik = -0.5 * (nobs*math.Log(res.ssq/nu) + (nobs/nu)*res.sumlog + nobs + nobs*math.Log(2*math.Pi))
 	}
 	if ok && pr.kal.exact && pr.kal.diffuseLeft() {
-		return nil, fmt.Errorf("arima: %w: %s: too few observed values to fix the %d differencing states", almanac.ErrTooShort, lay.orders(), nd)
+		return fmt.Errorf("arima: %w: %s: too few observed values to fix the %d differencing states", almanac.ErrTooShort, lay.orders(), nd)
 	}
 	if ok {
 		f.kal = pr.kal.clone()
@@ -306,7 +356,7 @@ func (s Spec) fitWith(ctx context.Context, y almanac.Series, o optSettings) (*Fi
 	}
 	f.sums, f.scale, f.nfit = res, c, n
 	f.rescale(c, na, colScale)
-	return f, nil
+	return nil
 }
 
 // columnScale returns the power of two 2^(e−1) with the largest |v| in

@@ -31,7 +31,12 @@ var useGonum = true
 // trial of the line search costs a gradient (n + 1 evaluations); with the
 // scaling the ML fit of an ARIMA(1,1,1) with drift on 14 400 values needs
 // about as many evaluations as quasiNewton.
-func gonumMinimize(ctx context.Context, f func([]float64) float64, x0 []float64, o optSettings) ([]float64, float64, bool, error) {
+//
+// With checkpoint not nil (and o.then set) the stopping rules are staged
+// (stagedConverge): where those of o stop, checkpoint is called with the
+// point and whether the test was met, and a true result lets the run go
+// on under o.then.
+func gonumMinimize(ctx context.Context, f func([]float64) float64, x0 []float64, o optSettings, checkpoint func(x []float64, converged bool) bool) ([]float64, float64, bool, error) {
 	n := len(x0)
 	const h = 1e-7 // as quasiNewton
 	f0 := f(x0)
@@ -114,6 +119,21 @@ func gonumMinimize(ctx context.Context, f func([]float64) float64, x0 []float64,
 		Converger:       &optimize.FunctionConverge{Relative: o.relTol, Absolute: o.relTol * o.relTol, Iterations: 1},
 		MajorIterations: o.maxIter,
 	}
+	if checkpoint != nil {
+		xc := make([]float64, n)
+		settings.MajorIterations = 0 // counted by the converger
+		settings.Converger = &stagedConverge{
+			first:  optimize.FunctionConverge{Relative: o.relTol, Absolute: o.relTol * o.relTol, Iterations: 1},
+			second: optimize.FunctionConverge{Relative: o.then.relTol, Absolute: o.then.relTol * o.then.relTol, Iterations: 1},
+			max1:   o.maxIter, max2: o.then.maxIter,
+			at: func(z []float64, st optimize.Status) bool {
+				for i := range z {
+					xc[i] = x0[i] + sigma*z[i]
+				}
+				return checkpoint(xc, st == optimize.FunctionConvergence)
+			},
+		}
+	}
 	res, err := optimize.Minimize(p, make([]float64, n), settings, &optimize.BFGS{})
 	if ctxErr := ctx.Err(); ctxErr != nil {
 		return nil, 0, false, ctxErr
@@ -129,4 +149,50 @@ func gonumMinimize(ctx context.Context, f func([]float64) float64, x0 []float64,
 		return nil, 0, false, err
 	}
 	return append([]float64(nil), toX(res.X)...), res.F, converged, nil
+}
+
+// stagedConverge is the convergence test of a minimisation in two
+// stages: the relative function test and iteration limit of the first
+// stage, then, if at allows it, those of the second. Both tests see every
+// major iteration, so the second stops where it would have stopped on
+// its own; the iteration limits are applied here, after the function
+// test, in the order of optimize.Minimize's own check (which is switched
+// off by a zero Settings.MajorIterations). The minimiser's path does not
+// depend on the test, so a run that continues into the second stage is
+// the run the second stage's rules alone give.
+type stagedConverge struct {
+	first, second optimize.FunctionConverge
+	max1, max2    int
+	at            func(z []float64, st optimize.Status) bool
+
+	iter     int
+	promoted bool
+}
+
+func (s *stagedConverge) Init(dim int) {
+	s.first.Init(dim)
+	s.second.Init(dim)
+	s.iter, s.promoted = 0, false
+}
+
+func (s *stagedConverge) Converged(l *optimize.Location) optimize.Status {
+	s.iter++
+	st1 := s.first.Converged(l)
+	st2 := s.second.Converged(l)
+	if !s.promoted {
+		if st1 == optimize.NotTerminated && s.max1 > 0 && s.iter >= s.max1 {
+			st1 = optimize.IterationLimit
+		}
+		if st1 == optimize.NotTerminated {
+			return st1
+		}
+		if !s.at(l.X, st1) {
+			return st1
+		}
+		s.promoted = true
+	}
+	if st2 == optimize.NotTerminated && s.max2 > 0 && s.iter >= s.max2 {
+		st2 = optimize.IterationLimit
+	}
+	return st2
 }

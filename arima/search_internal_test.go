@@ -5,8 +5,13 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"testing"
+	"time"
 
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/internal/m3data"
 	"github.com/almanac-go/almanac/internal/numtest"
 	"github.com/almanac-go/almanac/internal/reftest"
 )
@@ -123,5 +128,62 @@ func TestNearUnitRoot(t *testing.T) {
 				t.Errorf("nearUnitRoot = %v, want rejection %v", err, tc.reject)
 			}
 		})
+	}
+}
+
+// TestStagedConfirm checks that the stepwise search, which continues a
+// candidate's looser run under the full stopping rules when it is to be
+// confirmed (evaluateConfirmed, optSettings.then), records the same
+// candidates, bit for bit, and chooses the same model as fitting each
+// candidate with the looser rules and refitting the confirmed ones with
+// the full rules from the start (separateConfirm). Inputs: four R
+// datasets of the reference fixtures and every 200th M3 monthly series
+// (Makridakis & Hibon 2000), ranked by the exact likelihood and by CSS;
+// one fixture with the package's own minimiser. Both sides are our own
+// fits: an internal consistency check.
+func TestStagedConfirm(t *testing.T) {
+	var ys []almanac.Series
+	for _, file := range []string{"airpassengers_log_airline.json", "usaccdeaths_airline.json", "lh_ar1.json", "nile_arima111.json"} {
+		f, err := reftest.Load("testdata/reference/" + file)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ys = append(ys, fixtureSeries(t, f))
+	}
+	for i, s := range m3data.Load(t, "m3_monthly.csv") {
+		if i%200 == 0 {
+			ys = append(ys, almanac.Series{Key: s.ID, Start: time.Date(1990, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Monthly, Values: s.Train})
+		}
+	}
+	record := func(r *SearchResult) string {
+		var b strings.Builder
+		for _, c := range r.Candidates {
+			fmt.Fprintf(&b, "%s %x %x %v\n", c, math.Float64bits(c.Score), math.Float64bits(c.LogLik), c.Err)
+		}
+		fmt.Fprintf(&b, "chosen %d %s %x", r.Chosen, r.Model, math.Float64bits(r.Model.AICc()))
+		return b.String()
+	}
+	for i, y := range ys {
+		for _, s := range []Search{{}, {Likelihood: LikelihoodCSS}} {
+			gonum := i != 0 || s.Likelihood != LikelihoodAuto
+			t.Run(fmt.Sprintf("%s/%v/gonum=%v", y.Key, s.Likelihood, gonum), func(t *testing.T) {
+				saved := useGonum
+				useGonum = gonum
+				defer func() { useGonum = saved }()
+				staged, err := s.search(context.Background(), y)
+				if err != nil {
+					t.Fatal(err)
+				}
+				separateConfirm = true
+				separate, err := s.search(context.Background(), y)
+				separateConfirm = false
+				if err != nil {
+					t.Fatal(err)
+				}
+				if a, b := record(staged), record(separate); a != b {
+					t.Errorf("staged run:\n%s\nseparate fits:\n%s", a, b)
+				}
+			})
+		}
 	}
 }

@@ -66,19 +66,94 @@ func (pl *searchPlan) evaluate(ctx context.Context, y almanac.Series, sp Spec) (
 		c.Err = err
 		return c, nil
 	}
+	return c, pl.score(&c, f)
+}
+
+// score records the log-likelihood and criterion of fit f in c and
+// returns f, or records why it is rejected (a root within 1.001 of the
+// unit circle, a criterion that is not finite) and returns nil.
+func (pl *searchPlan) score(c *Candidate, f *Fitted) *Fitted {
 	c.LogLik = f.LogLik()
+	c.Score, c.Err = math.Inf(1), nil
 	if err := nearUnitRoot(f); err != nil {
 		c.Err = err
-		return c, nil
+		return nil
 	}
 	score := pl.crit.Choose(f.AICc(), f.AIC(), f.BIC())
 	if math.IsNaN(score) || math.IsInf(score, 0) {
-		c.Err = fmt.Errorf("arima: %w: %s: %v is %v", almanac.ErrNotFitted, sp, pl.crit, score)
-		return c, nil
+		c.Err = fmt.Errorf("arima: %w: %s: %v is %v", almanac.ErrNotFitted, c.Spec, pl.crit, score)
+		return nil
 	}
 	c.Score = score
-	return c, f
+	return f
 }
+
+// evaluateConfirmed is evaluate followed, when the candidate is scored
+// and within(score) holds, by confirm, in one run of the minimiser: the
+// looser rules of searchOpt stop it first, and if the candidate is to be
+// confirmed it goes on under fullOpt along the same path
+// (optSettings.then), which gives the fit confirm's refit gives without
+// repeating the evaluations up to that point. confirmed reports that the
+// returned candidate and fit are those of the full rules (as after
+// confirm, which rejects the candidate when the full fit fails the
+// screen).
+func (pl *searchPlan) evaluateConfirmed(ctx context.Context, y almanac.Series, sp Spec, within func(score float64) bool) (c Candidate, f *Fitted, confirmed bool) {
+	if separateConfirm {
+		c, f = pl.evaluate(ctx, y, sp)
+		if f != nil && within(c.Score) {
+			f = pl.confirm(ctx, y, &c)
+			confirmed = true
+		}
+		return c, f, confirmed
+	}
+	c = Candidate{Spec: sp, Score: math.Inf(1), LogLik: math.NaN()}
+	var loose Candidate // the candidate at the first stage's stop
+	decided, goOn := false, false
+	decide := func(lf *Fitted) bool {
+		decided = true
+		loose = c
+		goOn = pl.score(&loose, lf) != nil && within(loose.Score)
+		return goOn
+	}
+	f, err := candidateFit(ctx, y, sp, searchOpt.staged(fullOpt, decide))
+	switch {
+	case !decided:
+		// The run ended before the looser rules stopped it (a stalled
+		// line search, an error, nothing to estimate): both rules give
+		// this result.
+		if err != nil {
+			c.Err = err
+			return c, nil, false
+		}
+		f = pl.score(&c, f)
+		return c, f, f != nil && within(c.Score)
+	case !goOn:
+		// Not to be confirmed: f is the looser fit (err is nil, the
+		// checkpoint having built it).
+		if err != nil {
+			c.Err = err
+			return c, nil, false
+		}
+		f = pl.score(&c, f)
+		return c, f, false
+	}
+	// Confirmed: f is the full fit; a failed one rejects the candidate
+	// and keeps the looser fit's log-likelihood, as confirm does.
+	c = loose
+	if err == nil {
+		full := c
+		if f = pl.score(&full, f); f != nil {
+			return full, f, true
+		}
+		err = full.Err
+	}
+	c.Err, c.Score = err, math.Inf(1)
+	return c, nil, true
+}
+
+// separateConfirm makes evaluateConfirmed run evaluate and confirm as two
+// fits (for the test that the staged run gives the same).
+var separateConfirm bool
 
 // confirmMargin: a candidate whose criterion value, fitted with the
 // looser stopping rules of searchOpt, comes within this margin of the
@@ -97,20 +172,15 @@ const confirmMargin = 2
 func (pl *searchPlan) confirm(ctx context.Context, y almanac.Series, c *Candidate) *Fitted {
 	f, err := candidateFit(ctx, y, c.Spec, fullOpt)
 	if err == nil {
-		err = nearUnitRoot(f)
-	}
-	score := math.Inf(1)
-	if err == nil {
-		if score = pl.crit.Choose(f.AICc(), f.AIC(), f.BIC()); math.IsNaN(score) || math.IsInf(score, 0) {
-			err = fmt.Errorf("arima: %w: %s: %v is %v", almanac.ErrNotFitted, c.Spec, pl.crit, score)
+		full := *c
+		if f = pl.score(&full, f); f != nil {
+			*c = full
+			return f
 		}
+		err = full.Err
 	}
-	if err != nil {
-		c.Err, c.Score = err, math.Inf(1)
-		return nil
-	}
-	c.LogLik, c.Score = f.LogLik(), score
-	return f
+	c.Err, c.Score = err, math.Inf(1)
+	return nil
 }
 
 // orderKey identifies a candidate within one search (d, D and the period

@@ -31,21 +31,18 @@ func (pl *searchPlan) stepwise(ctx context.Context, y almanac.Series, res *Searc
 		if err := ctx.Err(); err != nil {
 			return false, fmt.Errorf("arima: search: %w", err)
 		}
-		c, f := pl.evaluate(ctx, y, pl.spec(k.p, k.q, k.sp, k.sq, k.constant))
+		// A candidate that may be the new best is fitted on with the
+		// full stopping rules before it is compared.
+		within := func(score float64) bool { return best < 0 || score < res.Candidates[best].Score+confirmMargin }
+		c, f, confirmed := pl.evaluateConfirmed(ctx, y, pl.spec(k.p, k.q, k.sp, k.sq, k.constant), within)
 		if errors.Is(c.Err, context.Canceled) || errors.Is(c.Err, context.DeadlineExceeded) {
 			return false, fmt.Errorf("arima: search: %w", c.Err)
 		}
-		if f != nil && (best < 0 || c.Score < res.Candidates[best].Score+confirmMargin) {
-			// A candidate that may be the new best is refitted with the
-			// full stopping rules before it is compared.
-			f = pl.confirm(ctx, y, &c)
+		if confirmed {
 			if pl.full == nil {
 				pl.full = map[int]bool{}
 			}
 			pl.full[len(res.Candidates)] = true
-			if errors.Is(c.Err, context.Canceled) || errors.Is(c.Err, context.DeadlineExceeded) {
-				return false, fmt.Errorf("arima: search: %w", c.Err)
-			}
 		}
 		seen[k] = len(res.Candidates)
 		res.Candidates = append(res.Candidates, c)

@@ -1,4 +1,5 @@
-// Package m3data loads the M3 forecasting-competition data for tests.
+// Package m3data loads the M3 forecasting-competition data for tests
+// (Load) and for the programs under internal/cmd (Read).
 //
 // The data (Makridakis & Hibon 2000, "The M3-Competition: results,
 // conclusions and implications", International Journal of Forecasting
@@ -21,7 +22,7 @@
 //
 // # Concurrency
 //
-// Load may be called from parallel tests; it shares no state.
+// Load and Read may be called concurrently; they share no state.
 //
 // # Performance
 //

@@ -60,6 +60,17 @@ func Load(tb testing.TB, file string) []Series {
 	return nil
 }
 
+// Read reads one category file from dir, series in file order, for
+// programs (the speed program) that run outside a test.
+func Read(dir, file string) ([]Series, error) {
+	fh, err := os.Open(filepath.Join(dir, file))
+	if err != nil {
+		return nil, fmt.Errorf("m3data: %w", err)
+	}
+	defer fh.Close()
+	return parse(fh, file)
+}
+
 func parse(fh *os.File, file string) ([]Series, error) {
 	rows, err := csv.NewReader(fh).ReadAll()
 	if err != nil {
