@@ -188,6 +188,20 @@
 // A Naive2Fit is an almanac.Storable of kind "accuracy.naive2" (the
 // period and the data; fitting again is exact).
 //
+// A PilotFit is an almanac.Storable of kind "accuracy.pilot": the series,
+// the route and its periods, the fallbacks taken, the number of paths and
+// the seed, with the route's fitted model as a nested document of its
+// own kind (a combination with its members, an intermittent-demand fit, a
+// benchmark, or "accuracy.last-value" for a series of one observation;
+// the calibrated wrapper is saved once CalibratedFit is Storable, and
+// until then saving a calibrated fit fails with an error wrapping
+// almanac.ErrInvalid: save a Pilot{Uncalibrated: true} fit). The rest of
+// the report (leading missing values, demand class, the values filled by
+// decompose.Repair, members and calibration status) and the benchmark
+// behind Forecast's fallback are computed again from the stored series
+// on loading, as Fit computed them, so a loaded fit forecasts, bands and
+// simulates bit-identically.
+//
 // # Concurrency
 //
 // Every function is safe for concurrent use. A Backtest value is a

@@ -273,15 +273,26 @@ func (p Pilot) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 		inner = fit
 		break
 	}
+	f.settle(ctx, inner, work)
+	return f, nil
+}
+
+// settle completes a fit whose route is fitted to work (the series with
+// leading missing values left out and gaps repaired): the benchmark at
+// the end of the fallback chain and the fitted values on the axis of the
+// series as given. Fit and the saved-model loader share it, so a loaded
+// fit is rebuilt exactly as it was made.
+func (f *PilotFit) settle(ctx context.Context, inner almanac.Fitted, work almanac.Series) {
 	f.inner = inner
-	if rep.Route == RouteBenchmark {
+	if f.report.Route == RouteBenchmark {
 		f.backup = inner
 	} else if nv, err := (almanac.Naive{}).Fit(ctx, work); err == nil {
 		f.backup = nv
 	} else {
 		f.backup = newLastValue(work)
 	}
-	n := y.Len()
+	first := f.report.Trimmed
+	n := f.y.Len()
 	f.fitted = make([]float64, n)
 	f.resid = make([]float64, n)
 	fv := inner.FittedValues()
@@ -289,10 +300,9 @@ func (p Pilot) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 		f.fitted[t], f.resid[t] = math.NaN(), math.NaN()
 		if k := t - first; k >= 0 && k < len(fv) {
 			f.fitted[t] = fv[k]
-			f.resid[t] = y.Values[t] - fv[k]
+			f.resid[t] = f.y.Values[t] - fv[k]
 		}
 	}
-	return f, nil
 }
 
 // refitOrigins is the number of calibration origins of a route that

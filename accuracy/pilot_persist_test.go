@@ -1,0 +1,157 @@
+package accuracy_test
+
+import (
+	"context"
+	"errors"
+	"math"
+	"math/rand/v2"
+	"slices"
+	"testing"
+
+	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/accuracy"
+	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/internal/m3data"
+	"github.com/almanac-go/almanac/internal/persisttest"
+)
+
+// pilotRouteCases are series of known structure for each of Pilot's
+// routes and fallbacks (invented data, and one M3 monthly series).
+func pilotRouteCases(t *testing.T) []struct {
+	name  string
+	y     almanac.Series
+	route accuracy.Route
+	h     int
+} {
+	t.Helper()
+	m3 := m3data.Load(t, "m3_monthly.csv")[700]
+	weekly, _ := inventedWeekly(3*52+10, 0, 11)
+	r := rand.New(rand.NewPCG(5, 5))
+	intermittent := make([]float64, 96)
+	for i := range intermittent {
+		if r.Float64() > math.Exp(-0.3) {
+			intermittent[i] = 1 + float64(r.IntN(3))
+		}
+	}
+	gappy := make([]float64, 60)
+	for i := range gappy {
+		gappy[i] = 100 + 20*math.Sin(2*math.Pi*float64(i)/12) + float64(i%5)
+	}
+	gappy[0], gappy[20], gappy[21], gappy[40] = math.NaN(), math.NaN(), math.NaN(), math.NaN()
+	shortWeekly, _ := inventedWeekly(70, 0, 2)
+	monthly := func(key string, v ...float64) almanac.Series {
+		return almanac.Series{Key: key, Start: date(2020, 1, 1), Freq: calendar.Monthly, Values: v}
+	}
+	return []struct {
+		name  string
+		y     almanac.Series
+		route accuracy.Route
+		h     int
+	}{
+		{"monthly combination (M3 " + m3.ID + ")", almanac.Series{Key: m3.ID, Start: date(1990, 1, 1), Freq: calendar.Monthly, Values: m3.Train}, accuracy.RouteCombination, 18},
+		{"weekly", weekly, accuracy.RouteWeekly, 13},
+		{"daily", inventedCycles(calendar.Daily, 120, 1), accuracy.RouteMultiSeasonal, 14},
+		{"hourly", inventedCycles(calendar.Hourly, 24*10, 4), accuracy.RouteMultiSeasonal, 24},
+		{"intermittent", monthly("parts", intermittent...), accuracy.RouteIntermittent, 12},
+		{"gaps repaired", monthly("gappy", gappy...), accuracy.RouteCombination, 12},
+		{"fallback: weekly too short", shortWeekly, accuracy.RouteCombination, 8},
+		{"fallback: naive", monthly("two", 3, 5), accuracy.RouteBenchmark, 4},
+		{"fallback: last value", monthly("one", math.NaN(), 42), accuracy.RouteBenchmark, 4},
+	}
+}
+
+// TestSavedPilot: a Pilot fit of every route saves and loads back to a
+// fit that forecasts, bands and simulates bit-identically (checked by
+// internal/persisttest) and reports the same route, members, fallbacks,
+// repairs and calibration. The uncalibrated forecaster is checked on
+// every route; the calibrated one wherever its calibrated wrapper
+// (accuracy.CalibratedFit) can be saved, and otherwise saving must fail
+// with a clear error, not a panic.
+func TestSavedPilot(t *testing.T) {
+	ctx := context.Background()
+	for _, tc := range pilotRouteCases(t) {
+		for _, p := range []accuracy.Pilot{{Uncalibrated: true, Seed: 3, Paths: 300}, {Seed: 3, Paths: 300}} {
+			name := tc.name
+			if p.Uncalibrated {
+				name += ", uncalibrated"
+			}
+			t.Run(name, func(t *testing.T) {
+				fit, err := p.Fit(ctx, tc.y)
+				if err != nil {
+					t.Fatal(err)
+				}
+				f := fit.(*accuracy.PilotFit)
+				if rep := f.Report(); rep.Route != tc.route {
+					t.Fatalf("route %v, want %v (%+v)", rep.Route, tc.route, rep)
+				}
+				if _, ok := f.Inner().(almanac.Storable); !ok {
+					if _, err := almanac.MarshalModel(f); !errors.Is(err, almanac.ErrInvalid) {
+						t.Fatalf("saving a fit whose route model %T cannot be saved: %v, want an error wrapping ErrInvalid", f.Inner(), err)
+					}
+					t.Skipf("%T cannot be saved yet", f.Inner())
+				}
+				g := persisttest.CheckRoundTrip(t, f, persisttest.Options{H: tc.h})
+				want, got := f.Report(), g.(*accuracy.PilotFit).Report()
+				if got.Route != want.Route || !slices.Equal(got.Periods, want.Periods) || !slices.Equal(got.Members, want.Members) ||
+					!slices.Equal(got.Dropped, want.Dropped) || !slices.Equal(got.Fallbacks, want.Fallbacks) ||
+					got.Trimmed != want.Trimmed || got.Demand != want.Demand || got.NonNegative != want.NonNegative ||
+					got.Calibrated != want.Calibrated || got.Calibration != want.Calibration || len(got.Repairs) != len(want.Repairs) {
+					t.Errorf("report after loading:\n got %+v\nwant %+v", got, want)
+				}
+				for i := range want.Repairs {
+					if got.Repairs[i].Index != want.Repairs[i].Index || math.Float64bits(got.Repairs[i].New) != math.Float64bits(want.Repairs[i].New) {
+						t.Errorf("repair %d: got %+v, want %+v", i, got.Repairs[i], want.Repairs[i])
+					}
+				}
+			})
+		}
+	}
+}
+
+// TestSavedPilotTampered: documents changed out of their valid region
+// fail to load with an error wrapping almanac.ErrDecode.
+func TestSavedPilotTampered(t *testing.T) {
+	ctx := context.Background()
+	cases := pilotRouteCases(t)
+	gappy := cases[5].y
+	fit, err := accuracy.Pilot{Uncalibrated: true, Paths: 100}.Fit(ctx, gappy)
+	if err != nil {
+		t.Fatal(err)
+	}
+	persisttest.CheckTampered(t, fit, persisttest.Tampers{
+		"unknown route":            func(b map[string]any) { b["route"] = "hunch" },
+		"no paths":                 func(b map[string]any) { b["paths"] = 0 },
+		"too many paths":           func(b map[string]any) { b["paths"] = 1 << 40 },
+		"period below one":         func(b map[string]any) { b["periods"] = []any{0.5} },
+		"period beyond the series": func(b map[string]any) { b["periods"] = []any{1e6} },
+		"no route model":           func(b map[string]any) { delete(b, "inner") },
+		"route model not a model":  func(b map[string]any) { b["inner"] = map[string]any{"almanac": "fitted-model"} },
+		"gaps not repaired":        func(b map[string]any) { delete(b, "repaired") },
+		"another leading gap":      func(b map[string]any) { persisttest.Values(b, "series", "values")[1] = nil },
+		"series shortened": func(b map[string]any) {
+			s := b["series"].(map[string]any)
+			s["values"] = persisttest.Values(b, "series", "values")[:50]
+		},
+		"unknown member": func(b map[string]any) { b["hunch"] = 1 },
+	})
+	complete, err := accuracy.Pilot{Uncalibrated: true, Paths: 100}.Fit(ctx, cases[0].y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	persisttest.CheckTampered(t, complete, persisttest.Tampers{
+		"repaired without gaps": func(b map[string]any) { b["repaired"] = true },
+	})
+	one, err := accuracy.Pilot{}.Fit(ctx, cases[8].y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	persisttest.CheckTampered(t, one, persisttest.Tampers{
+		"last value of nothing": func(b map[string]any) {
+			inner := b["inner"].(map[string]any)["body"].(map[string]any)["series"].(map[string]any)
+			inner["values"] = []any{nil, nil}
+		},
+	})
+	if _, err := almanac.MarshalModel(&accuracy.PilotFit{}); !errors.Is(err, almanac.ErrNotFitted) {
+		t.Errorf("saving the zero PilotFit: %v, want an error wrapping ErrNotFitted", err)
+	}
+}
