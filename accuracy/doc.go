@@ -200,7 +200,9 @@
 // decompose.Repair, members and calibration status) and the benchmark
 // behind Forecast's fallback are computed again from the stored series
 // on loading, as Fit computed them, so a loaded fit forecasts, bands and
-// simulates bit-identically.
+// simulates bit-identically. PilotFit.Refresh refreshes a route through
+// its models when all of them refresh; none of today's routes does (see
+// its documentation), so a Pilot fit is refitted, not refreshed.
 //
 // # Concurrency
 //

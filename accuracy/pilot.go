@@ -96,6 +96,7 @@ var (
 	_ almanac.Model     = Pilot{}
 	_ almanac.Fitted    = (*PilotFit)(nil)
 	_ almanac.Simulator = (*PilotFit)(nil)
+	_ almanac.Refresher = (*PilotFit)(nil)
 )
 
 // Route says how Pilot forecast a series. Programs should not rely on
@@ -187,6 +188,9 @@ type PilotFit struct {
 	resid  []float64
 	paths  int
 	seed   uint64
+	// refreshed is the number of values at the end of y that Refresh
+	// added (given to the route's model as they came, gaps included).
+	refreshed int
 }
 
 // Report returns what Pilot did for the series (a copy).
@@ -265,11 +269,8 @@ func (p Pilot) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 			rep.Fallbacks = append(rep.Fallbacks, fmt.Sprintf("%v: %v", st.route, err))
 			continue
 		}
-		rep.Route, rep.Periods, rep.Dropped = st.route, st.periods, droppedOf(fit)
-		rep.Members = membersOf(fit)
-		if cf, ok := fit.(*CalibratedFit); ok {
-			rep.Calibrated, rep.Calibration = true, cf.Status()
-		}
+		rep.Route, rep.Periods = st.route, st.periods
+		f.describe(fit, y.Window(first, y.Len()))
 		inner = fit
 		break
 	}
@@ -479,4 +480,57 @@ func clonePaths(paths [][]float64) [][]float64 {
 		out[i] = slices.Clone(p)
 	}
 	return out
+}
+
+// Refresh implements almanac.Refresher: the route's fitted model takes
+// the new observations through almanac.Refresh, without estimating
+// anything again, and the report keeps the route, its periods, the
+// fallbacks and the repairs of the fit (new missing values go to the
+// route's model as they are, not repaired). A route refreshes only when
+// every model in it does: today ETS and ARIMA do, while Theta, the
+// intermittent-demand methods, the benchmarks and the calibrated wrapper
+// do not, so every route Pilot fits gives an error wrapping
+// almanac.ErrNotRefreshable: refit the series (almanac.RefreshPolicy
+// decides when). The method is there so that a route made only of
+// refreshable models refreshes through them.
+//
+// Special cases: a new value of ±Inf gives an error wrapping
+// almanac.ErrNonFinite; the route's model's error is passed on.
+func (f *PilotFit) Refresh(newValues []float64) (almanac.Fitted, error) {
+	if f == nil || f.inner == nil {
+		return nil, fmt.Errorf("accuracy: pilot: %w: use the value returned by Fit", almanac.ErrNotFitted)
+	}
+	y := f.y.Clone()
+	y.Values = append(y.Values, newValues...)
+	if err := y.Validate(); err != nil {
+		return nil, fmt.Errorf("accuracy: pilot refresh: %w", err)
+	}
+	inner, err := almanac.Refresh(f.inner, newValues)
+	if err != nil {
+		return nil, fmt.Errorf("accuracy: pilot refresh: %w", err)
+	}
+	g := &PilotFit{y: y, paths: f.paths, seed: f.seed, refreshed: f.refreshed + len(newValues), report: f.Report()}
+	work := f.y.Window(f.report.Trimmed, f.y.Len()).Clone()
+	for _, c := range f.report.Repairs {
+		work.Values[c.Index] = c.New
+	}
+	work.Values = append(work.Values, newValues...)
+	g.describe(inner, y.Window(g.report.Trimmed, y.Len()))
+	g.settle(context.Background(), inner, work)
+	return g, nil
+}
+
+// describe sets the parts of the report that follow from the data as
+// given (after leading missing values) and from the route's fitted
+// model.
+func (f *PilotFit) describe(inner almanac.Fitted, given almanac.Series) {
+	rep := &f.report
+	rep.NonNegative = !slices.ContainsFunc(given.Values, func(v float64) bool { return v < 0 })
+	rep.Demand = classifyDemand(given.Values)
+	rep.Dropped = droppedOf(inner)
+	rep.Members = membersOf(inner)
+	rep.Calibrated, rep.Calibration = false, CalibrationStatus{}
+	if cf, ok := inner.(*CalibratedFit); ok {
+		rep.Calibrated, rep.Calibration = true, cf.Status()
+	}
 }

@@ -47,6 +47,7 @@ type pilotBody struct {
 	Periods   []float64            `json:"periods,omitempty"`
 	Fallbacks []string             `json:"fallbacks,omitempty"`
 	Repaired  bool                 `json:"repaired,omitempty"`
+	Refreshed int                  `json:"refreshed,omitempty"`
 	Inner     json.RawMessage      `json:"inner"`
 }
 
@@ -73,6 +74,7 @@ func (f *PilotFit) StoredBody() ([]byte, error) {
 		Periods:   f.report.Periods,
 		Fallbacks: f.report.Fallbacks,
 		Repaired:  len(f.report.Repairs) > 0,
+		Refreshed: f.refreshed,
 		Inner:     inner,
 	})
 }
@@ -114,13 +116,16 @@ func loadPilot(_ int, body []byte) (almanac.Fitted, error) {
 	if len(b.Inner) == 0 {
 		return nil, errors.New("no route model")
 	}
-	f := &PilotFit{y: y, paths: b.Paths, seed: b.Seed}
-	rep := &f.report
 	first := slices.IndexFunc(y.Values, func(v float64) bool { return !math.IsNaN(v) })
+	if b.Refreshed < 0 || b.Refreshed >= y.Len()-first {
+		return nil, fmt.Errorf("%d refreshed values of %d", b.Refreshed, y.Len()-first)
+	}
+	f := &PilotFit{y: y, paths: b.Paths, seed: b.Seed, refreshed: b.Refreshed}
+	rep := &f.report
 	rep.Trimmed = first
-	work := y.Window(first, y.Len())
-	rep.NonNegative = !slices.ContainsFunc(work.Values, func(v float64) bool { return v < 0 })
-	rep.Demand = classifyDemand(work.Values)
+	given := y.Window(first, y.Len())
+	// The values Fit saw, then those Refresh added.
+	work := given.Window(0, given.Len()-b.Refreshed).Clone()
 	if b.Repaired {
 		if work.Missing() == 0 {
 			return nil, errors.New("repaired, but no value is missing")
@@ -134,6 +139,7 @@ func loadPilot(_ int, body []byte) (almanac.Fitted, error) {
 	if route != RouteBenchmark && work.Missing() > 0 {
 		return nil, fmt.Errorf("route %v on a series with %d gaps not repaired", route, work.Missing())
 	}
+	work.Values = append(work.Values, given.Values[given.Len()-b.Refreshed:]...)
 	inner, err := almanac.UnmarshalModel(b.Inner)
 	if err != nil {
 		return nil, fmt.Errorf("route model: %w", err)
@@ -147,11 +153,7 @@ func loadPilot(_ int, body []byte) (almanac.Fitted, error) {
 	rep.Route = route
 	rep.Periods = slices.Clone(b.Periods)
 	rep.Fallbacks = slices.Clone(b.Fallbacks)
-	rep.Dropped = droppedOf(inner)
-	rep.Members = membersOf(inner)
-	if cf, ok := inner.(*CalibratedFit); ok {
-		rep.Calibrated, rep.Calibration = true, cf.Status()
-	}
+	f.describe(inner, given)
 	f.settle(context.Background(), inner, work)
 	return f, nil
 }

@@ -13,6 +13,7 @@ import (
 	"github.com/almanac-go/almanac/calendar"
 	"github.com/almanac-go/almanac/internal/m3data"
 	"github.com/almanac-go/almanac/internal/persisttest"
+	"github.com/almanac-go/almanac/smoothing"
 )
 
 // pilotRouteCases are series of known structure for each of Pilot's
@@ -153,5 +154,61 @@ func TestSavedPilotTampered(t *testing.T) {
 	})
 	if _, err := almanac.MarshalModel(&accuracy.PilotFit{}); !errors.Is(err, almanac.ErrNotFitted) {
 		t.Errorf("saving the zero PilotFit: %v, want an error wrapping ErrNotFitted", err)
+	}
+}
+
+// TestRefreshPilot: a route whose models all refresh (here one ETS model)
+// refreshes through them: the point forecasts equal those of the model
+// updated with the new values (smoothing.Fitted.Update, a missing value
+// included), and the refreshed fit saves and loads bit-identically with
+// its repairs. Pilot's own routes hold models that do not refresh
+// (Theta, the calibrated wrapper), so refreshing them is an error
+// wrapping almanac.ErrNotRefreshable.
+func TestRefreshPilot(t *testing.T) {
+	ctx := context.Background()
+	all := paintSales(60)
+	head := all.Head(48)
+	ets, err := smoothing.Spec{Trend: smoothing.DampedTrend, Season: smoothing.AdditiveSeason}.Fit(ctx, head)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := accuracy.PilotFitAround(head, ets, accuracy.RouteCombination)
+	next := slices.Clone(all.Values[48:])
+	next[3] = math.NaN()
+	r, err := almanac.Refresh(f, next)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := ets.(*smoothing.Fitted).Update(next)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fw, _ := want.Forecast(12)
+	fr, err := r.Forecast(12, 80, 95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	persisttest.Same(t, "refreshed point forecasts", fr.Mean, fw.Mean)
+	if rep := r.(*accuracy.PilotFit).Report(); rep.Route != accuracy.RouteCombination || len(r.FittedValues()) != 60 {
+		t.Errorf("refreshed report %+v, %d fitted values", rep, len(r.FittedValues()))
+	}
+	persisttest.CheckRoundTrip(t, r, persisttest.Options{H: 12})
+	persisttest.CheckTampered(t, r, persisttest.Tampers{
+		"refreshed beyond the series": func(b map[string]any) { b["refreshed"] = 60 },
+	})
+	if _, err := almanac.Refresh(f, []float64{1, math.Inf(1)}); !errors.Is(err, almanac.ErrNonFinite) {
+		t.Errorf("an infinite new value: %v", err)
+	}
+
+	gappy := paintSales(48)
+	gappy.Values[10] = math.NaN()
+	for _, p := range []accuracy.Pilot{{}, {Uncalibrated: true}} {
+		fit, err := p.Fit(ctx, gappy)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, err := almanac.Refresh(fit, all.Values[48:50]); !errors.Is(err, almanac.ErrNotRefreshable) {
+			t.Errorf("refreshing %s: %v, want an error wrapping ErrNotRefreshable", fit, err)
+		}
 	}
 }
