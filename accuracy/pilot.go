@@ -178,7 +178,9 @@ type PilotReport struct {
 }
 
 // PilotFit is a series fitted by Pilot. It is read-only and safe for
-// concurrent use.
+// concurrent use. It saves as a document of kind "accuracy.pilot"
+// (almanac.SaveModel) with the route's model nested, once every model of
+// the route is storable (see the package documentation, Persistence).
 type PilotFit struct {
 	inner  almanac.Fitted
 	backup almanac.Fitted // the end of the fallback chain, should inner fail to forecast
