@@ -60,10 +60,9 @@
 // fits share information across the batch) the fits are pooled, then
 // every series is forecast and scored. The automatic forecaster ("auto")
 // pools the out-of-sample errors behind its calibrated bands across the
-// scored series of the same category and route (accuracy.PoolPilots with
-// a group label per series), as a catalogue run would pool each product
-// line; "auto-raw" is the same forecaster with its calibration switched
-// off.
+// scored series of the same frequency and route (accuracy.PoolPilots), as
+// a catalogue run would; "auto-raw" is the same forecaster with its
+// calibration switched off.
 //
 // A series whose fit or forecast fails, or whose forecast or band holds a
 // NaN or an infinity, is counted as failed and listed; the measures of
@@ -277,11 +276,7 @@ func evaluateModel(ctx context.Context, e entry, items []item, idx []int, worker
 	}
 	wg.Wait()
 	if e.pool != nil && ctx.Err() == nil {
-		cats := make([]string, len(idx))
-		for k, i := range idx {
-			cats[k] = items[i].category
-		}
-		pooled, err := e.pool(fits, cats)
+		pooled, err := e.pool(fits)
 		if err == nil && len(pooled) == len(fits) {
 			fits = pooled
 		} else {

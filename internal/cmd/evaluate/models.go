@@ -16,9 +16,8 @@ type entry struct {
 	about string
 	model almanac.Model
 	// pool, when set, lets the fits of the batch share information (the
-	// calibration of bands) before they forecast; cats holds the data
-	// set's category of each result.
-	pool func(rs []almanac.BatchResult, cats []string) ([]almanac.BatchResult, error)
+	// calibration of bands) before they forecast.
+	pool func([]almanac.BatchResult) ([]almanac.BatchResult, error)
 }
 
 // registry lists the models by the names -models accepts, in the order
@@ -43,21 +42,10 @@ func registry() []entry {
 }
 
 // poolPilots pools the calibration errors of the automatic forecaster's
-// fits across the batch, grouped by the data set's category and the
-// route, as a catalogue would pool each of its product lines. (Grouping
-// by frequency, the default of accuracy.PoolPilots, would pool M3's
-// "other" series, read as yearly, with the far more volatile yearly
-// ones: on all of M3 that put 90.7% of the other series' outcomes in
-// their 80% bands and 78.7% of the yearly ones.)
-func poolPilots(rs []almanac.BatchResult, cats []string) ([]almanac.BatchResult, error) {
-	groups := make([]string, len(rs))
-	for i, r := range rs {
-		groups[i] = cats[i]
-		if pf, ok := r.Fitted.(*accuracy.PilotFit); ok && r.Err == nil {
-			groups[i] += "/" + pf.Report().Route.String()
-		}
-	}
-	return accuracy.PoolPilots(rs, accuracy.PoolOptions{Groups: groups})
+// fits across the batch, grouped by frequency and route (the default of
+// accuracy.PoolPilots).
+func poolPilots(rs []almanac.BatchResult) ([]almanac.BatchResult, error) {
+	return accuracy.PoolPilots(rs, accuracy.PoolOptions{})
 }
 
 // pickModels resolves a comma-separated list of names.
