@@ -186,7 +186,15 @@
 // # Persistence
 //
 // A Naive2Fit is an almanac.Storable of kind "accuracy.naive2" (the
-// period and the data; fitting again is exact).
+// period and the data; fitting again is exact). A CalibratedFit is one of
+// kind "accuracy.calibrated": the inner model as a nested document, its
+// own scaled error trajectories, the pooled trajectories its bands are
+// drawn from when they come from a pool (at most Paths of them, not the
+// whole pool), the counts of its status and the options that shape its
+// forecasts; it loads bit-identically (points, bands, Simulate) and
+// measures nothing again. It refreshes through its inner model
+// (almanac.Refresh) and keeps the calibration as measured at the fit:
+// new observations add no errors until it is calibrated again.
 //
 // # Concurrency
 //
