@@ -1,13 +1,16 @@
 package accuracy_test
 
 import (
+	"context"
 	"errors"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/accuracy"
+	"github.com/almanac-go/almanac/smoothing"
 )
 
 func TestTriggSignal(t *testing.T) {
@@ -108,5 +111,53 @@ func TestTriggLimit(t *testing.T) {
 		if rate < 0.038 || rate > 0.062 {
 			t.Errorf("alpha %v: |signal| > %v in %.4f of unbiased series, want about 0.05", tc.alpha, tc.limit, rate)
 		}
+	}
+}
+
+// TestTriggSignalMatchesRefreshPolicy: the refresh policy's tracking
+// signal is TriggSignal of the model's one-step errors on the data's
+// scale with the policy's weight (one implementation, internal/trigg,
+// serves both), before and after a refresh with a missing value.
+func TestTriggSignalMatchesRefreshPolicy(t *testing.T) {
+	y := paintSales(60)
+	fit, err := smoothing.Spec{Trend: smoothing.DampedTrend}.Fit(context.Background(), y.Head(48))
+	if err != nil {
+		t.Fatal(err)
+	}
+	newer := slices.Clone(y.Values[48:])
+	newer[3] = math.NaN()
+	for i := range newer {
+		newer[i] += 30 // a shift the model has not seen: the signal rises
+	}
+	refreshed, err := almanac.Refresh(fit, newer)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name   string
+		f      almanac.Fitted
+		policy almanac.RefreshPolicy
+	}{
+		{"fitted", fit, almanac.RefreshPolicy{}},
+		{"refreshed", refreshed, almanac.RefreshPolicy{}},
+		{"refreshed, weight 0.3", refreshed, almanac.RefreshPolicy{SignalWeight: 0.3, RefitAfter: -1}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			d, err := tc.policy.Decide(tc.f, 1)
+			if err != nil {
+				t.Fatal(err)
+			}
+			alpha := tc.policy.SignalWeight
+			if alpha == 0 {
+				alpha = almanac.DefaultSignalWeight
+			}
+			want, err := accuracy.TriggSignal(almanac.ResponseResiduals(tc.f), alpha)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.Float64bits(d.Signal) != math.Float64bits(want) {
+				t.Fatalf("policy signal %v, TriggSignal %v", d.Signal, want)
+			}
+		})
 	}
 }
