@@ -114,7 +114,7 @@ const (
 // from the data. Limits near 0.5 for α = 0.1 are common practice (Trigg
 // 1964 tabulates them; the value is recalled from memory). With
 // unbiased, independent normal errors and α = 0.1 the signal passes ±0.5
-// in about 7.6% of periods (simulated in internal/trigg's tests), a
+// in about 7.6% of periods (simulated in accuracy's TestTriggLimit), a
 // little more often than one in twenty: accuracy.TriggLimit, 0.54, is
 // the 95% limit, checked there by simulation.
 //

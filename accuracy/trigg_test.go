@@ -83,13 +83,17 @@ func TestTriggSignalBadInput(t *testing.T) {
 // signal after 100 periods (the start long forgotten: 0.9^100 ≈ 3e-5)
 // should exceed the limit in about 5% of series. With 4000 series the
 // binomial standard error of the rate is 0.0034; the band below is
-// ±3.5 of them.
+// ±3.5 of them. The same simulation gives the rate beyond 0.5, the
+// default limit of almanac.RefreshPolicy (which computes the same
+// signal), quoted in its documentation: about 7.6% (measured here;
+// standard error 0.0042, band ±3.5 of them).
 func TestTriggLimit(t *testing.T) {
 	for _, tc := range []struct {
-		alpha, limit float64
+		alpha, limit, lo, hi float64
 	}{
-		{accuracy.TriggAlpha, accuracy.TriggLimit},
-		{0.2, 0.74},
+		{accuracy.TriggAlpha, accuracy.TriggLimit, 0.038, 0.062},
+		{0.2, 0.74, 0.038, 0.062},
+		{almanac.DefaultSignalWeight, almanac.DefaultSignalLimit, 0.061, 0.091},
 	} {
 		rng := rand.New(rand.NewPCG(1964, 271))
 		const series, length = 4000, 100
@@ -108,8 +112,9 @@ func TestTriggLimit(t *testing.T) {
 			}
 		}
 		rate := float64(out) / series
-		if rate < 0.038 || rate > 0.062 {
-			t.Errorf("alpha %v: |signal| > %v in %.4f of unbiased series, want about 0.05", tc.alpha, tc.limit, rate)
+		t.Logf("alpha %v: |signal| > %v in %.4f of unbiased series", tc.alpha, tc.limit, rate)
+		if rate < tc.lo || rate > tc.hi {
+			t.Errorf("alpha %v: |signal| > %v in %.4f of unbiased series, want it in [%v, %v]", tc.alpha, tc.limit, rate, tc.lo, tc.hi)
 		}
 	}
 }
