@@ -485,17 +485,8 @@ func fitSafely(ctx context.Context, m almanac.Model, y almanac.Series) (f almana
 
 // forecastSafely forecasts from f, turning a panic and a wrong length
 // into errors.
-func forecastSafely(f almanac.Fitted, h int, levels ...float64) (fc almanac.Forecast, err error) {
-	defer func() {
-		if v := recover(); v != nil {
-			fc, err = almanac.Forecast{}, fmt.Errorf("accuracy: calibrated: %w: forecast panicked: %v", almanac.ErrNotFitted, v)
-		}
-	}()
-	fc, err = f.Forecast(h, levels...)
-	if err == nil && len(fc.Mean) != h {
-		err = fmt.Errorf("accuracy: calibrated: %w: %d forecasts for horizon %d", almanac.ErrLength, len(fc.Mean), h)
-	}
-	return fc, err
+func forecastSafely(f almanac.Fitted, h int, levels ...float64) (almanac.Forecast, error) {
+	return guarded(h, func() (almanac.Forecast, error) { return f.Forecast(h, levels...) })
 }
 
 // bandForecaster is implemented by fitted models that can give their
@@ -506,20 +497,26 @@ type bandForecaster interface {
 
 // bandForecast forecasts from f for the calibration, which needs points
 // and bands but no sample paths.
-func bandForecast(f almanac.Fitted, h int, levels ...float64) (fc almanac.Forecast, err error) {
+func bandForecast(f almanac.Fitted, h int, levels ...float64) (almanac.Forecast, error) {
 	if b, ok := f.(bandForecaster); ok {
-		defer func() {
-			if v := recover(); v != nil {
-				fc, err = almanac.Forecast{}, fmt.Errorf("accuracy: calibrated: %w: forecast panicked: %v", almanac.ErrNotFitted, v)
-			}
-		}()
-		fc, err = b.ForecastQuantiles(h, levels...)
-		if err == nil && len(fc.Mean) != h {
-			err = fmt.Errorf("accuracy: calibrated: %w: %d forecasts for horizon %d", almanac.ErrLength, len(fc.Mean), h)
-		}
-		return fc, err
+		return guarded(h, func() (almanac.Forecast, error) { return b.ForecastQuantiles(h, levels...) })
 	}
 	return forecastSafely(f, h, levels...)
+}
+
+// guarded calls forecast, turning a panic and a forecast of another
+// length than h into errors.
+func guarded(h int, forecast func() (almanac.Forecast, error)) (fc almanac.Forecast, err error) {
+	defer func() {
+		if v := recover(); v != nil {
+			fc, err = almanac.Forecast{}, fmt.Errorf("accuracy: calibrated: %w: forecast panicked: %v", almanac.ErrNotFitted, v)
+		}
+	}()
+	fc, err = forecast()
+	if err == nil && len(fc.Mean) != h {
+		err = fmt.Errorf("accuracy: calibrated: %w: %d forecasts for horizon %d", almanac.ErrLength, len(fc.Mean), h)
+	}
+	return fc, err
 }
 
 // extendFit brings fit, fitted to y[:from], forward to y[:to] without
