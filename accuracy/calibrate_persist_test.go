@@ -244,3 +244,59 @@ func TestRefreshCalibrated(t *testing.T) {
 		t.Errorf("inner model that cannot refresh: %v, want an error wrapping ErrNotRefreshable", err)
 	}
 }
+
+// TestSavedCalibratedPoolsAgain: loaded fits keep what PoolCalibration
+// needs (their own trajectories, horizon, scale and frequency), so a
+// batch of loaded fits pools to the same bands as the batch that was
+// saved.
+func TestSavedCalibratedPoolsAgain(t *testing.T) {
+	ctx := context.Background()
+	var ys []almanac.Series
+	for i := range 4 {
+		s := paintSales(44 + 3*i)
+		s.Key = string(rune('p' + i))
+		ys = append(ys, s)
+	}
+	res, err := almanac.BatchFit(ctx, accuracy.Calibrated{Model: almanac.Drift{}, Horizon: 3, Origins: 5, MinErrors: 12, Paths: 9, Seed: 4}, ys, almanac.BatchOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	loaded := make([]almanac.BatchResult, len(res))
+	for i, r := range res {
+		if r.Err != nil {
+			t.Fatal(r.Err)
+		}
+		doc, err := almanac.MarshalModel(r.Fitted)
+		if err != nil {
+			t.Fatal(err)
+		}
+		g, err := almanac.UnmarshalModel(doc)
+		if err != nil {
+			t.Fatal(err)
+		}
+		loaded[i] = almanac.BatchResult{Key: r.Key, Fitted: g}
+	}
+	want, err := accuracy.PoolCalibration(res, accuracy.PoolOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := accuracy.PoolCalibration(loaded, accuracy.PoolOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range want {
+		if st := want[i].Fitted.(*accuracy.CalibratedFit).Status(); st.Source != accuracy.BandsFromPooledErrors || st.Pooled != 20 {
+			t.Fatalf("series %d: status %+v, want bands from a pool of 20", i, st)
+		}
+		persisttest.CheckRoundTrip(t, want[i].Fitted, persisttest.Options{H: 4})
+		fw, err := want[i].Fitted.Forecast(4, 80)
+		if err != nil {
+			t.Fatal(err)
+		}
+		fg, err := got[i].Fitted.Forecast(4, 80)
+		if err != nil {
+			t.Fatal(err)
+		}
+		persisttest.SameForecast(t, fg, fw)
+	}
+}
