@@ -173,6 +173,9 @@ func TestSavedCalibratedErrors(t *testing.T) {
 	if _, err := almanac.MarshalModel(&accuracy.CalibratedFit{}); !errors.Is(err, almanac.ErrNotFitted) {
 		t.Errorf("zero value: %v, want an error wrapping ErrNotFitted", err)
 	}
+	if _, err := (&accuracy.CalibratedFit{}).Refresh([]float64{1}); !errors.Is(err, almanac.ErrNotFitted) {
+		t.Errorf("refreshing the zero value: %v, want an error wrapping ErrNotFitted", err)
+	}
 	// narrowNaive's fits do not implement almanac.Storable.
 	f, err := accuracy.Calibrated{Model: narrowNaive{Shrink: 0.5}, Origins: 3}.Fit(context.Background(), paintSales(40))
 	if err != nil {
