@@ -4,6 +4,7 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"math"
 	"slices"
 	"testing"
@@ -39,21 +40,29 @@ func calibratedFits(t *testing.T) map[string]*accuracy.CalibratedFit {
 	fit("model bands", accuracy.Calibrated{Model: almanac.Naive{}, Origins: 3}, y)
 	fit("model bands, strict", accuracy.Calibrated{Model: almanac.Naive{}, Origins: 3, Strict: true}, y)
 
-	var ys []almanac.Series
-	for i := range 5 {
-		s := paintSales(40 + 4*i)
-		s.Key = string(rune('a' + i))
-		ys = append(ys, s)
-	}
-	res, err := almanac.BatchFit(ctx, accuracy.Calibrated{Model: almanac.SeasonalNaive{}, Horizon: 5, Origins: 6, MinErrors: 8, Paths: 11, Seed: 9}, ys, almanac.BatchOptions{})
+	res := calibratedBatch(t, accuracy.Calibrated{Model: almanac.SeasonalNaive{}, Horizon: 5, Origins: 6, MinErrors: 8, Paths: 11, Seed: 9}, 5, 40, 4)
+	res, err := accuracy.PoolCalibration(res, accuracy.PoolOptions{})
 	if err != nil {
-		t.Fatal(err)
-	}
-	if res, err = accuracy.PoolCalibration(res, accuracy.PoolOptions{}); err != nil {
 		t.Fatal(err)
 	}
 	out["pooled, subsampled"] = res[2].Fitted.(*accuracy.CalibratedFit)
 	return out
+}
+
+// calibratedBatch fits spec to k invented series (paintSales) of n,
+// n + step, ... observations.
+func calibratedBatch(t *testing.T, spec accuracy.Calibrated, k, n, step int) []almanac.BatchResult {
+	t.Helper()
+	ys := make([]almanac.Series, k)
+	for i := range ys {
+		ys[i] = paintSales(n + step*i)
+		ys[i].Key = fmt.Sprint("store-", i)
+	}
+	res, err := almanac.BatchFit(context.Background(), spec, ys, almanac.BatchOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return res
 }
 
 // TestSavedCalibrated: a calibrated fit saves and loads bit-identically
@@ -253,17 +262,7 @@ func TestRefreshCalibrated(t *testing.T) {
 // batch of loaded fits pools to the same bands as the batch that was
 // saved.
 func TestSavedCalibratedPoolsAgain(t *testing.T) {
-	ctx := context.Background()
-	var ys []almanac.Series
-	for i := range 4 {
-		s := paintSales(44 + 3*i)
-		s.Key = string(rune('p' + i))
-		ys = append(ys, s)
-	}
-	res, err := almanac.BatchFit(ctx, accuracy.Calibrated{Model: almanac.Drift{}, Horizon: 3, Origins: 5, MinErrors: 12, Paths: 9, Seed: 4}, ys, almanac.BatchOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	res := calibratedBatch(t, accuracy.Calibrated{Model: almanac.Drift{}, Horizon: 3, Origins: 5, MinErrors: 12, Paths: 9, Seed: 4}, 4, 44, 3)
 	loaded := make([]almanac.BatchResult, len(res))
 	for i, r := range res {
 		if r.Err != nil {
