@@ -489,9 +489,9 @@ func clonePaths(paths [][]float64) [][]float64 {
 // anything again, and the report keeps the route, its periods, the
 // fallbacks and the repairs of the fit (new missing values go to the
 // route's model as they are, not repaired). A route refreshes only when
-// every model in it does: today ETS and ARIMA do, while Theta, the
-// intermittent-demand methods, the benchmarks and the calibrated wrapper
-// do not, so every route Pilot fits gives an error wrapping
+// every model in it does: today ETS, ARIMA and the calibrated wrapper
+// do, while Theta, the intermittent-demand methods and the benchmarks do
+// not, so every route Pilot fits gives an error wrapping
 // almanac.ErrNotRefreshable: refit the series (almanac.RefreshPolicy
 // decides when). The method is there so that a route made only of
 // refreshable models refreshes through them.

@@ -64,10 +64,8 @@ func pilotRouteCases(t *testing.T) []struct {
 // TestSavedPilot: a Pilot fit of every route saves and loads back to a
 // fit that forecasts, bands and simulates bit-identically (checked by
 // internal/persisttest) and reports the same route, members, fallbacks,
-// repairs and calibration. The uncalibrated forecaster is checked on
-// every route; the calibrated one wherever its calibrated wrapper
-// (accuracy.CalibratedFit) can be saved, and otherwise saving must fail
-// with a clear error, not a panic.
+// repairs and calibration, calibrated (the default: the route's model
+// nested in an accuracy.CalibratedFit) and uncalibrated.
 func TestSavedPilot(t *testing.T) {
 	ctx := context.Background()
 	for _, tc := range pilotRouteCases(t) {
@@ -84,12 +82,6 @@ func TestSavedPilot(t *testing.T) {
 				f := fit.(*accuracy.PilotFit)
 				if rep := f.Report(); rep.Route != tc.route {
 					t.Fatalf("route %v, want %v (%+v)", rep.Route, tc.route, rep)
-				}
-				if _, ok := f.Inner().(almanac.Storable); !ok {
-					if _, err := almanac.MarshalModel(f); !errors.Is(err, almanac.ErrInvalid) {
-						t.Fatalf("saving a fit whose route model %T cannot be saved: %v, want an error wrapping ErrInvalid", f.Inner(), err)
-					}
-					t.Skipf("%T cannot be saved yet", f.Inner())
 				}
 				g := persisttest.CheckRoundTrip(t, f, persisttest.Options{H: tc.h})
 				want, got := f.Report(), g.(*accuracy.PilotFit).Report()
@@ -162,7 +154,7 @@ func TestSavedPilotTampered(t *testing.T) {
 // updated with the new values (smoothing.Fitted.Update, a missing value
 // included), and the refreshed fit saves and loads bit-identically with
 // its repairs. Pilot's own routes hold models that do not refresh
-// (Theta, the calibrated wrapper), so refreshing them is an error
+// (Theta, Croston/SBA, the benchmarks), so refreshing them is an error
 // wrapping almanac.ErrNotRefreshable.
 func TestRefreshPilot(t *testing.T) {
 	ctx := context.Background()
@@ -209,6 +201,42 @@ func TestRefreshPilot(t *testing.T) {
 		}
 		if _, err := almanac.Refresh(fit, all.Values[48:50]); !errors.Is(err, almanac.ErrNotRefreshable) {
 			t.Errorf("refreshing %s: %v, want an error wrapping ErrNotRefreshable", fit, err)
+		}
+	}
+}
+
+// TestSavedPooledPilots: fits whose bands draw on errors pooled across a
+// batch (PoolPilots) save and load bit-identically, pool included, and
+// report the pooled calibration after loading.
+func TestSavedPooledPilots(t *testing.T) {
+	ctx := context.Background()
+	var ys []almanac.Series
+	for i := range 10 {
+		r := rand.New(rand.NewPCG(uint64(i), 9))
+		v := make([]float64, 30)
+		x := 50.0
+		for k := range v {
+			x += 0.5 + 2*r.NormFloat64()
+			v[k] = x
+		}
+		ys = append(ys, almanac.Series{Key: "y" + string(rune('a'+i)), Start: date(1995, 1, 1), Freq: calendar.Yearly, Values: v})
+	}
+	res, err := almanac.BatchFit(ctx, accuracy.Pilot{Paths: 200}, ys, almanac.BatchOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pooled, err := accuracy.PoolPilots(res, accuracy.PoolOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, r := range pooled[:3] {
+		f := r.Fitted.(*accuracy.PilotFit)
+		if f.Report().Calibration.Source != accuracy.BandsFromPooledErrors {
+			t.Fatalf("%s: %+v", r.Key, f.Report().Calibration)
+		}
+		g := persisttest.CheckRoundTrip(t, f, persisttest.Options{H: 6})
+		if got, want := g.(*accuracy.PilotFit).Report().Calibration, f.Report().Calibration; got != want {
+			t.Errorf("%s: calibration after loading %+v, want %+v", r.Key, got, want)
 		}
 	}
 }
