@@ -141,4 +141,3 @@ func (ts *testService) fit(series, method, extra string) modelInfo {
 	ts.must(http.StatusCreated, "POST", "/v1/models", `{"series": "`+series+`", "method": "`+method+`"`+extra+`}`, &mi)
 	return mi
 }
-

@@ -52,6 +52,7 @@ type problem struct {
 const (
 	kindInvalid   = "invalid-input"  // 400
 	kindNotFound  = "not-found"      // 404
+	kindMethod    = "wrong-method"   // 405
 	kindConflict  = "conflict"       // 409
 	kindTooLarge  = "body-too-large" // 413
 	kindCannotFit = "cannot-fit"     // 422

@@ -97,10 +97,42 @@ func (s *Server) Handler() http.Handler {
 	handle("GET /v1/models/{id}/chart", s.chart)
 	handle("POST /v1/models/{id}/refresh", s.refresh)
 	handle("GET /v1/review", s.review)
-	mux.Handle("/", s.guard(func(w http.ResponseWriter, r *http.Request) error {
-		return fmt.Errorf("service: %w: no route %s %s", ErrNotFound, r.Method, r.URL.Path)
-	}))
-	return mux
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		if _, pattern := mux.Handler(r); pattern == "" {
+			// No route, or a route without this method: answer as the
+			// mux would, but with a problem document.
+			c := &captured{header: http.Header{}}
+			mux.ServeHTTP(c, r)
+			if allow := c.header.Get("Allow"); allow != "" {
+				w.Header().Set("Allow", allow)
+			}
+			kind := kindNotFound
+			if c.status == http.StatusMethodNotAllowed {
+				kind = kindMethod
+			}
+			writeJSON(w, c.status, map[string]problem{"problem": {Status: c.status, Kind: kind,
+				Detail: fmt.Sprintf("service: no route %s %s", r.Method, r.URL.Path)}})
+			return
+		}
+		mux.ServeHTTP(w, r)
+	})
+}
+
+// captured records the status and header a handler writes.
+type captured struct {
+	header http.Header
+	status int
+}
+
+func (c *captured) Header() http.Header { return c.header }
+func (c *captured) WriteHeader(status int) {
+	if c.status == 0 {
+		c.status = status
+	}
+}
+func (c *captured) Write(b []byte) (int, error) {
+	c.WriteHeader(http.StatusOK)
+	return len(b), nil
 }
 
 // guard limits the body, sets the deadline, and answers an error with a
