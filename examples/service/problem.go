@@ -63,7 +63,7 @@ const (
 
 // Sentinels of bad input, answered with 400.
 var badInput = []error{
-	ErrRequest, almanac.ErrEmpty, almanac.ErrAllMissing, almanac.ErrMissing, almanac.ErrNonFinite,
+	ErrRequest, almanac.ErrEmpty, almanac.ErrAllMissing, almanac.ErrNonFinite,
 	almanac.ErrLength, almanac.ErrFrequency, almanac.ErrLevel, almanac.ErrHorizon, almanac.ErrInvalid,
 	almanac.ErrDecode, almanac.ErrCSVSyntax, almanac.ErrCSVHeader, almanac.ErrCSVValue, almanac.ErrCSVTime,
 	almanac.ErrCSVDuplicate, almanac.ErrCSVOrder, almanac.ErrCSVGap, almanac.ErrCSVIrregular,
@@ -72,7 +72,7 @@ var badInput = []error{
 
 // Sentinels of data a method cannot fit or forecast, answered with 422.
 var cannotFit = []error{
-	almanac.ErrNotFitted, almanac.ErrTooShort, almanac.ErrConstant, almanac.ErrNonPositive,
+	almanac.ErrNotFitted, almanac.ErrTooShort, almanac.ErrMissing, almanac.ErrConstant, almanac.ErrNonPositive,
 	almanac.ErrNoDistribution, almanac.ErrNotRefreshable, smoothing.ErrNoCandidate, smoothing.ErrPeriodTooLong,
 	smoothing.ErrNotAdmissible, arima.ErrCollinear, arima.ErrNonStationary, arima.ErrNearUnitRoot,
 	accuracy.ErrBacktest, accuracy.ErrUndefined, charts.ErrDraw,
