@@ -68,6 +68,7 @@ func fromLibrary(fc almanac.Forecast) forecastBody {
 }
 
 func TestFitAndForecast(t *testing.T) {
+	t.Parallel()
 	ts := newService(t)
 	ts.postDemo()
 	var listed struct{ Methods []methodInfo }
@@ -132,6 +133,7 @@ func TestFitAndForecast(t *testing.T) {
 }
 
 func TestBadModelRequests(t *testing.T) {
+	t.Parallel()
 	ts := newService(t)
 	ts.postDemo()
 	ets := ts.fit("north/paint", "theta", "")
@@ -204,10 +206,11 @@ func TestBadModelRequests(t *testing.T) {
 }
 
 func TestChart(t *testing.T) {
+	t.Parallel()
 	ts := newService(t)
 	ts.postDemo()
 	m := ts.fit("north/paint", "theta", "")
-	status, b := ts.do("GET", fmt.Sprintf("/v1/models/%d/chart?format=png&width=640&height=300&h=6", m.ID), "", "")
+	status, b := ts.do("GET", fmt.Sprintf("/v1/models/%d/chart?format=png&width=320&height=200&h=6", m.ID), "", "")
 	if status != 200 {
 		t.Fatalf("png: %d %s", status, b)
 	}
@@ -215,8 +218,8 @@ func TestChart(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if r := img.Bounds(); r.Dx() != 640 || r.Dy() != 300 {
-		t.Errorf("png of %d × %d, want 640 × 300", r.Dx(), r.Dy())
+	if r := img.Bounds(); r.Dx() != 320 || r.Dy() != 200 {
+		t.Errorf("png of %d × %d, want 320 × 200", r.Dx(), r.Dy())
 	}
 	status, b = ts.do("GET", fmt.Sprintf("/v1/models/%d/chart", m.ID), "", "")
 	if status != 200 {
@@ -234,6 +237,7 @@ func TestChart(t *testing.T) {
 }
 
 func TestBacktest(t *testing.T) {
+	t.Parallel()
 	ts := newService(t)
 	ts.postDemo()
 	var out compareOut
@@ -264,6 +268,7 @@ func TestBacktest(t *testing.T) {
 }
 
 func TestReviewPage(t *testing.T) {
+	t.Parallel()
 	ts := newService(t)
 	ts.postDemo()
 	a := ts.fit("north/paint", "theta", "")
@@ -296,6 +301,7 @@ func TestReviewPage(t *testing.T) {
 }
 
 func TestReviewWithoutModels(t *testing.T) {
+	t.Parallel()
 	ts := newService(t)
 	status, b := ts.do("GET", "/v1/review", "", "")
 	if p := problemOf(t, b); status != 404 || p.Kind != kindNotFound {

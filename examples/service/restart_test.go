@@ -13,6 +13,7 @@ import (
 // float64 bit patterns after the JSON round trip, which writes the
 // shortest text that reads back as the same float64).
 func TestRestart(t *testing.T) {
+	t.Parallel()
 	path := filepath.Join(t.TempDir(), "plan.db")
 	first := openService(t, path, Limits{})
 	first.postDemo()

@@ -8,6 +8,7 @@ import (
 )
 
 func TestSeriesEndpoints(t *testing.T) {
+	t.Parallel()
 	ts := newService(t)
 	ts.postDemo()
 
@@ -60,6 +61,7 @@ func TestSeriesEndpoints(t *testing.T) {
 }
 
 func TestBadSeries(t *testing.T) {
+	t.Parallel()
 	ts := newService(t)
 	ts.postDemo()
 	paint := seriesJSON("x", "2021-01", "month", []float64{1, 2, 3})
@@ -127,6 +129,7 @@ func TestBadSeries(t *testing.T) {
 }
 
 func TestOversizedBody(t *testing.T) {
+	t.Parallel()
 	ts := openService(t, t.TempDir()+"/plan.db", Limits{Body: 2048})
 	big := `{"series": [` + seriesJSON("north/paint", "2000-01", "month", paintSales(400)) + `]}`
 	for _, ct := range []string{"application/json", "text/csv"} {
@@ -147,6 +150,7 @@ func TestOversizedBody(t *testing.T) {
 }
 
 func TestSeriesValuesKeepBits(t *testing.T) {
+	t.Parallel()
 	// The store keeps the bit patterns of the values: the smallest
 	// subnormal, the largest finite value, negative zero and missing.
 	st, err := OpenSQLite(t.TempDir() + "/bits.db")
