@@ -15,7 +15,7 @@
 // # Endpoints
 //
 //	GET  /v1/methods                        the methods a fit may name
-//	POST /v1/series                         store series (JSON, or the long CSV with Content-Type text/csv); replaces same keys
+//	POST /v1/series[?gaps=fill]             store series (JSON, or the long CSV with Content-Type text/csv); replaces same keys
 //	GET  /v1/series                         list the stored series
 //	GET  /v1/series/{key}                   one series, values with null for missing
 //	POST /v1/series/{key}/observations      append observations: {"values": [14.2, null, 15]}
@@ -35,7 +35,8 @@
 // hour, day, week, month, quarter or year, and every (default 1) the
 // number of units between observations. POST /v1/series takes {"series":
 // [...]}. The CSV is the library's long format (columns series, period,
-// value; see almanac.ReadCSV).
+// value; see almanac.ReadCSV); a period without a row is an error unless
+// the query says gaps=fill, which makes it a missing value.
 //
 // Methods (field "method" of a fit, "methods" of a backtest): pilot (the
 // default: the automatic forecaster, accuracy.Pilot, with the options

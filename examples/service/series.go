@@ -99,7 +99,8 @@ func infoOf(y almanac.Series) SeriesInfo {
 }
 
 // readSeries reads the series of a POST /v1/series body: the long CSV
-// when the content type is text/csv, JSON otherwise.
+// when the content type is text/csv (with ?gaps=fill, periods without a
+// row become missing values instead of an error), JSON otherwise.
 func readSeries(r *http.Request) ([]almanac.Series, error) {
 	ct, _, _ := mime.ParseMediaType(r.Header.Get("Content-Type"))
 	if ct == "text/csv" {
@@ -107,7 +108,15 @@ func readSeries(r *http.Request) ([]almanac.Series, error) {
 		if err != nil {
 			return nil, err
 		}
-		ys, err := almanac.ReadCSV(bytes.NewReader(b), almanac.CSVOptions{})
+		opt := almanac.CSVOptions{}
+		switch g := r.URL.Query().Get("gaps"); g {
+		case "", "refuse":
+		case "fill":
+			opt.FillGaps = true
+		default:
+			return nil, &fieldError{Field: "gaps", Err: fmt.Errorf("%w: gaps=%q (fill, or refuse: the default)", ErrRequest, g)}
+		}
+		ys, err := almanac.ReadCSV(bytes.NewReader(b), opt)
 		if err != nil {
 			return nil, fmt.Errorf("service: csv: %w", err)
 		}

@@ -20,16 +20,28 @@ func TestSeriesEndpoints(t *testing.T) {
 		t.Fatalf("csv: %d %s", status, b)
 	}
 
+	// A gap in the CSV: refused by default, missing values on request.
+	gappy := "series,period,value\neast/rope,2024-01-01,3\neast/rope,2024-02-01,4\neast/rope,2024-05-01,5\n"
+	if status, b := ts.do("POST", "/v1/series", "text/csv", gappy); status != http.StatusBadRequest {
+		t.Errorf("gap refused: %d %s", status, b)
+	}
+	if status, b := ts.do("POST", "/v1/series?gaps=fill", "text/csv", gappy); status != http.StatusCreated || !strings.Contains(string(b), `"length":5,"missing":2`) {
+		t.Errorf("gap filled: %d %s", status, b)
+	}
+	if status, b := ts.do("POST", "/v1/series?gaps=guess", "text/csv", gappy); status != http.StatusBadRequest || problemOf(t, b).Field != "gaps" {
+		t.Errorf("gaps=guess: %d %s", status, b)
+	}
+
 	var list struct{ Series []SeriesInfo }
 	ts.must(http.StatusOK, "GET", "/v1/series", "", &list)
-	if len(list.Series) != 3 {
-		t.Fatalf("listed %d series, want 3: %+v", len(list.Series), list.Series)
+	if len(list.Series) != 4 {
+		t.Fatalf("listed %d series, want 4: %+v", len(list.Series), list.Series)
 	}
 	want := []struct {
 		key           string
 		unit          string
 		length, nmiss int
-	}{{"north/hoses", "month", 40, 0}, {"north/paint", "month", 48, 0}, {"south/ladders", "quarter", 5, 1}}
+	}{{"east/rope", "month", 5, 2}, {"north/hoses", "month", 40, 0}, {"north/paint", "month", 48, 0}, {"south/ladders", "quarter", 5, 1}}
 	for i, w := range want {
 		got := list.Series[i]
 		if got.Key != w.key || got.Unit != w.unit || got.Length != w.length || got.Missing != w.nmiss {
