@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"math"
 	"net/url"
+	"strings"
 	"time"
 
 	"github.com/almanac-go/almanac"
@@ -47,6 +48,35 @@ CREATE TABLE IF NOT EXISTS models (
 CREATE INDEX IF NOT EXISTS models_by_series ON models(series_key, id);
 `
 
+// schemaVersion is the version of schema, kept in the database's
+// user_version: a database of a newer version is refused rather than
+// misread.
+const schemaVersion = 1
+
+// migrate creates the schema of a new database and checks the version of
+// an existing one.
+func migrate(db *sql.DB) error {
+	var v int
+	if err := db.QueryRow(`PRAGMA user_version`).Scan(&v); err != nil {
+		return err
+	}
+	if v > schemaVersion {
+		return fmt.Errorf("the database has schema version %d; this program knows up to %d", v, schemaVersion)
+	}
+	tx, err := db.Begin()
+	if err != nil {
+		return err
+	}
+	defer tx.Rollback()
+	if _, err := tx.Exec(schema); err != nil {
+		return err
+	}
+	if _, err := tx.Exec(fmt.Sprintf(`PRAGMA user_version = %d`, schemaVersion)); err != nil {
+		return err
+	}
+	return tx.Commit()
+}
+
 // SQLiteStore is the Store kept in one SQLite database file, through the
 // pure-Go driver modernc.org/sqlite (no cgo). It is safe for concurrent
 // use: the database is opened with one connection, so writes are
@@ -68,12 +98,15 @@ func OpenSQLite(path string) (*SQLiteStore, error) {
 	q.Add("_pragma", "busy_timeout(5000)")
 	q.Add("_pragma", "journal_mode(WAL)")
 	q.Add("_pragma", "synchronous(FULL)")
-	db, err := sql.Open("sqlite", "file:"+path+"?"+q.Encode())
+	// The path goes into a file: URI, where %, ? and # have meanings of
+	// their own: escape them so the file opened is the one named.
+	uri := strings.NewReplacer("%", "%25", "?", "%3f", "#", "%23").Replace(path)
+	db, err := sql.Open("sqlite", "file:"+uri+"?"+q.Encode())
 	if err != nil {
 		return nil, fmt.Errorf("service: open store %s: %w: %w", path, ErrStore, err)
 	}
 	db.SetMaxOpenConns(1)
-	if _, err := db.Exec(schema); err != nil {
+	if err := migrate(db); err != nil {
 		db.Close()
 		return nil, fmt.Errorf("service: open store %s: %w: %w", path, ErrStore, err)
 	}

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"os"
 	"path/filepath"
 	"sync"
 	"testing"
@@ -109,10 +110,42 @@ func TestSQLiteStore(t *testing.T) {
 
 func TestOpenSQLiteErrors(t *testing.T) {
 	t.Parallel()
-	for _, path := range []string{"", filepath.Join(t.TempDir(), "missing-dir", "x.db")} {
+	newer := filepath.Join(t.TempDir(), "newer.db")
+	st, err := OpenSQLite(newer)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := st.db.Exec(`PRAGMA user_version = 99`); err != nil {
+		t.Fatal(err)
+	}
+	st.Close()
+	for _, path := range []string{"", filepath.Join(t.TempDir(), "missing-dir", "x.db"), newer} {
 		if _, err := OpenSQLite(path); !errors.Is(err, ErrStore) {
 			t.Errorf("OpenSQLite(%q) = %v, want an error wrapping ErrStore", path, err)
 		}
+	}
+}
+
+// TestOddPaths checks that the file opened is the one named, whatever
+// characters its path holds (%, ? and # mean something in a file: URI).
+func TestOddPaths(t *testing.T) {
+	t.Parallel()
+	for _, name := range []string{"with space", "per%cent", "what?mark", "hash#tag", "ünïcode"} {
+		t.Run(name, func(t *testing.T) {
+			dir := filepath.Join(t.TempDir(), name)
+			if err := os.Mkdir(dir, 0o755); err != nil {
+				t.Fatal(err)
+			}
+			path := filepath.Join(dir, "plan.db")
+			st, err := OpenSQLite(path)
+			if err != nil {
+				t.Fatal(err)
+			}
+			st.Close()
+			if _, err := os.Stat(path); err != nil {
+				t.Errorf("no database at %s: %v", path, err)
+			}
+		})
 	}
 }
 
