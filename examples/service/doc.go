@@ -29,6 +29,9 @@
 //	POST /v1/models/{id}/refresh            bring the model up to its series (see Refresh)
 //	GET  /v1/review[?series=KEY...]&h=&level=   the review page of the stored models (accuracy.WriteReview)
 //
+// A key holding a slash is written with the slash escaped in a path
+// (/v1/series/north%2Fpaint).
+//
 // A series in JSON is {"key": "north/paint", "start": "2021-01", "unit":
 // "month", "every": 1, "values": [212.4, null, 230.1]}; start takes the
 // layouts of the CSV reader (almanac.DefaultTimeLayouts), unit is minute,

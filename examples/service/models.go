@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -99,7 +100,8 @@ func (s *Server) fitModel(w http.ResponseWriter, r *http.Request) error {
 		return err
 	}
 	s.rememberRecord(rec, f.fit)
-	if rec, err = s.store.Model(ctx, rec.ID); err != nil {
+	// Committed: answer even if the client has gone meanwhile.
+	if rec, err = s.store.Model(context.WithoutCancel(ctx), rec.ID); err != nil {
 		return err
 	}
 	writeJSON(w, http.StatusCreated, infoOfModel(rec, f.fit))
@@ -431,7 +433,7 @@ func (s *Server) refresh(w http.ResponseWriter, r *http.Request) error {
 		return err
 	}
 	s.rememberRecord(rec, next.fit)
-	if rec, err = s.store.Model(ctx, id); err != nil {
+	if rec, err = s.store.Model(context.WithoutCancel(ctx), id); err != nil { // committed
 		return err
 	}
 	writeJSON(w, http.StatusOK, map[string]any{"action": action, "model": infoOfModel(rec, next.fit),
