@@ -142,8 +142,17 @@ func encodeFit(fit almanac.Fitted, name string, o methodOptions, y almanac.Serie
 }
 
 // loadFit rebuilds a stored model: from its document, or by fitting its
-// recipe again (which honours ctx).
+// recipe again (which honours ctx). A stored model that cannot be rebuilt
+// gives an error wrapping ErrStore (and the library's error).
 func loadFit(ctx context.Context, rec ModelRecord) (almanac.Fitted, error) {
+	f, err := rebuild(ctx, rec)
+	if err != nil && ctx.Err() == nil {
+		return nil, fmt.Errorf("%w: %w", ErrStore, err)
+	}
+	return f, err
+}
+
+func rebuild(ctx context.Context, rec ModelRecord) (almanac.Fitted, error) {
 	switch rec.Form {
 	case FormDocument:
 		f, err := almanac.UnmarshalModel(rec.Body)

@@ -308,3 +308,20 @@ func TestReviewWithoutModels(t *testing.T) {
 		t.Errorf("empty review: %d %+v", status, p)
 	}
 }
+
+// TestDamagedStoredModel checks that a stored document damaged in the
+// database is answered with 500 (the service's problem), not a panic
+// and not a client error.
+func TestDamagedStoredModel(t *testing.T) {
+	t.Parallel()
+	ts := newService(t)
+	ts.postDemo()
+	m := ts.fit("north/paint", "theta", "")
+	if _, err := ts.store.db.Exec(`UPDATE models SET body = substr(body, 1, 40) WHERE id = ?`, m.ID); err != nil {
+		t.Fatal(err)
+	}
+	status, b := ts.do("GET", fmt.Sprintf("/v1/models/%d/forecast", m.ID), "", "")
+	if p := problemOf(t, b); status != http.StatusInternalServerError || p.Kind != kindStore || !strings.Contains(p.Detail, "cannot decode saved model") {
+		t.Errorf("damaged model: %d %+v", status, p)
+	}
+}

@@ -90,7 +90,8 @@ func isAny(err error, targets []error) bool {
 // statusOf maps an error to a status code and a kind, by errors.Is on the
 // sentinels: the request's deadline or cancellation first (a fit that
 // stopped for it fails with its error), then the size limit, unknown ids,
-// conflicts, data no method can fit, bad input, and the store.
+// conflicts, the store (a stored model that cannot be loaded included),
+// data no method can fit, and bad input.
 func statusOf(err error) (int, string) {
 	var tooLarge *http.MaxBytesError
 	switch {
@@ -102,12 +103,14 @@ func statusOf(err error) (int, string) {
 		return http.StatusNotFound, kindNotFound
 	case errors.Is(err, ErrConflict):
 		return http.StatusConflict, kindConflict
+	case errors.Is(err, ErrStore):
+		// Before the data sentinels: a stored model that no longer loads
+		// is the service's problem, not the client's.
+		return http.StatusInternalServerError, kindStore
 	case isAny(err, cannotFit):
 		return http.StatusUnprocessableEntity, kindCannotFit
 	case isAny(err, badInput):
 		return http.StatusBadRequest, kindInvalid
-	case errors.Is(err, ErrStore):
-		return http.StatusInternalServerError, kindStore
 	}
 	return http.StatusInternalServerError, kindInternal
 }

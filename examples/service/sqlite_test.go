@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 	"sync"
 	"testing"
 	"time"
@@ -184,5 +185,63 @@ func TestConcurrentRequests(t *testing.T) {
 	ts.must(200, "GET", "/v1/models/1", "", &mi)
 	if mi.ID != m.ID || mi.Seen != 50 || mi.Added != 2 {
 		t.Errorf("model after concurrent refreshes: %+v", mi)
+	}
+}
+
+// opaque hides every capability of a fitted model but the Fitted
+// interface, as a type that cannot be saved as a document.
+type opaque struct{ almanac.Fitted }
+
+// TestRecipe checks the form a model that cannot be saved as a document
+// is stored in: the method, its options and the data, fitted again on
+// loading to the same forecasts, bit for bit.
+func TestRecipe(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	y, err := almanac.NewSeries("north/hoses", time.Date(2021, 1, 1, 0, 0, 0, 0, time.UTC), calendar.Monthly, hoseSales(40))
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := fitWith(ctx, "theta", methodOptions{}, y)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if f.form != FormDocument {
+		t.Fatalf("theta stored as %s", f.form)
+	}
+	r, err := encodeFit(opaque{f.fit}, "theta", methodOptions{}, y)
+	if err != nil || r.form != FormRecipe {
+		t.Fatalf("opaque fit stored as %q, %v", r.form, err)
+	}
+	back, err := loadFit(ctx, ModelRecord{ID: 1, Label: f.fit.String(), Form: r.form, Body: r.body})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, _ := f.fit.Forecast(8, 80, 95)
+	got, err := back.Forecast(8, 80, 95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := sameBits(fromLibrary(got), fromLibrary(want)); err != nil {
+		t.Error(err)
+	}
+
+	// Stored bodies that cannot be rebuilt: the service's problem (500).
+	tests := []struct {
+		name string
+		rec  ModelRecord
+	}{
+		{"truncated document", ModelRecord{Label: f.fit.String(), Form: FormDocument, Body: f.body[:len(f.body)/2]}},
+		{"recipe of another model", ModelRecord{Label: "ETS(A,N,N)", Form: FormRecipe, Body: r.body}},
+		{"recipe with an unknown method", ModelRecord{Label: "Theta", Form: FormRecipe, Body: []byte(strings.Replace(string(r.body), `"theta"`, `"tea-leaves"`, 1))}},
+		{"unknown form", ModelRecord{Label: "Theta", Form: "scroll", Body: r.body}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			_, err := loadFit(ctx, tt.rec)
+			if status, kind := statusOf(err); !errors.Is(err, ErrStore) || status != 500 || kind != kindStore {
+				t.Errorf("error %v: status %d %s, want 500 %s", err, status, kind, kindStore)
+			}
+		})
 	}
 }
