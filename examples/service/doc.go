@@ -45,7 +45,8 @@
 // default: the automatic forecaster, accuracy.Pilot, with the options
 // seed, paths and plain_bands), ets (smoothing.Select), arima
 // (arima.Search), theta (smoothing.Theta), and the benchmarks naive and
-// seasonal-naive, which every backtest includes. A backtest request is
+// seasonal-naive (a backtest always includes the naive method and, for
+// seasonal data, the seasonal naive one, so they are not named there). A backtest request is
 // {"methods": ["pilot", "ets"], "horizon": 12, "origins": 4, "levels":
 // [80, 95]}, every field optional (one seasonal period ahead from the 4
 // latest origins, bands at 80 and 95).
@@ -90,7 +91,8 @@
 // body-too-large, 422 cannot-fit (data the method cannot fit: too short,
 // constant, missing values for a method that needs complete data), 503
 // deadline (the request's deadline passed or the client went away), 500
-// store or internal.
+// store (the database failed, or a stored model no longer loads) or
+// internal.
 //
 // # Limits
 //
