@@ -56,11 +56,14 @@
 // A fitted model is stored as the library's saved-model document
 // (almanac.MarshalModel) and rebuilt by almanac.UnmarshalModel, which
 // forecasts bit for bit as the model did before. A fitted type that
-// cannot be saved as a document yet (the automatic forecaster's, at the
-// time of writing) is stored as a recipe: the method, its options and the
-// data, fitted again when loaded, which gives the same model because
-// every method is deterministic (the recipe is checked against the stored
-// model's notation). Loaded models are kept in memory (up to 256).
+// does not implement almanac.Storable (a library version whose automatic
+// forecaster has no saved-model kind yet, or a method of your own added
+// to the service) is stored as a recipe instead: the method, its options
+// and the data, fitted again when loaded, which gives the same model
+// because every method is deterministic (the recipe is checked against
+// the stored model's notation). The answer of a fit says which form it
+// was stored in (stored_as). Loaded models are kept in memory (up to
+// 256).
 //
 // # Refresh
 //

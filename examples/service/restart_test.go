@@ -11,7 +11,9 @@ import (
 // same database file in a new server and checks that every stored model
 // forecasts bit for bit what it did before (means and bands, compared as
 // float64 bit patterns after the JSON round trip, which writes the
-// shortest text that reads back as the same float64).
+// shortest text that reads back as the same float64). Models stored as
+// documents are rebuilt by almanac.UnmarshalModel, recipes by fitting
+// again (TestRecipe covers that form whatever the library can save).
 func TestRestart(t *testing.T) {
 	t.Parallel()
 	path := filepath.Join(t.TempDir(), "plan.db")
