@@ -72,7 +72,7 @@ func Example() {
 	// Output:
 	// /v1/series 201 Created
 	// /v1/models 201 Created
-	// model 1 SeasonalNaive[4]
+	// model 1 SeasonalNaive(4)
 	// 2025-01-01 27.000 [23.927, 30.073]
 	// 2025-04-01 34.000 [30.927, 37.073]
 }
