@@ -41,6 +41,7 @@ type levelScore struct {
 	months       int     // node-months scored
 	monthsInside int     // months inside their 80% band
 	pctErr       float64 // mean absolute % error of the annual totals
+	bias         float64 // mean % error (forecast − outcome) of the annual totals
 	naivePctErr  float64 // the same for "as much as the year before"
 }
 
@@ -127,13 +128,15 @@ func scoreLevels(st reconcile.Structure, origins []originScore) []levelScore {
 				s.months += len(o.actual[i])
 				s.monthsInside += o.months[i]
 				if o.total[i] > 0 {
-					s.pctErr += math.Abs(sum(o.forecasts[i].Mean)-o.total[i]) / o.total[i]
+					e := (sum(o.forecasts[i].Mean) - o.total[i]) / o.total[i]
+					s.pctErr += math.Abs(e)
+					s.bias += e
 					s.naivePctErr += math.Abs(o.lastYear[i]-o.total[i]) / o.total[i]
 					pct++
 				}
 			}
 		}
-		s.pctErr, s.naivePctErr = 100*s.pctErr/float64(pct), 100*s.naivePctErr/float64(pct)
+		s.pctErr, s.bias, s.naivePctErr = 100*s.pctErr/float64(pct), 100*s.bias/float64(pct), 100*s.naivePctErr/float64(pct)
 		out = append(out, s)
 	}
 	return out
@@ -149,12 +152,12 @@ func printCheck(w io.Writer, st reconcile.Structure, c *bandCheck) {
 	}
 	fmt.Fprintf(w, "Do the plan's bands hold? The plan remade with the data up to %s,\n", joinAnd(when))
 	fmt.Fprintf(w, "each time forecasting the next %d months, beside what was then sold\n", horizon)
-	fmt.Fprintf(w, "  %-15s %6s  %-24s %-22s %16s\n", "", "series",
-		fmt.Sprintf("year's total in %.0f%% band", level), fmt.Sprintf("months in %.0f%% band", level), "error of year's total")
-	fmt.Fprintf(w, "  %-15s %6s  %-24s %-22s %8s %8s\n", "", "", "", "", "plan", "as 1y ago")
+	fmt.Fprintf(w, "  %-15s %6s  %-24s %-22s %s\n", "", "series",
+		fmt.Sprintf("year's total in %.0f%% band", level), fmt.Sprintf("months in %.0f%% band", level), "year's total off by (mean)")
+	fmt.Fprintf(w, "  %-15s %6s  %-24s %-22s %8s %8s %9s\n", "", "", "", "", "plan", "signed", "as 1y ago")
 	for _, s := range c.levels {
-		fmt.Fprintf(w, "  %-15s %6d  %-24s %-22s %7.1f%% %7.1f%%\n", s.name, s.nodes,
-			share(s.yearsInside, s.years), share(s.monthsInside, s.months), s.pctErr, s.naivePctErr)
+		fmt.Fprintf(w, "  %-15s %6d  %-24s %-22s %7.1f%% %+7.1f%% %8.1f%%\n", s.name, s.nodes,
+			share(s.yearsInside, s.years), share(s.monthsInside, s.months), s.pctErr, s.bias, s.naivePctErr)
 	}
 	fmt.Fprintf(w, "  annual totals inside by origin:")
 	for _, o := range c.origins {
@@ -182,4 +185,49 @@ func joinAnd(xs []string) string {
 		return xs[0]
 	}
 	return strings.Join(xs[:len(xs)-1], ", ") + " and " + xs[len(xs)-1]
+}
+
+// compareVariants backtests the plan made with the models' own bands and
+// with independent paths, and prints per level how many annual totals
+// fell inside their bands, beside the plan's own way (c).
+func compareVariants(ctx context.Context, w io.Writer, st reconcile.Structure, nodes []almanac.Series, opt options, c *bandCheck) error {
+	variants := []struct {
+		name string
+		opt  options
+	}{
+		{"models' own bands, joint paths", opt},
+		{"calibrated bands, independent paths", opt},
+	}
+	variants[0].opt.uncalibrated = true
+	variants[1].opt.draw = reconcile.IndependentPaths
+	checks := []*bandCheck{c}
+	for _, v := range variants {
+		vc, err := backtestPlan(ctx, st, nodes, v.opt)
+		if err != nil {
+			return fmt.Errorf("%s: %w", v.name, err)
+		}
+		checks = append(checks, vc)
+	}
+	fmt.Fprintf(w, "The same backtest made other ways: year's totals inside their %.0f%% bands\n", level)
+	row := func(name string, cells []string) {
+		line := fmt.Sprintf("  %-38s", name)
+		for _, c := range cells {
+			line += fmt.Sprintf(" %-17s", c)
+		}
+		fmt.Fprintln(w, strings.TrimRight(line, " "))
+	}
+	var names []string
+	for _, s := range c.levels {
+		names = append(names, s.name)
+	}
+	row("", names)
+	for k, name := range []string{"the plan (calibrated, joint paths)", variants[0].name, variants[1].name} {
+		var cells []string
+		for _, s := range checks[k].levels {
+			cells = append(cells, share(s.yearsInside, s.years))
+		}
+		row(name, cells)
+	}
+	fmt.Fprintln(w)
+	return nil
 }

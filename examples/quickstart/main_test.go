@@ -16,6 +16,7 @@ import (
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/accuracy"
+	"github.com/almanac-go/almanac/reconcile"
 )
 
 // testOptions is a small version of the program's run: two categories of
@@ -157,7 +158,10 @@ func checkBacktest(t *testing.T, p *plan, opt options, text string) {
 	if len(c.origins) != opt.Origins {
 		t.Fatalf("%d origins, want %d", len(c.origins), opt.Origins)
 	}
-	type tally struct{ years, yearsIn, months, monthsIn int }
+	type tally struct {
+		years, yearsIn, months, monthsIn int
+		absPct, signedPct, naivePct      float64
+	}
 	levels := make([]tally, st.NumLevels()+1)
 	for k, o := range c.origins {
 		end := n - horizon*(opt.Origins-k)
@@ -195,8 +199,19 @@ func checkBacktest(t *testing.T, p *plan, opt options, text string) {
 			if o.inside[i] != in || o.months[i] != monthsIn {
 				t.Errorf("origin %v, %s: inside %v, %d months; recomputed %v, %d", o.origin, y.Key, o.inside[i], o.months[i], in, monthsIn)
 			}
+			fc := 0.0
+			for _, v := range f.Mean {
+				fc += v
+			}
+			lastYear := 0.0
+			for _, v := range y.Values[end-12 : end] {
+				lastYear += v
+			}
 			for _, lv := range []int{st.Level(i), st.NumLevels()} {
 				levels[lv].years++
+				levels[lv].absPct += 100 * math.Abs(fc-total) / total / float64(opt.Origins*len(levelNodes(st, lv)))
+				levels[lv].signedPct += 100 * (fc - total) / total / float64(opt.Origins*len(levelNodes(st, lv)))
+				levels[lv].naivePct += 100 * math.Abs(lastYear-total) / total / float64(opt.Origins*len(levelNodes(st, lv)))
 				levels[lv].months += horizon
 				levels[lv].monthsIn += monthsIn
 				if in {
@@ -215,8 +230,9 @@ func checkBacktest(t *testing.T, p *plan, opt options, text string) {
 			t.Errorf("%s: %d of %d years, %d of %d months; recomputed %d of %d, %d of %d",
 				s.name, s.yearsInside, s.years, s.monthsInside, s.months, want.yearsIn, want.years, want.monthsIn, want.months)
 		}
-		if math.IsNaN(s.pctErr) || math.IsNaN(s.naivePctErr) || s.pctErr < 0 {
-			t.Errorf("%s: errors %v%% and %v%%", s.name, s.pctErr, s.naivePctErr)
+		if !closeTo(s.pctErr, want.absPct, 1e-9) || !closeTo(s.bias, want.signedPct, 1e-9) || !closeTo(s.naivePctErr, want.naivePct, 1e-9) {
+			t.Errorf("%s: annual totals off by %v%% (signed %v%%), as a year before %v%%; recomputed %v%%, %v%%, %v%%",
+				s.name, s.pctErr, s.bias, s.naivePctErr, want.absPct, want.signedPct, want.naivePct)
 		}
 		row := fmt.Sprintf("%d of %d (%.0f%%)", want.yearsIn, want.years, 100*float64(want.yearsIn)/float64(want.years))
 		if !slices.ContainsFunc(strings.Split(table, "\n"), func(l string) bool {
@@ -241,7 +257,53 @@ func quantile7(xs []float64, p float64) float64 {
 	return s[i] + (pos-float64(i))*(s[i+1]-s[i])
 }
 
-func close(a, b float64) bool { return math.Abs(a-b) <= 1e-9*math.Max(1, math.Abs(b)) }
+func close(a, b float64) bool { return closeTo(a, b, 1e-9) }
+
+func closeTo(a, b, tol float64) bool { return math.Abs(a-b) <= tol*math.Max(1, math.Abs(b)) }
+
+// levelNodes returns the nodes of level lv, or every node for lv =
+// NumLevels (the "every series" row).
+func levelNodes(st reconcile.Structure, lv int) []int {
+	if lv < st.NumLevels() {
+		return st.LevelNodes(lv)
+	}
+	all := make([]int, st.Len())
+	for i := range all {
+		all[i] = i
+	}
+	return all
+}
+
+// TestQuickstartCompare runs the comparison of the plan's way with the
+// models' own bands and with independent paths (flag -compare) on a
+// small subset: its table has a row per way, and the plan's row repeats
+// the counts of the plan's own backtest.
+func TestQuickstartCompare(t *testing.T) {
+	var out bytes.Buffer
+	opt := options{Paths: 100, Origins: 1, Categories: []string{"tools"}, LinesPerCategory: 2, ReviewDir: t.TempDir(), Compare: true}
+	p, err := run(context.Background(), &out, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, table, ok := strings.Cut(out.String(), "The same backtest made other ways")
+	if !ok {
+		t.Fatalf("no comparison in the output:\n%s", out.String())
+	}
+	rows := strings.Split(table, "\n")
+	if len(rows) < 5 {
+		t.Fatalf("comparison table too short:\n%s", table)
+	}
+	for k, name := range []string{"the plan (calibrated, joint paths)", "models' own bands, joint paths", "calibrated bands, independent paths"} {
+		if !strings.Contains(rows[2+k], name) {
+			t.Errorf("row %d is %q, want one for %s", k, rows[2+k], name)
+		}
+	}
+	for _, s := range p.check.levels {
+		if c := share(s.yearsInside, s.years); !strings.Contains(rows[2], c) {
+			t.Errorf("the plan's row %q lacks %s's %s", rows[2], s.name, c)
+		}
+	}
+}
 
 // TestQuickstartOptions checks that options the data cannot support are
 // refused with an error wrapping the library's sentinel, before anything
