@@ -152,11 +152,11 @@ func printCheck(w io.Writer, st reconcile.Structure, c *bandCheck) {
 	}
 	fmt.Fprintf(w, "Do the plan's bands hold? The plan remade with the data up to %s,\n", joinAnd(when))
 	fmt.Fprintf(w, "each time forecasting the next %d months, beside what was then sold\n", horizon)
-	fmt.Fprintf(w, "  %-15s %6s  %-24s %-22s %s\n", "", "series",
+	fmt.Fprintf(w, "  %-15s %6s  %-26s %-24s %s\n", "", "series",
 		fmt.Sprintf("year's total in %.0f%% band", level), fmt.Sprintf("months in %.0f%% band", level), "year's total off by (mean)")
-	fmt.Fprintf(w, "  %-15s %6s  %-24s %-22s %8s %8s %9s\n", "", "", "", "", "plan", "signed", "as 1y ago")
+	fmt.Fprintf(w, "  %-15s %6s  %-26s %-24s %8s %8s %9s\n", "", "", "", "", "plan", "signed", "as 1y ago")
 	for _, s := range c.levels {
-		fmt.Fprintf(w, "  %-15s %6d  %-24s %-22s %7.1f%% %+7.1f%% %8.1f%%\n", s.name, s.nodes,
+		fmt.Fprintf(w, "  %-15s %6d  %-26s %-24s %7.1f%% %+7.1f%% %8.1f%%\n", s.name, s.nodes,
 			share(s.yearsInside, s.years), share(s.monthsInside, s.months), s.pctErr, s.bias, s.naivePctErr)
 	}
 	fmt.Fprintf(w, "  annual totals inside by origin:")
