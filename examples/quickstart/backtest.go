@@ -9,6 +9,7 @@ import (
 	"time"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/accuracy"
 	"github.com/almanac-go/almanac/reconcile"
 )
 
@@ -136,7 +137,9 @@ func scoreLevels(st reconcile.Structure, origins []originScore) []levelScore {
 				}
 			}
 		}
-		s.pctErr, s.bias, s.naivePctErr = 100*s.pctErr/float64(pct), 100*s.bias/float64(pct), 100*s.naivePctErr/float64(pct)
+		if pct > 0 { // else no annual total was positive: nothing to divide by
+			s.pctErr, s.bias, s.naivePctErr = 100*s.pctErr/float64(pct), 100*s.bias/float64(pct), 100*s.naivePctErr/float64(pct)
+		}
 		out = append(out, s)
 	}
 	return out
@@ -230,4 +233,87 @@ func compareVariants(ctx context.Context, w io.Writer, st reconcile.Structure, n
 	}
 	fmt.Fprintln(w)
 	return nil
+}
+
+// planCandidate is the name of the plan's run in the per-series backtest.
+const planCandidate = "plan"
+
+// scoreAgainstBenchmarks scores, series by series, the forecasts the
+// backtest of the plan made (reconciled, calibrated) against the naive
+// and seasonal naive benchmarks at the same origins, with
+// accuracy.Backtest, for the review page. Nothing is refitted but the
+// benchmarks: the plan's run replays the forecasts backtestPlan made.
+func scoreAgainstBenchmarks(ctx context.Context, nodes []almanac.Series, c *bandCheck) (*accuracy.BatchComparison, error) {
+	r := replay{}
+	for _, o := range c.origins {
+		for i, y := range nodes {
+			if r[y.Key] == nil {
+				r[y.Key] = map[time.Time]almanac.Forecast{}
+			}
+			r[y.Key][o.origin] = o.forecasts[i]
+		}
+	}
+	// The same origins as backtestPlan: the last a year before the end
+	// of the data, one year apart.
+	bt := accuracy.Backtest{Horizon: horizon, Origins: len(c.origins), Step: 12, Levels: []float64{level}}
+	return bt.RunBatch(ctx, nodes, accuracy.Candidate{Name: planCandidate, Model: r})
+}
+
+// replay is an almanac.Model that returns, for a series fitted up to a
+// backtest origin, the forecast the plan made there: by series key, then
+// by the time of the last observation.
+type replay map[string]map[time.Time]almanac.Forecast
+
+func (r replay) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	if y.Len() == 0 {
+		return nil, fmt.Errorf("%w: series %q", almanac.ErrEmpty, y.Key)
+	}
+	fc, ok := r[y.Key][y.End()]
+	if !ok {
+		return nil, fmt.Errorf("%w: no plan was made for %q with the data up to %s", almanac.ErrNotFitted, y.Key, y.End().Format("Jan 2006"))
+	}
+	return replayed{fc: fc, n: y.Len()}, nil
+}
+
+// replayed is a forecast made earlier, as an almanac.Fitted.
+type replayed struct {
+	fc almanac.Forecast
+	n  int
+}
+
+// Forecast returns the first h steps of the plan's forecast, with bands
+// from its sample paths.
+func (r replayed) Forecast(h int, levels ...float64) (almanac.Forecast, error) {
+	if err := almanac.CheckHorizon(h); err != nil {
+		return almanac.Forecast{}, err
+	}
+	if h > len(r.fc.Mean) {
+		return almanac.Forecast{}, fmt.Errorf("%w: the plan forecast %d months, not %d", almanac.ErrHorizon, len(r.fc.Mean), h)
+	}
+	paths := r.fc.SamplePaths()
+	cut := make([][]float64, len(paths))
+	for k, p := range paths {
+		cut[k] = p[:h:h]
+	}
+	return almanac.NewForecast(r.fc.Start, r.fc.Freq, r.fc.Mean[:h:h], &almanac.Sample{Paths: cut}, levels...)
+}
+
+// FittedValues has nothing to give: the plan's one-step fits belong to
+// the models behind it.
+func (r replayed) FittedValues() []float64 { return nanSlice(r.n) }
+
+// Residuals: see FittedValues.
+func (r replayed) Residuals() []float64 { return nanSlice(r.n) }
+
+func (r replayed) String() string { return "reconciled plan" }
+
+func nanSlice(n int) []float64 {
+	out := make([]float64, n)
+	for i := range out {
+		out[i] = math.NaN()
+	}
+	return out
 }

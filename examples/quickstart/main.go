@@ -113,10 +113,11 @@ func main() {
 // plan is what run produces, kept for the test.
 type plan struct {
 	structure reconcile.Structure
-	nodes     []almanac.Series      // history per node, structure order
-	fits      []almanac.BatchResult // Pilot fits, pooled, per node
-	forecasts []almanac.Forecast    // reconciled, per node
-	check     *bandCheck            // the backtest of the plan
+	nodes     []almanac.Series          // history per node, structure order
+	fits      []almanac.BatchResult     // Pilot fits, pooled, per node
+	forecasts []almanac.Forecast        // reconciled, per node
+	check     *bandCheck                // the backtest of the plan
+	scored    *accuracy.BatchComparison // its forecasts against the benchmarks
 }
 
 // run does the work, prints the plan to w and writes the review page into
@@ -210,12 +211,16 @@ func run(ctx context.Context, w io.Writer, opt options) (*plan, error) {
 
 	// 6. The plan, and a review page to look at it series by series.
 	printPlan(w, st, nodes, fits, rec)
-	page, err := writeReview(opt.ReviewDir, st, nodes, fits, rec, check, repairs)
+	cmp, err := scoreAgainstBenchmarks(ctx, nodes, check)
+	if err != nil {
+		return nil, fmt.Errorf("backtest against the benchmarks: %w", err)
+	}
+	page, err := writeReview(opt.ReviewDir, st, nodes, fits, rec, check, cmp, repairs)
 	if err != nil {
 		return nil, fmt.Errorf("review page: %w", err)
 	}
 	fmt.Fprintf(w, "\nReview page (charts, models, backtest and flags for every series): %s\n", page)
-	return &plan{structure: st, nodes: nodes, fits: fits, forecasts: rec, check: check}, nil
+	return &plan{structure: st, nodes: nodes, fits: fits, forecasts: rec, check: check, scored: cmp}, nil
 }
 
 // makePlan fits Pilot to every node (in parallel; the results do not

@@ -90,6 +90,26 @@ func TestQuickstart(t *testing.T) {
 			}
 		}
 	})
+	t.Run("against benchmarks", func(t *testing.T) {
+		// The per-series backtest replays the plan's own forecasts.
+		if len(p.scored.Failed) > 0 || len(p.scored.Series) != n {
+			t.Fatalf("%d series scored, failures %v", len(p.scored.Series), p.scored.Failed)
+		}
+		for i, c := range p.scored.Series {
+			r, ok := c.Run(planCandidate)
+			if !ok || len(r.Forecasts) != len(p.check.origins) {
+				t.Fatalf("%s: no run of the plan at every origin", p.nodes[i].Key)
+			}
+			for o, f := range r.Forecasts {
+				if !r.Done[o] || !slices.Equal(f.Mean, p.check.origins[o].forecasts[i].Mean) {
+					t.Errorf("%s origin %d: scored %v, the plan forecast %v", p.nodes[i].Key, o, f.Mean, p.check.origins[o].forecasts[i].Mean)
+				}
+			}
+			if _, ok := c.Run("seasonal naive"); !ok {
+				t.Errorf("%s: no seasonal naive benchmark", p.nodes[i].Key)
+			}
+		}
+	})
 	t.Run("review", func(t *testing.T) {
 		checkReviewPage(t, filepath.Join(dir, "review.html"), p)
 	})
@@ -337,7 +357,7 @@ func checkReviewPage(t *testing.T, path string, p *plan) {
 	}
 	defer f.Close()
 	d := xml.NewDecoder(f)
-	rows, charts, filled := 0, 0, 0
+	rows, charts, filled, untested := 0, 0, 0, 0
 	for {
 		tok, err := d.Token()
 		if errors.Is(err, io.EOF) {
@@ -357,6 +377,9 @@ func checkReviewPage(t *testing.T, path string, p *plan) {
 				if strings.Contains(a.Value, "filled") {
 					filled++
 				}
+				if strings.Contains(a.Value, "untested") {
+					untested++
+				}
 			case el.Name.Local == "svg" && a.Name.Local == "class" && a.Value == "chart":
 				charts++
 			}
@@ -367,5 +390,8 @@ func checkReviewPage(t *testing.T, path string, p *plan) {
 	}
 	if filled == 0 {
 		t.Error("review page: no series is marked as having filled values")
+	}
+	if untested > 0 {
+		t.Errorf("review page: %d series marked as having no backtest", untested)
 	}
 }

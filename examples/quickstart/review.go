@@ -20,10 +20,10 @@ var defaultReviewDir = filepath.Join(os.TempDir(), "almanac-quickstart")
 // the run computed (nothing is refitted) and returns its path: for every
 // node the history, the automatic forecaster's one-step fit and what it
 // did, the reconciled forecast with 80% and 95% bands from its sample
-// paths, how the plan's annual bands held in the backtest and the values
-// filled.
+// paths, the plan's forecasts at the backtest origins scored against the
+// benchmarks (cmp), how its annual bands held and the values filled.
 func writeReview(dir string, st reconcile.Structure, nodes []almanac.Series, fits []almanac.BatchResult, rec []almanac.Forecast,
-	check *bandCheck, repairs map[string][]decompose.Change) (string, error) {
+	check *bandCheck, cmp *accuracy.BatchComparison, repairs map[string][]decompose.Change) (string, error) {
 	entries := make([]accuracy.ReviewSeries, len(nodes))
 	for i, y := range nodes {
 		e := accuracy.NewReviewSeries(y, fits[i].Fitted, rec[i])
@@ -42,6 +42,12 @@ func writeReview(dir string, st reconcile.Structure, nodes []almanac.Series, fit
 			}
 		}
 		e.Notes = append(e.Notes, checkNote(check, i))
+		e.Backtest, e.Chosen = cmp.Series[i], planCandidate
+		for _, f := range cmp.Failed {
+			if f.Index == i {
+				e.Backtest, e.BacktestErr = nil, f.Err
+			}
+		}
 		entries[i] = e
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
