@@ -102,7 +102,7 @@ func defaultOptions() options {
 func main() {
 	opt := defaultOptions()
 	flag.StringVar(&opt.ReviewDir, "out", opt.ReviewDir, "directory for the review page, review.html")
-	flag.BoolVar(&opt.Compare, "compare", false, "also backtest the plan with the models' own bands and with independent paths (takes three times as long)")
+	flag.BoolVar(&opt.Compare, "compare", false, "also backtest the plan with the models' own bands and with independent paths (takes about two and a half times as long)")
 	flag.Parse()
 	if _, err := run(context.Background(), os.Stdout, opt); err != nil {
 		fmt.Fprintln(os.Stderr, "quickstart:", err)
