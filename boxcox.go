@@ -514,6 +514,7 @@ type BoxCoxFit struct {
 	inner     Fitted
 	fitted    []float64
 	response  []float64 // y − fitted on the original scale
+	y         Series    // the data (for saving and refreshing)
 }
 
 // Fit implements Model.
@@ -566,6 +567,12 @@ func (b BoxCox) Fit(ctx context.Context, y Series) (Fitted, error) {
 	if err != nil {
 		return nil, err
 	}
+	return newBoxCoxFit(y, lam, b.Method != LambdaFixed, b.BiasAdjust, inner)
+}
+
+// newBoxCoxFit completes a fit of y whose inner model was fitted on the
+// transform with parameter lam (also used to rebuild a saved model).
+func newBoxCoxFit(y Series, lam float64, estimated, bias bool, inner Fitted) (*BoxCoxFit, error) {
 	ifv := inner.FittedValues()
 	if len(ifv) != len(y.Values) {
 		return nil, fmt.Errorf("almanac: box-cox: series %q: %w: inner model %s gave %d fitted values for %d observations", y.Key, ErrLength, inner, len(ifv), len(y.Values))
@@ -582,7 +589,7 @@ func (b BoxCox) Fit(ctx context.Context, y Series) (Fitted, error) {
 			return nil, fmt.Errorf("almanac: box-cox: series %q: %w: the back-transformed fitted value at index %d exceeds the float64 range", y.Key, ErrNonFinite, i)
 		}
 	}
-	return &BoxCoxFit{lambda: lam, estimated: b.Method != LambdaFixed, bias: b.BiasAdjust, inner: inner, fitted: fv, response: resp}, nil
+	return &BoxCoxFit{lambda: lam, estimated: estimated, bias: bias, inner: inner, fitted: fv, response: resp, y: y.Clone()}, nil
 }
 
 // beyondRange reports whether z lies beyond the end −1/λ of the range of

@@ -199,6 +199,7 @@ type CombinedMember struct {
 type CombinationFit struct {
 	rule      CombineRule
 	members   []CombinedMember
+	specs     []Model // the Model of each member, for Update
 	failures  []MemberFailure
 	weighting string
 	y         Series
@@ -214,11 +215,17 @@ var (
 )
 
 // memberName names member m for failure reports.
-func memberName(m Model) string {
+func memberName(m Model) (name string) {
+	typ := strings.TrimPrefix(fmt.Sprintf("%T", m), "*")
+	defer func() {
+		if recover() != nil { // a String method that panics (a nil pointer)
+			name = typ
+		}
+	}()
 	if s, ok := m.(fmt.Stringer); ok {
 		return s.String()
 	}
-	return strings.TrimPrefix(fmt.Sprintf("%T", m), "*")
+	return typ
 }
 
 // check validates the specification.
@@ -320,6 +327,7 @@ func (c Combination) Fit(ctx context.Context, y Series) (Fitted, error) {
 			continue
 		}
 		f.members = append(f.members, CombinedMember{Index: i, Fitted: fit, MSE: math.NaN()})
+		f.specs = append(f.specs, m)
 	}
 	if len(f.members) == 0 {
 		return nil, allFailed(y.Key, "fit", f.failures)
@@ -501,6 +509,74 @@ func (f *CombinationFit) combineInSample() {
 	}
 }
 
+// Update returns the combination brought forward to y — the series it
+// was fitted to with observations appended — keeping its members' model
+// forms and its weights (inverse-error weights are not re-estimated).
+// Rolling-origin evaluations use it to avoid re-estimating every member
+// at every origin. extend is called with each member and returns it
+// brought forward to y without re-estimation when it can (ok true), for
+// instance an exponential smoothing model updated with the new
+// observations; a member it cannot extend is refitted to y by its Model.
+// A member that fails either way is left out (listed in Failures of the
+// result).
+//
+// Special cases: a y shorter than the series fitted, or of another
+// frequency, gives an error wrapping ErrInvalid; an invalid y the error
+// of Series.Validate; every member failing an error wrapping
+// ErrNotFitted and each member's error; a cancelled ctx ctx.Err().
+func (f *CombinationFit) Update(ctx context.Context, y Series, extend func(member Fitted) (Fitted, bool)) (*CombinationFit, error) {
+	if err := y.Validate(); err != nil {
+		return nil, err
+	}
+	if y.Len() < f.y.Len() || y.Freq != f.y.Freq {
+		return nil, fmt.Errorf("almanac: combination: %w: update to %d observations of %v from %d of %v", ErrInvalid, y.Len(), y.Freq, f.y.Len(), f.y.Freq)
+	}
+	out := &CombinationFit{rule: f.rule, failures: slices.Clone(f.failures), weighting: f.weighting, y: y.Clone(), paths: f.paths, seed: f.seed}
+	for k, m := range f.members {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		var fit Fitted
+		if extend != nil {
+			if e, ok := extend(m.Fitted); ok && e != nil && len(e.FittedValues()) == y.Len() {
+				fit = e
+			}
+		}
+		if fit == nil {
+			var err error
+			if fit, err = fitMember(ctx, f.specs[k], y); err != nil {
+				if cerr := ctx.Err(); cerr != nil {
+					return nil, cerr
+				}
+				out.failures = append(out.failures, MemberFailure{Index: m.Index, Model: memberName(f.specs[k]), Err: err})
+				continue
+			}
+		}
+		m.Fitted = fit
+		out.members = append(out.members, m)
+		out.specs = append(out.specs, f.specs[k])
+	}
+	if len(out.members) == 0 {
+		return nil, allFailed(y.Key, "update", out.failures)
+	}
+	if len(out.members) < len(f.members) {
+		sum := 0.0
+		for _, m := range out.members {
+			sum += m.Weight
+		}
+		for k := range out.members {
+			if sum > 0 {
+				out.members[k].Weight /= sum
+			} else {
+				out.members[k].Weight = 1 / float64(len(out.members))
+			}
+		}
+	}
+	slices.SortStableFunc(out.failures, func(a, b MemberFailure) int { return a.Index - b.Index })
+	out.combineInSample()
+	return out, nil
+}
+
 // weights returns the members' weights.
 func (f *CombinationFit) weights() []float64 {
 	w := make([]float64, len(f.members))
@@ -628,6 +704,23 @@ func (f *CombinationFit) Forecast(h int, levels ...float64) (Forecast, error) {
 // ForecastReport is Forecast that also returns the members left out of
 // this forecast because their own forecast failed.
 func (f *CombinationFit) ForecastReport(h int, levels ...float64) (Forecast, []MemberFailure, error) {
+	return f.forecast(h, true, levels)
+}
+
+// ForecastQuantiles is Forecast without sample paths: the distribution is
+// the rule applied to the members' quantiles p by p — the comonotone
+// margins the combined paths have, computed without drawing them — so
+// each step's bands are the same up to the paths' Monte Carlo error, at a
+// fraction of the cost; Forecast.SamplePaths is nil. Rolling-origin
+// evaluations that need only the bands at each step use it.
+func (f *CombinationFit) ForecastQuantiles(h int, levels ...float64) (Forecast, error) {
+	fc, _, err := f.forecast(h, false, levels)
+	return fc, err
+}
+
+// forecast combines the members' forecasts, with sample paths when
+// withPaths is set and every member with a distribution can give them.
+func (f *CombinationFit) forecast(h int, withPaths bool, levels []float64) (Forecast, []MemberFailure, error) {
 	if err := CheckHorizon(h); err != nil {
 		return Forecast{}, nil, err
 	}
@@ -717,11 +810,14 @@ func (f *CombinationFit) ForecastReport(h int, levels ...float64) (Forecast, []M
 			fits[j] = f.members[parts[i].k].Fitted
 			fcs[j] = parts[i].fc
 		}
-		src := rand.NewPCG(f.seed, 0x5851f42d4c957f2d)
-		paths, count, err := memberPaths(fits, fcs, h, f.paths, src)
-		if err == nil {
+		if withPaths {
+			src := rand.NewPCG(f.seed, 0x5851f42d4c957f2d)
+			paths, count, err := memberPaths(fits, fcs, h, f.paths, src)
 			var comb [][]float64
-			if comb, err = coupleAndCombine(f.rule, paths, dw, h, count); err == nil {
+			if err == nil {
+				comb, err = coupleAndCombine(f.rule, paths, dw, h, count)
+			}
+			if err == nil {
 				if shift != nil {
 					for _, p := range comb {
 						for s := range p {

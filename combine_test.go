@@ -752,3 +752,131 @@ func BenchmarkCombination(b *testing.B) {
 		})
 	}
 }
+
+func TestCombinationUpdate(t *testing.T) {
+	ctx := context.Background()
+	short := trendy.Head(40)
+	spec := almanac.Combination{Members: []almanac.Model{almanac.Naive{}, almanac.Drift{}, needs{n: 44}}, Rule: almanac.CombineInverseError}
+	fit, err := spec.Fit(ctx, short)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cf := fit.(*almanac.CombinationFit)
+	if len(cf.Failures()) != 1 {
+		t.Fatalf("failures %v", cf.Failures())
+	}
+	// Refitting every member (extend never succeeds) on the longer series
+	// keeps the weights; the member that could not fit at 40 stays out.
+	var seen []string
+	up, err := cf.Update(ctx, trendy, func(m almanac.Fitted) (almanac.Fitted, bool) {
+		seen = append(seen, m.String())
+		return nil, false
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(seen, []string{"Naive", "Drift"}) {
+		t.Errorf("extend saw %v", seen)
+	}
+	direct, err := almanac.Combination{Members: []almanac.Model{almanac.Naive{}, almanac.Drift{}}, Rule: almanac.CombineWeighted,
+		Weights: []float64{cf.Members()[0].Weight, cf.Members()[1].Weight}}.Fit(ctx, trendy)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, _ := up.Forecast(6, 80)
+	b, _ := direct.Forecast(6, 80)
+	for s := range 6 {
+		if math.Abs(a.Mean[s]-b.Mean[s]) > 1e-9 {
+			t.Errorf("step %d: updated %v, refitted with the same weights %v", s+1, a.Mean[s], b.Mean[s])
+		}
+	}
+	if !equalNaN(up.FittedValues(), direct.FittedValues()) || len(up.Failures()) != 1 || up.Weighting() != cf.Weighting() {
+		t.Error("fitted values, failures or weighting differ")
+	}
+	// An extend that succeeds is used as is.
+	naive48, _ := almanac.Naive{}.Fit(ctx, trendy)
+	up2, err := cf.Update(ctx, trendy, func(m almanac.Fitted) (almanac.Fitted, bool) {
+		if m.String() == "Naive" {
+			return naive48, true
+		}
+		return nil, false
+	})
+	if err != nil || up2.Members()[0].Fitted != naive48 {
+		t.Errorf("extended member not used: %v", err)
+	}
+	for _, tc := range []struct {
+		name string
+		y    almanac.Series
+		want error
+	}{
+		{"shorter", trendy.Head(30), almanac.ErrInvalid},
+		{"other frequency", almanac.Series{Start: jan2020, Freq: calendar.Quarterly, Values: trendy.Values}, almanac.ErrInvalid},
+		{"infinite", almanac.Series{Start: jan2020, Freq: calendar.Monthly, Values: append(slices.Clone(trendy.Values), math.Inf(1))}, almanac.ErrNonFinite},
+	} {
+		if _, err := cf.Update(ctx, tc.y, nil); !errors.Is(err, tc.want) {
+			t.Errorf("%s: %v, want %v", tc.name, err, tc.want)
+		}
+	}
+}
+
+// ForecastQuantiles gives the comonotone margins without paths: for the
+// mean of two members with normal bands, the mean of their bounds
+// (quantile averaging, Lichtendahl, Grushka-Cockayne & Winkler 2013); the
+// path-based bands agree within Monte Carlo error.
+func TestCombinationForecastQuantiles(t *testing.T) {
+	ctx := context.Background()
+	fit, err := almanac.Combination{Members: []almanac.Model{almanac.Naive{}, almanac.Drift{}}, Paths: 4000}.Fit(ctx, trendy)
+	if err != nil {
+		t.Fatal(err)
+	}
+	q, err := fit.(*almanac.CombinationFit).ForecastQuantiles(6, 80)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if q.SamplePaths() != nil {
+		t.Error("paths drawn")
+	}
+	var want [2][]float64
+	for k, m := range []almanac.Model{almanac.Naive{}, almanac.Drift{}} {
+		f, _ := m.Fit(ctx, trendy)
+		fc, _ := f.Forecast(6, 80)
+		want[k] = fc.Intervals[0].Upper
+	}
+	p, err := fit.Forecast(6, 80)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for s := range 6 {
+		w := (want[0][s] + want[1][s]) / 2
+		if math.Abs(q.Intervals[0].Upper[s]-w) > 1e-9 {
+			t.Errorf("step %d: upper %v, want %v", s+1, q.Intervals[0].Upper[s], w)
+		}
+		// Paths: the benchmarks' paths leave out the 1/T term of the
+		// closed form (Drift's up to 12% here), plus Monte Carlo error.
+		hw := (w - q.Mean[s])
+		if math.Abs(p.Intervals[0].Upper[s]-w) > 0.15*hw {
+			t.Errorf("step %d: path-based upper %v, quantile-based %v", s+1, p.Intervals[0].Upper[s], w)
+		}
+	}
+}
+
+// panicky is a member whose methods all panic through a nil pointer.
+type panicky struct{ p *int }
+
+func (m *panicky) String() string { return fmt.Sprint(*m.p) }
+
+func (m *panicky) Fit(context.Context, almanac.Series) (almanac.Fitted, error) {
+	return nil, fmt.Errorf("%d", *m.p)
+}
+
+func TestCombinationNilPointerMember(t *testing.T) {
+	var nilMember *panicky
+	fit, err := almanac.Combination{Members: []almanac.Model{nilMember, almanac.Naive{}}}.Fit(context.Background(), trendy)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fs := fit.(*almanac.CombinationFit).Failures()
+	if len(fs) != 1 || fs[0].Model != "almanac_test.panicky" || !errors.Is(fs[0].Err, almanac.ErrNotFitted) {
+		t.Errorf("failures %+v", fs)
+	}
+}

@@ -37,8 +37,54 @@
 // the members simulate — members drawn with common random numbers,
 // combined draw by draw, and shuffled onto comonotone margins so that
 // each step's quantile is the rule applied to the members' quantiles —
-// and from the members' quantiles combined the same way otherwise. See
-// Combination for the assumptions.
+// and from the members' quantiles combined the same way otherwise
+// (ForecastQuantiles asks for that cheaper form). See Combination for the
+// assumptions. CombinationFit.Update brings a fitted combination forward
+// to a longer series without re-estimating what its members allow, for
+// rolling-origin evaluations.
+//
+// # Persistence
+//
+// A fitted model is saved as a versioned JSON document (SaveModel,
+// MarshalModel) and loaded back (LoadModel, UnmarshalModel) as a model
+// that forecasts bit-identically: point forecasts, bands, quantiles, and
+// Simulate with the same source. The document names its kind (e.g.
+// "smoothing.ets") and the version of its body; the body holds the
+// specification, the estimated parameters and initial states, and the
+// data, and the loader re-runs the model's own deterministic filter at
+// the stored parameters rather than copying internal arrays. Wrappers
+// (BoxCox, Combination, decompose.Forecaster) nest their inner models as
+// documents. JSON has no NaN: a missing observation is written as null.
+//
+// The root does not import the model packages: each package registers
+// the kinds it can load in an init function (Register, the pattern of
+// image.RegisterFormat and database/sql.Register), so a program loads
+// every kind of the packages it imports. A user's own fitted model takes
+// part by implementing Storable and registering its kind (see the
+// Register example).
+//
+// Compatibility: a program reads every document of its kind with a body
+// version from 1 up to the version it registered; documents written by
+// later versions of a kind are refused with an error wrapping ErrDecode
+// ("upgrade almanac"), never misread. A new body layout gets a new
+// version, and loaders keep reading the older ones. Anything else that
+// cannot be loaded — not JSON, truncated, an unknown kind, values
+// outside their valid region (a smoothing parameter beyond its bounds, a
+// negative variance, lengths that disagree, a number written as a
+// string, non-positive data for a multiplicative model) — also gives an
+// error wrapping ErrDecode, never a panic.
+//
+// # Refreshing without refitting
+//
+// Refresher is the optional interface of fitted models that take new
+// observations without estimating again (Refresh, or the function of
+// that name, which needs no type switch): ETS, ARIMA, BoxCox and
+// Combination (through their members) implement it. The result equals a
+// fit of the whole series with the parameters fixed at their estimates;
+// missing values (NaN) are allowed, the prediction standing in for the
+// state. RefreshPolicy decides when a refresh is no longer enough —
+// after a number of new observations, or when Trigg's tracking signal
+// says the forecasts have drifted from the data — and says why.
 //
 // # Benchmarks
 //
@@ -146,7 +192,19 @@
 // LambdaML about 0.03 ms for 100 values and 3.3 ms for 10,000;
 // LambdaGuerrero about 7 µs for 100 values; BatchFit of BoxCox{Model:
 // Drift{}} over 1,000 series of 20–26 values about 10–12 ms; ReadCSV
-// about 60–80 MB/s.
+// about 60–80 MB/s. For 120 months (accuracy's BenchmarkRefresh, CPU
+// time from the difference of two runs, so only to about 10 ms of
+// resolution per run): refreshing an ETS(A,Ad,A) or seasonal ARIMA model
+// with one month takes about 10–20 µs, loading its saved document
+// 0.2–0.4 ms, and fitting it again 2–4 ms.
+//
+// A Combination of the three benchmark methods Naive, Drift and
+// SeasonalNaive, fitted to 48 monthly values and forecasting 12 steps
+// with two bands from 1000 combined paths, costs about 26 million
+// instructions (valgrind --tool=callgrind; about 4.7 million with 200
+// paths): most of it is sorting the members' draws step by step for the
+// coupling, against about 60 thousand for one benchmark fit and
+// forecast. ForecastQuantiles, which draws no paths, avoids it.
 //
 // # References
 //

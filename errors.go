@@ -45,6 +45,13 @@ var (
 	// ErrNotFitted: a model could not be fitted (the optimiser failed,
 	// the likelihood is not finite anywhere, and so on).
 	ErrNotFitted = errors.New("model could not be fitted")
+	// ErrDecode: a saved-model document that cannot be loaded (not a
+	// document, truncated, an unknown kind or a newer version, values
+	// outside their valid region).
+	ErrDecode = errors.New("cannot decode saved model")
+	// ErrNotRefreshable: a fitted model that cannot take new
+	// observations without a refit.
+	ErrNotRefreshable = errors.New("model cannot be refreshed")
 )
 
 // SeriesError is a problem located at one observation of one series. It

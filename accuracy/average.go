@@ -1,6 +1,10 @@
 package accuracy
 
-import "math"
+import (
+	"math"
+
+	"github.com/almanac-go/almanac/internal/scaling"
+)
 
 // SeriesCounts says over how many series each average of a
 // BatchComparison was taken. A measure undefined on some series (MAPE on
@@ -32,24 +36,38 @@ type TotalCounts struct {
 	Intervals     []IntervalCounts
 }
 
-// meanOf accumulates an average over the values that are not NaN.
+// meanOf accumulates an average over the values that are not NaN. The
+// values are kept and summed, when the average is taken, on the values
+// times a power of two that brings the largest magnitude near 2^256
+// (internal/scaling): exact, so the average is bit for bit that of the
+// plain sum on ordinary data, while scores near the float64 limit (MAEs
+// of 1.5e308 on several series) give their average instead of +Inf. The
+// average of finite values always fits in a float64; an infinite value
+// (which the scores never hold) makes the average NaN, still counted.
 type meanOf struct {
-	sum float64
-	n   int
+	vals []float64
+	n    int
 }
 
 func (m *meanOf) add(v float64) {
 	if !math.IsNaN(v) {
-		m.sum += v
+		m.vals = append(m.vals, v)
 		m.n++
 	}
 }
 
 func (m meanOf) value() float64 {
-	if m.n == 0 {
+	if m.n == 0 || !scaling.Finite(m.vals) {
 		return math.NaN()
 	}
-	return m.sum / float64(m.n)
+	k := scaling.Exponent(m.vals)
+	f := scaling.Scale(nil, m.vals, k)
+	sum := 0.0
+	for _, v := range f {
+		sum += v
+	}
+	// |sum/n| ≤ max |v| · 2^k ≤ 2^256: mapping back cannot overflow.
+	return math.Ldexp(sum/float64(m.n), -k)
 }
 
 // averageScores averages scores over series, each measure over the series

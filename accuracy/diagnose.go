@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/internal/scaling"
 	"github.com/almanac-go/almanac/internal/tsstat"
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -17,6 +18,7 @@ type Correlogram struct {
 	Lags   []int     // 0..MaxLag for an ACF, 1..MaxLag for a PACF
 	Values []float64 // one per lag
 	Bound  float64   // half-width of the white-noise band
+	N      int       // number of observed (non-NaN) values used
 }
 
 // Significant returns the lags whose value lies outside ±Bound.
@@ -30,18 +32,30 @@ func (c Correlogram) Significant() []int {
 	return out
 }
 
-// checkSeries validates a series of residuals or data for the
-// correlation statistics and returns the number of observed values.
-func checkSeries(fn string, x []float64, maxLag int) (int, error) {
-	if len(x) == 0 {
-		return 0, fmt.Errorf("accuracy: %s: %w", fn, almanac.ErrEmpty)
+// DefaultMaxLag is the largest lag ACF, PACF and Autocovariances use when
+// given maxLag 0, for a series of n values: ⌊10·log10(n)⌋, at most n − 1
+// (the default lag.max of R's stats::acf for one series, documented on
+// its help page; common practice). It is 0 for n < 2.
+func DefaultMaxLag(n int) int {
+	if n < 2 {
+		return 0
 	}
-	n := 0
+	return min(int(math.Floor(10*math.Log10(float64(n)))), n-1)
+}
+
+// checkSeries validates a series of residuals or data for the
+// correlation statistics and returns the number of observed values and
+// the maximum lag (DefaultMaxLag of len(x) for maxLag 0, then at most
+// n − 1 for n observed values).
+func checkSeries(fn string, x []float64, maxLag int) (n, lag int, err error) {
+	if len(x) == 0 {
+		return 0, 0, fmt.Errorf("accuracy: %s: %w", fn, almanac.ErrEmpty)
+	}
 	first := math.NaN()
 	constant := true
 	for i, v := range x {
 		if math.IsInf(v, 0) {
-			return 0, fmt.Errorf("accuracy: %s: %w: %v at index %d", fn, almanac.ErrNonFinite, v, i)
+			return 0, 0, fmt.Errorf("accuracy: %s: %w: %v at index %d", fn, almanac.ErrNonFinite, v, i)
 		}
 		if math.IsNaN(v) {
 			continue
@@ -54,18 +68,32 @@ func checkSeries(fn string, x []float64, maxLag int) (int, error) {
 		n++
 	}
 	if n == 0 {
-		return 0, fmt.Errorf("accuracy: %s: %w", fn, almanac.ErrAllMissing)
+		return 0, 0, fmt.Errorf("accuracy: %s: %w", fn, almanac.ErrAllMissing)
 	}
-	if maxLag < 1 {
-		return 0, fmt.Errorf("accuracy: %s: %w: maximum lag %d, need at least 1", fn, almanac.ErrInvalid, maxLag)
+	if maxLag < 0 {
+		return 0, 0, fmt.Errorf("accuracy: %s: %w: maximum lag %d is negative (0 chooses it)", fn, almanac.ErrInvalid, maxLag)
 	}
-	if maxLag >= n {
-		return 0, fmt.Errorf("accuracy: %s: %w: lag %d needs more than %d observed values", fn, almanac.ErrTooShort, maxLag, n)
+	if maxLag == 0 {
+		maxLag = min(DefaultMaxLag(len(x)), n-1)
+	}
+	if maxLag >= n || maxLag < 1 {
+		return 0, 0, fmt.Errorf("accuracy: %s: %w: lag %d needs more than %d observed values", fn, almanac.ErrTooShort, max(maxLag, 1), n)
 	}
 	if constant {
-		return 0, fmt.Errorf("accuracy: %s: %w: every observed value is %v, the autocorrelations are 0/0", fn, almanac.ErrConstant, first)
+		return 0, 0, fmt.Errorf("accuracy: %s: %w: every observed value is %v, the autocorrelations are 0/0", fn, almanac.ErrConstant, first)
 	}
-	return n, nil
+	return n, maxLag, nil
+}
+
+// finiteValues returns an error wrapping almanac.ErrNonFinite when v
+// holds NaN or ±Inf.
+func finiteValues(fn, what string, v []float64) error {
+	for k, x := range v {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return fmt.Errorf("accuracy: %s: %w: %s %v at lag %d", fn, almanac.ErrNonFinite, what, x, k)
+		}
+	}
+	return nil
 }
 
 var z975 = distuv.UnitNormal.Quantile(0.975)
@@ -74,28 +102,49 @@ var z975 = distuv.UnitNormal.Quantile(0.975)
 // (1/n) Σ_t (x_t − x̄)(x_{t+k} − x̄), as R's acf(type = "covariance")
 // computes them; NaN values are passed over (R's na.action = na.pass: n
 // and x̄ count the observed values, the sum the pairs with both observed).
+// maxLag 0 means DefaultMaxLag(len(x)), at most n − 1. They are computed
+// on x·2^k (k a power of two bringing the largest magnitude near 2^256,
+// exact) and multiplied back by 2^−2k: bit for bit the plain sums on
+// ordinary data, and representable covariances of data near the float64
+// limit; a covariance too small for a float64 comes back as 0 or a
+// subnormal number.
 //
 // Special cases: empty wraps almanac.ErrEmpty, all NaN
-// almanac.ErrAllMissing, ±Inf almanac.ErrNonFinite, maxLag < 1
+// almanac.ErrAllMissing, ±Inf almanac.ErrNonFinite, maxLag < 0
 // almanac.ErrInvalid, maxLag ≥ n almanac.ErrTooShort, a constant series
-// almanac.ErrConstant.
+// almanac.ErrConstant, a covariance beyond the float64 range (the
+// variance of ±1e300 is 1e600) almanac.ErrNonFinite.
 func Autocovariances(x []float64, maxLag int) ([]float64, error) {
-	if _, err := checkSeries("autocovariance", x, maxLag); err != nil {
+	_, maxLag, err := checkSeries("autocovariance", x, maxLag)
+	if err != nil {
 		return nil, err
 	}
-	return tsstat.Autocov(make([]float64, maxLag+1), x, maxLag), nil
+	k := scaling.Exponent(x)
+	c := tsstat.Autocov(make([]float64, maxLag+1), scaling.Scale(nil, x, k), maxLag)
+	scaling.Scale(c, c, -2*k)
+	if err := finiteValues("autocovariance", "covariance", c); err != nil {
+		return nil, fmt.Errorf("%w (beyond the float64 range)", err)
+	}
+	return c, nil
 }
 
 // ACF returns the sample autocorrelations of x at lags 0..maxLag (the
-// value at lag 0 is 1) with their white-noise bound, as R's acf computes
-// them (mean removed, denominator n; NaN passed over as in
-// Autocovariances). Special cases as for Autocovariances.
+// value at lag 0 is 1) with their white-noise bound and the number of
+// observed values, as R's acf computes them (mean removed, denominator
+// n; NaN passed over as in Autocovariances). maxLag 0 means
+// DefaultMaxLag(len(x)), at most n − 1. The autocorrelations do not
+// depend on the scale of x and are computed on x times a power of two
+// (exact), so data near the float64 limit give their autocorrelations.
+// Special cases as for Autocovariances.
 func ACF(x []float64, maxLag int) (Correlogram, error) {
-	n, err := checkSeries("ACF", x, maxLag)
+	n, maxLag, err := checkSeries("ACF", x, maxLag)
 	if err != nil {
 		return Correlogram{}, err
 	}
-	c := Correlogram{Lags: make([]int, maxLag+1), Values: tsstat.ACF(x, maxLag), Bound: z975 / math.Sqrt(float64(n))}
+	c := Correlogram{Lags: make([]int, maxLag+1), Values: tsstat.ACF(x, maxLag), Bound: z975 / math.Sqrt(float64(n)), N: n}
+	if err := finiteValues("ACF", "autocorrelation", c.Values); err != nil {
+		return Correlogram{}, err
+	}
 	for k := range c.Lags {
 		c.Lags[k] = k
 	}
@@ -104,14 +153,17 @@ func ACF(x []float64, maxLag int) (Correlogram, error) {
 
 // PACF returns the sample partial autocorrelations of x at lags
 // 1..maxLag, from the autocorrelations by the Durbin–Levinson recursion
-// (as R's pacf), with their white-noise bound. Special cases as for
-// Autocovariances.
+// (as R's pacf), with their white-noise bound and the number of observed
+// values. maxLag and the special cases are as for ACF.
 func PACF(x []float64, maxLag int) (Correlogram, error) {
-	n, err := checkSeries("PACF", x, maxLag)
+	n, maxLag, err := checkSeries("PACF", x, maxLag)
 	if err != nil {
 		return Correlogram{}, err
 	}
-	c := Correlogram{Lags: make([]int, maxLag), Values: tsstat.PACF(x, maxLag), Bound: z975 / math.Sqrt(float64(n))}
+	c := Correlogram{Lags: make([]int, maxLag), Values: tsstat.PACF(x, maxLag), Bound: z975 / math.Sqrt(float64(n)), N: n}
+	if err := finiteValues("PACF", "partial autocorrelation", c.Values); err != nil {
+		return Correlogram{}, err
+	}
 	for k := range c.Lags {
 		c.Lags[k] = k + 1
 	}
@@ -157,7 +209,9 @@ type Portmanteau struct {
 // and n the number of observed values, as in R's Box.test.
 //
 // Special cases: as for Autocovariances (with maxLag = lag); fitdf < 0 or
-// lag − fitdf < 1 wraps almanac.ErrInvalid.
+// lag − fitdf < 1 wraps almanac.ErrInvalid. Data near the float64 limit
+// are tested like any other (the autocorrelations are computed on
+// rescaled data).
 func LjungBox(x []float64, lag, fitdf int) (Portmanteau, error) {
 	return portmanteau(LjungBoxTest, x, lag, fitdf)
 }
@@ -173,11 +227,15 @@ func portmanteau(kind PortmanteauKind, x []float64, lag, fitdf int) (Portmanteau
 	if fitdf < 0 || lag-fitdf < 1 {
 		return Portmanteau{}, fmt.Errorf("accuracy: %s: %w: lag %d with %d fitted parameters leaves %d degrees of freedom", name, almanac.ErrInvalid, lag, fitdf, lag-fitdf)
 	}
-	n, err := checkSeries(name, x, lag)
+	n, _, err := checkSeries(name, x, lag)
 	if err != nil {
 		return Portmanteau{}, err
 	}
-	return portmanteauFromACF(kind, tsstat.ACF(x, lag), n, lag, fitdf), nil
+	r := tsstat.ACF(x, lag)
+	if err := finiteValues(name, "autocorrelation", r); err != nil {
+		return Portmanteau{}, err
+	}
+	return portmanteauFromACF(kind, r, n, lag, fitdf), nil
 }
 
 // portmanteauFromACF computes the statistic from autocorrelations r
@@ -260,9 +318,12 @@ func (s Residuals) DiagnoseValues(r []float64) (Diagnosis, error) {
 }
 
 func (s Residuals) diagnose(r []float64, fitdf int) (Diagnosis, error) {
+	// The mean is summed on the residuals times a power of two (exact),
+	// so residuals near the float64 limit give their representable mean.
+	k := scaling.Exponent(r)
 	n := 0
 	sum := 0.0
-	for _, v := range r {
+	for _, v := range scaling.Scale(nil, r, k) {
 		if !math.IsNaN(v) && !math.IsInf(v, 0) {
 			n++
 			sum += v
@@ -270,7 +331,7 @@ func (s Residuals) diagnose(r []float64, fitdf int) (Diagnosis, error) {
 	}
 	maxLag := s.MaxLag
 	if maxLag == 0 {
-		maxLag = min(int(math.Floor(10*math.Log10(float64(max(n, 1))))), n-1)
+		maxLag = DefaultMaxLag(n)
 	}
 	lag := s.Lag
 	if lag == 0 {
@@ -293,7 +354,7 @@ func (s Residuals) diagnose(r []float64, fitdf int) (Diagnosis, error) {
 	}
 	d := Diagnosis{
 		N:         n,
-		Mean:      sum / float64(n),
+		Mean:      math.Ldexp(sum/float64(n), -k), // |mean| ≤ max |r|: representable
 		LjungBox:  portmanteauFromACF(LjungBoxTest, acf.Values, n, lag, fitdf),
 		BoxPierce: portmanteauFromACF(BoxPierceTest, acf.Values, n, lag, fitdf),
 		PACF:      pacf,

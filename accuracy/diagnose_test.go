@@ -114,7 +114,10 @@ func TestDiagnose(t *testing.T) {
 			{"no df left", func() error { _, err := accuracy.Residuals{Lag: 3, FitDF: 3}.DiagnoseValues(res); return err }, almanac.ErrInvalid},
 			{"lag too long", func() error { _, err := accuracy.LjungBox([]float64{1, 2, 3}, 3, 0); return err }, almanac.ErrTooShort},
 			{"Inf", func() error { _, err := accuracy.ACF([]float64{1, math.Inf(1), 3}, 1); return err }, almanac.ErrNonFinite},
-			{"lag 0", func() error { _, err := accuracy.PACF([]float64{1, 2, 3}, 0); return err }, almanac.ErrInvalid},
+			{"negative lag", func() error { _, err := accuracy.PACF([]float64{1, 2, 3}, -1); return err }, almanac.ErrInvalid},
+			{"negative lag of Autocovariances", func() error { _, err := accuracy.Autocovariances([]float64{1, 2, 3}, -2); return err }, almanac.ErrInvalid},
+			{"Ljung-Box lag 0", func() error { _, err := accuracy.LjungBox([]float64{1, 2, 3}, 0, 0); return err }, almanac.ErrInvalid},
+			{"one observed value", func() error { _, err := accuracy.ACF([]float64{nan, 4, nan}, 0); return err }, almanac.ErrTooShort},
 			{"negative fitdf", func() error { _, err := accuracy.BoxPierce([]float64{1, 2, 3, 5}, 2, -1); return err }, almanac.ErrInvalid},
 		} {
 			t.Run(c.name, func(t *testing.T) {

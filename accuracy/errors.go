@@ -14,8 +14,12 @@ var (
 	// scale, a relative measure whose benchmark is perfect.
 	ErrUndefined = errors.New("measure undefined for this data")
 	// ErrBacktest: a model could not be fitted or forecast at some origin
-	// of a backtest (Run's error; in a batch, the series' SeriesFailure),
-	// or no series of a batch could be scored. The wrapped chain also
+	// of a backtest (FitFailure; Run's error when a candidate completed
+	// no origin; in a batch, the series' SeriesFailure), or no series of a
+	// batch could be compared. The wrapped chain also
 	// holds the model's own error (for a batch, the first series').
 	ErrBacktest = errors.New("backtest failed")
+	// ErrUncalibrated: a calibrated model has too few out-of-sample
+	// errors to set its bands (Calibrated with Strict set).
+	ErrUncalibrated = errors.New("too few out-of-sample errors to calibrate")
 )

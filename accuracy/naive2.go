@@ -2,8 +2,10 @@ package accuracy
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
+	"slices"
 
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/internal/scaling"
@@ -94,7 +96,13 @@ func (m Naive2) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, erro
 		}
 		dec, err := seasonal.Classical(v, p, true)
 		if err != nil {
-			return nil, fmt.Errorf("accuracy: naive2: %w: %v", almanac.ErrTooShort, err)
+			// The test above needs n ≥ 3m, so the decomposition has its
+			// two full periods: what is left is a component beyond the
+			// float64 range (seasonal.ErrOverflow).
+			if errors.Is(err, seasonal.ErrOverflow) {
+				return nil, fmt.Errorf("accuracy: naive2: seasonal adjustment: %w: %v", almanac.ErrNonFinite, err)
+			}
+			return nil, fmt.Errorf("accuracy: naive2: seasonal adjustment: %w: %v", almanac.ErrTooShort, err)
 		}
 		for i, s := range dec.Figure {
 			if !(s > 0) || math.IsInf(s, 0) {
@@ -205,19 +213,80 @@ func OWA(smape, mase, smapeNaive2, maseNaive2 float64) (float64, error) {
 }
 
 // OWA returns the M4 OWA of the run named model against the run named
-// naive2 (for instance Naive2Name), from their Overall sMAPE and MASE.
-// Unknown names wrap almanac.ErrInvalid.
+// naive2 (for instance Naive2Name), from their sMAPE and MASE over the
+// same cells: the origins both completed. When both completed the same
+// origins these are their Overall scores; when a failure left one of them
+// without some origins, both are scored again over the origins they have
+// in common, so that a candidate is never compared on origins the other
+// did not forecast.
+//
+// Special cases: unknown names wrap almanac.ErrInvalid; no origin
+// completed by both wraps ErrUndefined (the two cannot be compared); the
+// special cases of the function OWA otherwise.
 func (c *Comparison) OWA(model, naive2 string) (float64, error) {
 	a, ok := c.Run(model)
 	b, ok2 := c.Run(naive2)
 	if !ok || !ok2 {
 		return math.NaN(), fmt.Errorf("accuracy: OWA: %w: no run named %q or %q", almanac.ErrInvalid, model, naive2)
 	}
-	return OWA(a.Overall.SMAPE, a.Overall.MASE, b.Overall.SMAPE, b.Overall.MASE)
+	sa, sb, common := c.pairScores(a, b)
+	if common == 0 {
+		return math.NaN(), fmt.Errorf("accuracy: OWA: series %q: %w: %q and %q completed no origin in common", c.Key, ErrUndefined, model, naive2)
+	}
+	return OWA(sa.SMAPE, sa.MASE, sb.SMAPE, sb.MASE)
+}
+
+// pairScores returns the scores of runs a and b over the origins both
+// completed, and the number of those origins: their Overall scores when
+// they completed the same origins, else both scored again over the
+// common ones (with the same rules as Overall; interval scores and CRPS
+// are left out, being NaN).
+func (c *Comparison) pairScores(a, b *Run) (Scores, Scores, int) {
+	common := 0
+	for o := range c.Origins {
+		if o < len(a.Done) && o < len(b.Done) && a.Done[o] && b.Done[o] {
+			common++
+		}
+	}
+	if slices.Equal(a.Done, b.Done) {
+		return a.Overall, b.Overall, common
+	}
+	return c.rescore(a, b), c.rescore(b, a), common
+}
+
+// rescore scores run r over the (origin, step) cells of the origins that
+// both r and other completed.
+func (c *Comparison) rescore(r, other *Run) Scores {
+	h, no := c.Horizon, len(c.Origins)
+	cl := newCells(h, no, nil)
+	nan := math.NaN()
+	var idx []int
+	for o, org := range c.Origins {
+		use := r.Done[o] && other.Done[o] && len(r.Forecasts[o].Mean) == h && len(c.Actual[o]) == h
+		for s := range h {
+			i := o*h + s
+			cl.scale[i], cl.scaleSq[i], cl.crps[i] = org.Scale, org.ScaleSq, nan
+			cl.actual[i], cl.mean[i] = nan, nan
+			if use {
+				cl.actual[i], cl.mean[i] = c.Actual[o][s], r.Forecasts[o].Mean[s]
+				idx = append(idx, i)
+			}
+		}
+	}
+	return cl.summarize(idx)
 }
 
 // OWA returns the M4 OWA of candidate model against candidate naive2
-// from the sMAPE and MASE averaged over the series (Mean), as M4 does.
+// from the sMAPE and MASE averaged over the compared series, as M4 does.
+// Like Comparison.OWA it compares like with like: on a series where one
+// of the two completed origins the other did not, both are scored over
+// their common origins before averaging (with no failure these are the
+// series' Overall scores, and the result is that of Mean).
+//
+// Special cases: unknown names wrap almanac.ErrInvalid; a series on
+// which the two completed no origin in common is left out of both
+// averages, and when none is left the error wraps ErrUndefined; the
+// special cases of the function OWA otherwise.
 func (b *BatchComparison) OWA(model, naive2 string) (float64, error) {
 	i, j := -1, -1
 	for k, n := range b.Names {
@@ -231,5 +300,25 @@ func (b *BatchComparison) OWA(model, naive2 string) (float64, error) {
 	if i < 0 || j < 0 {
 		return math.NaN(), fmt.Errorf("accuracy: OWA: %w: no candidate named %q or %q", almanac.ErrInvalid, model, naive2)
 	}
-	return OWA(b.Mean[i].SMAPE, b.Mean[i].MASE, b.Mean[j].SMAPE, b.Mean[j].MASE)
+	left := map[int]bool{}
+	for _, f := range b.Failed {
+		left[f.Index] = true
+	}
+	var sa, sb []Scores
+	for k, c := range b.Series {
+		if c == nil || left[k] || i >= len(c.Runs) || j >= len(c.Runs) {
+			continue
+		}
+		x, y, common := c.pairScores(&c.Runs[i], &c.Runs[j])
+		if common == 0 {
+			continue
+		}
+		sa, sb = append(sa, x), append(sb, y)
+	}
+	if len(sa) == 0 {
+		return math.NaN(), fmt.Errorf("accuracy: OWA: %w: %q and %q completed no origin in common on any compared series", ErrUndefined, model, naive2)
+	}
+	ma, _ := averageScores(sa)
+	mb, _ := averageScores(sb)
+	return OWA(ma.SMAPE, ma.MASE, mb.SMAPE, mb.MASE)
 }

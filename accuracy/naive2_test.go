@@ -203,3 +203,20 @@ func TestOWA(t *testing.T) {
 		t.Errorf("unknown name: %v", err)
 	}
 }
+
+// TestNaive2ClassicalOverflow: a seasonal series repeating 1e300, 1e−75,
+// 1e−75, 1e−75 (invented) passes the seasonality test, but the seasonal
+// index of its small quarters falls below the float64 range and the
+// decomposition's remainder overflows: the error wraps
+// almanac.ErrNonFinite, not almanac.ErrTooShort as it did.
+func TestNaive2ClassicalOverflow(t *testing.T) {
+	var v []float64
+	for range 4 {
+		v = append(v, 1e300, 1e-75, 1e-75, 1e-75)
+	}
+	y := almanac.Series{Key: "q", Start: time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Quarterly, Values: v}
+	f, err := accuracy.Naive2{}.Fit(context.Background(), y)
+	if !errors.Is(err, almanac.ErrNonFinite) || errors.Is(err, almanac.ErrTooShort) || f != nil {
+		t.Fatalf("fit %v, error %v; want an error wrapping ErrNonFinite only", f, err)
+	}
+}

@@ -272,6 +272,29 @@
 // Series F it chooses AR(2) with a mean, the NIST/SEMATECH e-Handbook's
 // identification (the tests check both).
 //
+// # Persistence and refresh
+//
+// Fitted (from Spec or Search), HarmonicFit and DetectionResult are
+// almanac.Storable; the package registers "arima.model",
+// "arima.harmonic" and "arima.detection". A document holds the
+// specification (the caller's regressors over the whole series, the
+// calendar rules of Spec.Calendar — every built-in effect and holiday
+// rule; a user's own calendar.Effect or calendar.Rule type cannot be
+// saved), every coefficient and whether it was estimated, the
+// coefficient covariance, the number of observations the coefficients
+// were estimated on and the data. The loader runs the likelihood filter
+// with every coefficient fixed over the estimation sample and Update over
+// later observations, so the loaded model is bit-identical. The record of
+// a Search (SearchResult) is not kept.
+//
+// Update, UpdateWith (regressors of the caller's own need their new
+// values) and Refresh run the Kalman filter on from the state after the
+// last observation with the coefficients fixed; missing values are
+// skipped by the filter as in a fit. σ², the log-likelihood and the
+// criteria become those of the whole series, so the result equals a
+// fixed-coefficient refit to rounding (1e-12 in the tests). A fit by
+// Method CSS cannot be refreshed (its σ² is not the filter's).
+//
 // # Concurrency
 //
 // A Spec is a plain value, safe to share; Fit can be called concurrently.

@@ -354,6 +354,7 @@ func (pr *problem) finishFit(f *Fitted, coef []float64, covFn func() *mat.SymDen
 	if method == CSS {
 		f.ncond = pr.ncond
 	}
+	f.sums, f.scale, f.nfit = res, c, n
 	f.rescale(c, na, colScale)
 	return nil
 }

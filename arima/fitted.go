@@ -45,6 +45,14 @@ type Fitted struct {
 	converged      bool
 
 	search *SearchResult // the record of the Search that chose the model, nil for Spec.Fit
+
+	// For Update and saving: the filter's sums over the observations so
+	// far (on the data divided by scale), the power of two the data were
+	// divided by, and the number of observations the coefficients were
+	// estimated on.
+	sums  filterResult
+	scale float64
+	nfit  int
 }
 
 var (

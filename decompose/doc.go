@@ -104,6 +104,14 @@
 // a power of two costs 2.7% more instructions non-robust and 0.5% robust
 // (callgrind, 200 calls on the same series).
 //
+// # Persistence
+//
+// A ForecasterFit is an almanac.Storable of kind "decompose.forecaster":
+// the document holds the decomposition as computed (every component,
+// so the method is not run again and a user's own Method takes part) and
+// the model of the adjusted series as a nested document, which must be
+// storable itself.
+//
 // # Concurrency
 //
 // STL, MSTL, Classical, Repair, Screen and Forecaster values are

@@ -64,6 +64,12 @@ func (f Forecaster) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, 
 	if err != nil {
 		return nil, fmt.Errorf("decompose: forecaster: model of the adjusted series: %w", err)
 	}
+	return newForecasterFit(y, d, inner)
+}
+
+// newForecasterFit completes a fit of y decomposed as d whose adjusted
+// series was fitted by inner (also used to rebuild a saved model).
+func newForecasterFit(y almanac.Series, d *Decomposition, inner almanac.Fitted) (*ForecasterFit, error) {
 	n := y.Len()
 	fv := inner.FittedValues()
 	if len(fv) != n {

@@ -93,29 +93,51 @@
 // multiplicative seasonality (a different recursion in statsmodels) at
 // least the innovations-form likelihood at statsmodels' estimates.
 //
-// The searches use gonum.org/v1/gonum/optimize: optimize.BFGS (its
-// default bisection line search) with the exact gradient of the
-// likelihood, obtained by reverse-mode (adjoint) differentiation of the
-// recursion and passed as Problem.Grad, converged when two successive
-// iterations improve −2·loglik by less than 1e-10 relative or the
-// gradient vanishes; restarted once from its end point when it stops
-// without converging; and, if it still has not converged (a search
-// stalled along the edge of the model's domain), optimize.NelderMead
-// from the BFGS end point, restarted with a halved simplex while that
-// helps, followed by one more BFGS run from the simplex's end point
-// (the simplex alone does not reliably reach the optimum in 10 to 17
-// dimensions; TestSimplexFallback cuts every BFGS search off and checks
-// the completed fit, with three known gaps listed there). HoltWinters.Estimate uses the same restarted NelderMead on R's
-// sum of squares. Settings.Concurrent is left at 0 and no Runtime limit
-// is set, so a fit is deterministic; the context is checked before every
-// evaluation (Problem.Status). Neither the likelihood nor its gradient
-// allocates (TestObjectiveAllocs); gonum's Minimize itself allocates its
-// channels, goroutines and work vectors, about 370 allocations (44 kB)
-// for one ETS(M,Ad,M) fit. The Theta method, Croston and TSB estimate
-// their constants with a grid refined by a bounded one-dimensional Brent
-// search (minimize1D in theta_ses.go on the project's internal/brent;
-// nested for TSB's two constants), because gonum has no bounded 1-D
-// minimiser.
+// The searches use gonum.org/v1/gonum/optimize: BFGS directions with
+// optimize.Bisection, optimize.BFGS's default line search, composed by
+// optimize.LinesearchMethod, on the exact gradient of the likelihood,
+// obtained by reverse-mode (adjoint) differentiation of the recursion
+// (the value pass records what the gradient pass needs, so a gradient
+// requested at the point just evaluated costs only the backward pass),
+// converged when two successive iterations improve −2·loglik by less than
+// 1e-10 relative (optimize.FunctionConverge) or the gradient vanishes.
+// The line-search method is driven in the calling goroutine with the same
+// evaluations and stopping rules, in the same order, as optimize.Minimize
+// applies (with optimize.BFGS's directions it ends where Minimize ends,
+// bit for bit), but without the three goroutines and channel hand-offs
+// Minimize sets up per search, which cost about a third as much as the
+// likelihood evaluations themselves. The directions are optimize.BFGS's
+// update (Nocedal & Wright 2006, eqs. 6.17 and 6.20) computed on a plain
+// matrix (bfgsDirection): through mat and BLAS, with their argument
+// checks and strides, it cost about as much as a likelihood evaluation at
+// the 2 to 17 coordinates of an ETS model. The initial inverse Hessian
+// is diagonal: the reciprocal curvatures of the coordinates, estimated
+// once per fit at the first start by forward differences of the adjoint
+// gradient (d + 1 gradient evaluations), instead of optimize.BFGS's
+// identity rescaled by one number after the first step (a diagonal start
+// matrix is common practice). The coordinates' curvatures differ by
+// orders of magnitude (for ETS(M,Ad,M) on AirPassengers at the first
+// start from about 10² for γ and φ to 10⁴ for the level and seasonal
+// states and 8·10⁵ for the trend); starting from them cut that fit's
+// likelihood evaluations from 543 to 340 and its gradients from 486 to
+// 305, the estimate's included. The search is restarted once
+// from its end point when it stops without converging; if it still has
+// not converged (a search stalled along the edge of the model's domain),
+// optimize.NelderMead runs from the BFGS end point, restarted with a
+// halved simplex while that helps, followed by one more BFGS run from the
+// simplex's end point (the simplex alone does not reliably reach the
+// optimum in 10 to 17 dimensions; TestSimplexFallback cuts every BFGS
+// search off and checks the completed fit, with five known gaps listed
+// there). HoltWinters.Estimate uses the same restarted NelderMead on R's
+// sum of squares. For the simplex, Settings.Concurrent is left at 0 and
+// no Runtime limit is set, so a fit is deterministic; the context is
+// checked after every evaluation. Neither the likelihood nor its gradient
+// allocates (TestObjectiveAllocs), nor does a BFGS search once its
+// buffers exist (TestSearchAllocs). The Theta method, Croston and TSB
+// estimate their constants with a grid refined by a bounded
+// one-dimensional Brent search (minimize1D in theta_ses.go on the
+// project's internal/brent; nested for TSB's two constants), because
+// gonum has no bounded 1-D minimiser.
 //
 // Both searches are local. Measured once before the former hand-written
 // BFGS/simplex pair was removed, on 14,953 ETS fits to M3 series (all
@@ -127,25 +149,47 @@
 //
 // # Performance
 //
-// Measured with go test -bench -cpu 1 on a 2-core AMD EPYC box shared
-// with other jobs, so the figures are indicative: one likelihood
-// evaluation of ETS(M,Ad,M) on 144 monthly values 2.0–2.4 µs, with its
-// gradient 3.7–6 µs, 0 allocations. Before the four parameter starts,
-// fitting ETS(M,Ad,M) to AirPassengers (n = 144, m = 12) took 0.9–1.25
-// ms, ETS(A,N,N) 0.05–0.08 ms and Select (then 15 candidates) 6.3–8.2 ms
-// on one worker. The four starts cost more: counted in instructions
-// (valgrind --tool=callgrind on the benchmarks, 11 runs each, because
-// timings on the shared machine varied by a factor of ten), one
-// ETS(M,Ad,M) fit went from about 11 to 50 million instructions (×4.6,
-// so about 4–6 ms on one quiet core), ETS(A,N,N) from 1.4 to 3.7 million
-// (×2.7), and Select on AirPassengers (now 10 candidates) from 64 to 207
-// million (×3.2, about 20–26 ms). Targets: a single ETS(M,Ad,M) fit
-// within about 2 ms (not met: the extra starts are what reaches the
-// reference optima; screening the starts by a few iterations missed
-// optima on 6 to 12 fixtures, a looser tolerance for the non-final
-// searches on 5 while saving 12%), Select within about 25 ms. gonum's
-// Minimize allocates its channels, goroutines and work vectors, about
-// 1,600 allocations (97 kB) for one ETS(M,Ad,M) fit with four starts.
+// The development machine (2 cores) is shared with other jobs at load
+// averages of 10 to 22, which inflates wall-clock benchmark times by a
+// factor of two to five and makes them vary tenfold, so estimation is
+// measured by instruction counts (valgrind --tool=callgrind on the
+// benchmarks with -cpu 1: the difference between 11 and 1 benchmark
+// iterations, divided by 10) and by the CPU time of a process running
+// GOMAXPROCS 1 (getrusage; 25 rounds of 20 fits, minimum and median
+// given). Figures for ETS(M,Ad,M) and Select are on AirPassengers (n =
+// 144, m = 12), four parameter starts per model.
+//
+//   - One ETS(M,Ad,M) fit: 12.9 million instructions; 1.1–1.9 ms CPU
+//     (minimum of each run; medians 1.2–2.0 ms as the load varied from
+//     11 to 22).
+//     Before the work described under Numerical notes
+//     (optimize.Minimize's goroutines, gonum's BFGS matrix calls,
+//     switches in every step of the recursion, the identity start):
+//     54.6 million instructions, 4–6 ms on a quiet core (estimated from
+//     the instruction count), 10–18 ms CPU in the same loaded runs.
+//   - Select with one worker (10 candidates): 69 million instructions,
+//     6.3–10.6 ms CPU (medians 6.8–10.9 ms; before: 227 million, 20–26
+//     ms on a quiet core, 20–40 ms CPU in the same runs).
+//   - ETS(A,A,A): 6.7 million instructions (before 27.7); ETS(A,N,N):
+//     1.2 million (before 3.2).
+//   - One likelihood evaluation of ETS(M,Ad,M) (the value pass, which
+//     records the forward pass): 15,500 instructions; with its gradient
+//     30,600 instructions, about 3 µs wall-clock at the lower loads; 0
+//     allocations. A fit makes 340 value and 305 gradient evaluations
+//     (543 and 486 before the curvature start).
+//   - Allocations: 41 per ETS(M,Ad,M) fit (34 kB; 1,611 before, mostly
+//     Minimize's), 362 per Select.
+//   - Select on all 3,003 M3 training series, one worker: 24 s CPU (74 s
+//     before). About 40% of its likelihood evaluations go to simplex
+//     fallbacks, most of them from parameter starts whose recursion
+//     leaves the model's domain (ŷ ≤ 0 with multiplicative error).
+//
+// Screening the starts by a few iterations (missed optima on 6 to 12
+// fixtures) and a looser tolerance for the non-final searches (missed 5,
+// saved 12%) were tried and rejected before; stopping a start once it
+// comes near an earlier start's end point saved 4 to 11% of the
+// evaluations on the fixtures but changed the best end point on 3 to 32
+// of them, and was left out.
 //
 // Forecasts cost O(h) (O(h·m) for the class 2 variances and
 // HoltWinters' multiplicative variance): HoltWinters, ETS(M,N,N) and
@@ -165,7 +209,8 @@
 //
 // Spec, Select, HoltWinters, Theta, Croston and TSB values are immutable
 // and safe to share. A single fit evaluates its likelihood one point at a
-// time: gonum's Minimize runs the method and the evaluations in
+// time: the BFGS searches run in the calling goroutine; the simplex
+// fallback's gonum Minimize runs the method and the evaluations in
 // goroutines of its own, but with Concurrent 0 they hand work to each
 // other in a fixed order, so the result does not depend on scheduling.
 // Select fits its candidates concurrently (Select.Workers) and writes
@@ -215,6 +260,30 @@
 // 80%, 2.8–3.7% at 95%; TestIntermittentIntervalCoverage); TSB, whose
 // probability is smoothed every period, is the least well covered. A series
 // without any demand is forecast as 0 with zero-width bands.
+//
+// # Persistence and refresh
+//
+// Every fitted model of this package — ETS (Spec and Select fits),
+// Holt-Winters, Theta, Croston, SBA and TSB — is an almanac.Storable; the
+// package registers the kinds "smoothing.ets", "smoothing.holt-winters",
+// "smoothing.theta" and "smoothing.intermittent" with almanac.Register,
+// so importing it is enough for almanac.LoadModel. An ETS document holds
+// the specification, the parameters, the internal frame in which the
+// states live (y = s0·(c + d·z), see Numerical notes), the initial
+// states in that frame, the number of observations the parameters were
+// estimated on, and the data; the loader runs the filter over the
+// estimation sample as Fit did and over later observations as Update
+// did, so the loaded model is bit-identical. The other methods store
+// their constants and the data and are fitted again with those
+// constants fixed, which is exact.
+//
+// Fitted.Update (and Refresh, its almanac.Refresher form) advances an
+// ETS model over new observations without estimating again. A missing
+// observation (NaN) follows the state-space convention: the one-step
+// prediction becomes the state (the recursion with a zero innovation),
+// the fitted value is the prediction, the residual NaN, and σ² and the
+// likelihood are taken over the observed values only. The result equals
+// a fit with every parameter and initial state fixed, to rounding.
 //
 // # References
 //

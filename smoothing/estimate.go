@@ -31,8 +31,12 @@ type problem struct {
 	fixL, fixT                               float64
 	fixS                                     []float64 // chronological, scaled
 
-	ws []float64 // seasonal ring, length m
-	aw *adjWork  // gradient workspace (sized by prepare)
+	ws []float64   // seasonal ring, length m
+	aw *adjWork    // gradient workspace (sized by prepare)
+	ls *lineSearch // BFGS driver and its buffers (made on first use)
+	// h0 is the diagonal of the BFGS searches' initial inverse Hessian
+	// (curvature), set by the first search of the problem.
+	h0 []float64
 
 	// stall, when positive, cuts the next BFGS search off after that
 	// many iterations and sends optimise to its fallback (a test hook).
@@ -144,32 +148,10 @@ func (p *problem) decode(x []float64) (par Params, l0, b0 float64, ok bool) {
 }
 
 // objective is the function minimised: n·log(Σe²) + 2Σlog ŷ, i.e.
-// −2·loglik up to a constant. It does not allocate.
-func (p *problem) objective(x []float64) float64 {
-	par, l0, b0, ok := p.decode(x)
-	if !ok {
-		return penalty
-	}
-	if p.bounds != UsualBounds && !admissible(p.f, par) {
-		return penalty
-	}
-	if p.f.trend.multiplicative() && !(b0 > 0) {
-		return penalty
-	}
-	if p.f.multiplicativeLevel() && !(l0 > 0) {
-		return penalty
-	}
-	sse, sumlog, _, _, ok := p.f.filter(p.y, par, l0, b0, p.ws, 0, nil)
-	if !ok {
-		return penalty
-	}
-	n := float64(len(p.y))
-	v := n*math.Log(math.Max(sse, 1e-300)) + 2*sumlog
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return penalty
-	}
-	return v
-}
+// −2·loglik up to a constant. It is the value pass of the adjoint
+// gradient (adjoint.go), which runs the recursion of form.filter with the
+// same arithmetic. It does not allocate.
+func (p *problem) objective(x []float64) float64 { return p.value(x) }
 
 // multiplicativeLevel reports whether the level must stay positive.
 func (f form) multiplicativeLevel() bool {

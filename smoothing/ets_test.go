@@ -384,6 +384,25 @@ func TestObjectiveAllocs(t *testing.T) {
 	}
 }
 
+// TestSearchAllocs: a BFGS search (lineSearch.run with its buffers made)
+// allocates nothing, so neither does any of its iterations.
+func TestSearchAllocs(t *testing.T) {
+	y := airPassengers(t)
+	sp := Spec{Error: MultiplicativeError, Trend: DampedTrend, Season: MultiplicativeSeason}
+	p, x := objectiveFor(t, sp, y)
+	ls := newLineSearch(len(x))
+	ls.bfgs.diag = p.curvature(x)
+	f0 := p.objectiveGrad(x, ls.g)
+	run := func() {
+		p.objectiveGrad(x, ls.g)
+		ls.run(context.Background(), p, x, f0, 50, 0)
+	}
+	run()
+	if a := testing.AllocsPerRun(5, run); a != 0 {
+		t.Errorf("%v allocations per BFGS search", a)
+	}
+}
+
 // TestSchurStable checks the Schur–Cohn test on polynomials with known
 // roots, and the admissibility test against the eigenvalues of the
 // discount matrix D = F − g·w' computed by gonum's mat.Eigen (Hyndman et

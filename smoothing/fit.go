@@ -45,6 +45,7 @@ type Fitted struct {
 	Converged bool
 
 	spec   Spec // the specification, Period resolved
+	nfit   int  // observations the parameters were estimated on (Update keeps it)
 	f      form
 	series almanac.Series // copy of the data
 	free   int            // number of freely estimated parameters
@@ -381,7 +382,7 @@ func newFitted(s Spec, f form, y almanac.Series, tf scaling, z []float64, par Pa
 	n := y.Len()
 	s.Period = f.m
 	out := &Fitted{
-		Params: par, spec: s, f: f, series: y.Clone(), Converged: true,
+		Params: par, spec: s, f: f, series: y.Clone(), Converged: true, nfit: n,
 		tf: tf, z: z,
 		fitted: make([]float64, n), resid: make([]float64, n),
 		level: make([]float64, n+1),
@@ -427,7 +428,7 @@ func newFitted(s Spec, f form, y almanac.Series, tf scaling, z []float64, par Pa
 // forms; Sigma2 is in the data's units for additive error (an error
 // wrapping almanac.ErrNonFinite when that overflows).
 func (m *Fitted) setStats(sse, sumlog float64) error {
-	n := len(m.z)
+	n := observed(m.z)
 	s2 := sse / float64(n)
 	m.Sigma2 = s2
 	if m.f.err == AdditiveError {
@@ -464,7 +465,7 @@ func (m *Fitted) seasonOut(v float64) float64 {
 // setCriteria sets AIC, AICc and BIC from LogLik and DF (AICc +Inf when
 // n ≤ DF + 1).
 func (m *Fitted) setCriteria() {
-	fn, k := float64(m.series.Len()), float64(m.DF)
+	fn, k := float64(observed(m.z)), float64(m.DF)
 	m.AIC = -2*m.LogLik + 2*k
 	m.AICc = m.AIC + 2*k*(k+1)/(fn-k-1)
 	if fn-k-1 <= 0 {
@@ -546,56 +547,10 @@ func (m *Fitted) NumParams() int { return m.free }
 // series from the same initial states. Sigma2, LogLik and the criteria
 // are recomputed over the whole series with the same DF.
 //
-// newY must be finite (and positive for multiplicative components).
-func (m *Fitted) Update(newY []float64) (*Fitted, error) {
-	if err := m.usable(); err != nil {
-		return nil, err
-	}
-	all := almanac.Series{Key: m.series.Key, Start: m.series.Start, Freq: m.series.Freq,
-		Values: append(slices.Clone(m.series.Values), newY...)}
-	if _, err := m.spec.resolve(all); err != nil {
-		return nil, err
-	}
-	n0 := m.series.Len()
-	newZ := make([]float64, len(newY))
-	for i, v := range newY {
-		newZ[i] = m.tf.toZ(v)
-	}
-	out := &Fitted{
-		Params: m.Params, InitLevel: m.InitLevel, InitTrend: m.InitTrend, InitSeason: slices.Clone(m.InitSeason),
-		DF: m.DF, Converged: m.Converged, spec: m.spec, f: m.f, series: all, free: m.free,
-		tf: m.tf, z: append(slices.Clone(m.z), newZ...),
-		fitted: append(slices.Clone(m.fitted), make([]float64, len(newY))...),
-		resid:  append(slices.Clone(m.resid), make([]float64, len(newY))...),
-		level:  append(slices.Clone(m.level), make([]float64, len(newY))...),
-		ring:   slices.Clone(m.ring),
-	}
-	tr := &trace{fitted: out.fitted[n0:], resid: out.resid[n0:], level: out.level[n0+1:]}
-	if m.trend != nil {
-		out.trend = append(slices.Clone(m.trend), make([]float64, len(newY))...)
-		tr.trend = out.trend[n0+1:]
-	}
-	if m.seas != nil {
-		out.seas = append(slices.Clone(m.seas), make([]float64, len(newY))...)
-		tr.season = out.seas[n0+m.f.m:]
-	}
-	_, _, lEnd, bEnd, ok := m.f.filter(newZ, m.Params, m.lEnd, m.bEnd, out.ring, n0%m.f.m, tr)
-	if !ok {
-		return nil, fmt.Errorf("smoothing: %v: %w: the recursion leaves the model's domain on the new data", m, almanac.ErrNotFitted)
-	}
-	out.lEnd, out.bEnd = lEnd, bEnd
-	sse, sumlog := 0.0, 0.0
-	var logs logSum
-	for i, e := range out.resid {
-		sse += e * e
-		if m.f.err == MultiplicativeError {
-			logs.push(out.fitted[i])
-		}
-	}
-	sumlog = logs.value()
-	if err := out.setStats(sse, sumlog); err != nil {
-		return nil, err
-	}
-	out.setCriteria()
-	return out, nil
-}
+// A NaN in newY is a missing observation: as usual in the state-space
+// form, the one-step prediction becomes the state (the recursion runs
+// with a zero innovation), the fitted value is the prediction and the
+// residual NaN, and the observation is left out of Sigma2 and LogLik.
+// The new values must otherwise be finite, and positive for
+// multiplicative components. See refresh.go.
+func (m *Fitted) Update(newY []float64) (*Fitted, error) { return m.extend(newY) }

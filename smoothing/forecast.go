@@ -272,11 +272,14 @@ func (m *Fitted) varianceZ(H int) []float64 {
 
 // resSigma2 is the innovation variance in internal units.
 func (m *Fitted) resSigma2() float64 {
-	sse := 0.0
+	sse, n := 0.0, 0
 	for _, e := range m.resid {
-		sse += e * e
+		if !math.IsNaN(e) { // NaN: a missing observation (see Update)
+			sse += e * e
+			n++
+		}
 	}
-	return sse / float64(len(m.resid))
+	return sse / float64(n)
 }
 
 // maxSimValues bounds h × paths for simulated intervals and sample paths

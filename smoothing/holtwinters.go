@@ -86,9 +86,10 @@ func (h HoltWinters) String() string {
 // Special cases: a constant outside [0, 1] or a period below 2 wraps
 // almanac.ErrInvalid; a NaN wraps almanac.ErrMissing; a value ≤ 0 with
 // multiplicative seasonality wraps almanac.ErrNonPositive; fewer than
-// 2m+1 observations wrap almanac.ErrTooShort; a sum of squared errors
-// that overflows (values near the largest float64) wraps
-// almanac.ErrNotFitted.
+// 2m+1 observations wrap almanac.ErrTooShort; a classical decomposition
+// of the first two seasons (the start values) with a component beyond the
+// float64 range wraps almanac.ErrNonFinite; a sum of squared errors that
+// overflows (values near the largest float64) wraps almanac.ErrNotFitted.
 func (h HoltWinters) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
 	f, err := h.fit(ctx, y)
 	if err != nil {
@@ -131,7 +132,7 @@ func (h HoltWinters) fit(ctx context.Context, y almanac.Series) (*HoltWintersFit
 	}
 	dec, err := seasonal.Classical(x[:2*m], m, h.Multiplicative)
 	if err != nil {
-		return nil, fmt.Errorf("smoothing: %v: %w: %v", h, almanac.ErrTooShort, err)
+		return nil, classicalError(fmt.Sprintf("%v: start values", h), err)
 	}
 	// Least squares of the defined trend values on 1..k.
 	var tv []float64

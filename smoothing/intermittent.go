@@ -212,6 +212,7 @@ type IntermittentFit struct {
 	sizes  []float64 // observed non-zero demands
 	seed   uint64
 	paths  int
+	y      almanac.Series // the data (for saving)
 }
 
 // checkDemand validates an intermittent-demand series and returns the
@@ -310,6 +311,7 @@ func newIntermittentFit(method string, y almanac.Series, first int, seed uint64,
 		resid:       make([]float64, n),
 		seed:        seed,
 		paths:       paths,
+		y:           y.Clone(),
 	}
 	for _, v := range y.Values {
 		if v > 0 {

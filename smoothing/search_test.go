@@ -3,14 +3,19 @@ package smoothing
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
+	"math/rand/v2"
 	"path/filepath"
 	"slices"
 	"strings"
 	"sync/atomic"
 	"testing"
 
+	"github.com/almanac-go/almanac/internal/numtest"
 	"github.com/almanac-go/almanac/internal/reftest"
+	"gonum.org/v1/gonum/floats"
+	"gonum.org/v1/gonum/optimize"
 )
 
 // estimatedProblems returns, for every ets_estimated reference fixture,
@@ -61,10 +66,16 @@ func estimatedProblems(t *testing.T) (names []string, probs []*problem, starts [
 // alone from the start values it stops 6.4 short in the objective on
 // airpassengers_log_aaa; hence the BFGS run after it.)
 //
-// Known gap, not solved: on the three problems in fallbackGaps (of 390)
-// the completed fit ends in a worse local optimum. They are listed so the gap stays visible: the test fails
-// if any other problem falls short, and also if a listed one starts
-// reaching the optimum (then remove it from the list).
+// Known gap, not solved: on the five problems in fallbackGaps (of 390)
+// the completed fit ends in a worse local optimum. They are listed so the
+// gap stays visible: the test fails if any other problem falls short, and
+// also if a listed one starts reaching the optimum (then remove it from
+// the list). Since the searches start from the estimated curvature
+// (problem.curvature) the uninterrupted search reaches a slightly higher
+// maximum than before on four of them (by 1e-4 to 0.06 in the objective;
+// the fallback ends at the former maximum) and the fallback ends 0.53
+// short on sm18_n1402_madm; the three gaps listed before
+// (sm18_n1096_aadn, sm18_n1096_madn, sm18_n1686_aadn) are closed.
 func TestSimplexFallback(t *testing.T) {
 	names, probs, starts, _ := estimatedProblems(t)
 	for i, p := range probs {
@@ -105,7 +116,8 @@ func TestSimplexFallback(t *testing.T) {
 }
 
 var fallbackGaps = map[string]bool{
-	"sm18_n1096_aadn": true, "sm18_n1096_madn": true, "sm18_n1686_aadn": true,
+	"sm18_n1171_madm": true, "sm18_n1402_madm": true, "sm18_n2396_anm": true,
+	"sm18_n2680_anm": true, "sm18_n2680_mna": true,
 }
 
 // countdownCtx reports cancellation once Err has been called more than
@@ -148,6 +160,119 @@ func TestCancelDuringSearch(t *testing.T) {
 			}
 			if ctx.left.Load() >= 0 {
 				t.Error("the context was not consulted during the search")
+			}
+		})
+	}
+}
+
+// TestLineSearchMatchesMinimize: lineSearch drives gonum's line-search
+// method in the calling goroutine; given optimize.BFGS's directions it
+// must end where optimize.Minimize ends with optimize.BFGS and the same
+// settings (bit for bit: same evaluations in the same order), on every
+// eighth ets_estimated fixture problem from every parameter start. With
+// its own BFGS directions (bfgsDirection, the same update with another
+// order of rounding) it must end at the same objective within 1e-9
+// relative.
+func TestLineSearchMatchesMinimize(t *testing.T) {
+	names, probs, starts, _ := estimatedProblems(t)
+	for i, p := range probs {
+		if i%8 != 0 {
+			continue
+		}
+		t.Run(names[i], func(t *testing.T) {
+			for _, st := range startSet {
+				x := slices.Clone(starts[i])
+				p.setParams(x, st)
+				d := len(x)
+				g := make([]float64, d)
+				fx := p.objectiveGrad(x, g)
+				if fx >= penalty {
+					continue
+				}
+				prob := optimize.Problem{
+					Func: p.objective,
+					Grad: func(grad, x []float64) { p.objectiveGrad(x, grad) },
+				}
+				settings := &optimize.Settings{
+					InitValues:      &optimize.Location{F: fx, Gradient: slices.Clone(g)},
+					Converger:       &optimize.FunctionConverge{Relative: 1e-10, Absolute: 1e-20, Iterations: 2},
+					MajorIterations: 200 * d,
+				}
+				gradStop := 1e-10 * (1 + math.Abs(fx))
+				res, errM := optimize.Minimize(prob, x, settings, &optimize.BFGS{GradStopThreshold: gradStop})
+				if res == nil {
+					t.Fatal(errM)
+				}
+				ls := newLineSearch(d)
+				ls.next = &optimize.BFGS{}
+				copy(ls.g, g)
+				xe, fe, status, err := ls.run(context.Background(), p, x, fx, 200*d, gradStop)
+				if fe != res.F || !slices.Equal(xe, res.X) || status != res.Status || (err == nil) != (errM == nil) {
+					t.Errorf("start %v: lineSearch ends at f %v (%v, %v), Minimize at %v (%v, %v)", st, fe, status, err, res.F, res.Status, errM)
+				}
+				own := newLineSearch(d)
+				copy(own.g, g)
+				_, fo, _, _ := own.run(context.Background(), p, x, fx, 200*d, gradStop)
+				if math.Abs(fo-res.F) > 1e-9*(1+math.Abs(res.F)) {
+					t.Errorf("start %v: with bfgsDirection lineSearch ends at f %.12g, with optimize.BFGS at %.12g", st, fo, res.F)
+				}
+			}
+		})
+	}
+}
+
+// TestBFGSDirection: bfgsDirection gives optimize.BFGS's directions (the
+// same update, rounded in another order) along a sequence of locations
+// on a convex quadratic with gradient A·x + c, in 2 to 17 dimensions.
+func TestBFGSDirection(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	for _, d := range []int{2, 5, 17} {
+		t.Run(fmt.Sprintf("d=%d", d), func(t *testing.T) {
+			// A = MᵀM + I, symmetric positive definite.
+			m := make([]float64, d*d)
+			for i := range m {
+				m[i] = rng.NormFloat64()
+			}
+			a := make([]float64, d*d)
+			for i := 0; i < d; i++ {
+				for j := 0; j < d; j++ {
+					for k := 0; k < d; k++ {
+						a[i*d+j] += m[k*d+i] * m[k*d+j]
+					}
+				}
+				a[i*d+i]++
+			}
+			c := make([]float64, d)
+			for i := range c {
+				c[i] = rng.NormFloat64()
+			}
+			loc := func(x []float64) *optimize.Location {
+				g := make([]float64, d)
+				for i := 0; i < d; i++ {
+					g[i] = c[i]
+					for j := 0; j < d; j++ {
+						g[i] += a[i*d+j] * x[j]
+					}
+				}
+				return &optimize.Location{X: x, Gradient: g}
+			}
+			x := make([]float64, d)
+			for i := range x {
+				x[i] = rng.NormFloat64()
+			}
+			var own bfgsDirection
+			ref := &optimize.BFGS{}
+			d1, d2 := make([]float64, d), make([]float64, d)
+			l := loc(x)
+			s1, s2 := own.InitDirection(l, d1), ref.InitDirection(l, d2)
+			for k := 0; k < 3*d; k++ {
+				numtest.Scalar(t, "step", s1, s2, 0, 1e-12)
+				numtest.Slice(t, "direction", d1, d2, 1e-10*floats.Norm(d2, 2), 1e-8)
+				// Move a fraction of the way along the direction.
+				xn := slices.Clone(l.X)
+				floats.AddScaled(xn, 0.5*s2, d2)
+				l = loc(xn)
+				s1, s2 = own.NextDirection(l, d1), ref.NextDirection(l, d2)
 			}
 		})
 	}

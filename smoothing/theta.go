@@ -167,6 +167,7 @@ type ThetaFit struct {
 	freq   calendar.Frequency
 	fitted []float64
 	resid  []float64
+	y      almanac.Series // the data (for saving)
 }
 
 // Fit estimates the Theta method on y.
@@ -180,7 +181,9 @@ type ThetaFit struct {
 //   - fewer than 3 observations, or fewer than two full periods with
 //     AdjustAlways: almanac.ErrTooShort;
 //   - a value ≤ 0 with AdjustAlways: almanac.ErrNonPositive (with
-//     AdjustAuto such a series is simply not adjusted).
+//     AdjustAuto such a series is simply not adjusted);
+//   - a seasonal adjustment whose classical decomposition has a
+//     component beyond the float64 range: almanac.ErrNonFinite.
 func (s Theta) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, fmt.Errorf("smoothing: theta: %w", err)
@@ -244,12 +247,13 @@ func (s Theta) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 		freq:   y.Freq,
 		fitted: make([]float64, n),
 		resid:  make([]float64, n),
+		y:      y.Clone(),
 	}
 	x := y.Slice()
 	if adjust {
 		dec, err := seasonal.Classical(y.Values, m, true)
 		if err != nil {
-			return nil, fmt.Errorf("smoothing: theta: %w: seasonal adjustment: %v", almanac.ErrTooShort, err)
+			return nil, classicalError("theta: seasonal adjustment", err)
 		}
 		for i, v := range dec.Figure {
 			if !(v > 0) || math.IsInf(v, 0) {

@@ -16,7 +16,10 @@
 //  5. refits the winners on all the data, draws sample paths, and
 //     reconciles them (MinT with a shrinkage covariance, non-negative) so
 //     that products add up to categories and categories to the total,
-//  6. prints the plan for next year with 80% bands.
+//  6. prints the plan for next year with 80% bands, and writes a review
+//     page (review.html: every series' chart, backtest and flags) into the
+//     directory given by -out, by default almanac-quickstart in the
+//     system's temporary directory.
 //
 // Run it from the repository root with: go -C examples run ./quickstart
 package main
@@ -25,6 +28,7 @@ import (
 	"context"
 	_ "embed"
 	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"math"
@@ -51,7 +55,9 @@ const (
 )
 
 func main() {
-	if _, err := run(context.Background(), os.Stdout); err != nil {
+	out := flag.String("out", defaultReviewDir, "directory for the review page, review.html")
+	flag.Parse()
+	if _, err := run(context.Background(), os.Stdout, *out); err != nil {
 		fmt.Fprintln(os.Stderr, "quickstart:", err)
 		os.Exit(1)
 	}
@@ -65,7 +71,9 @@ type plan struct {
 	forecasts []almanac.Forecast // reconciled, per node
 }
 
-func run(ctx context.Context, w io.Writer) (*plan, error) {
+// run does the work, prints the plan to w and writes the review page into
+// reviewDir.
+func run(ctx context.Context, w io.Writer, reviewDir string) (*plan, error) {
 	// 1. Read the long-format CSV: one row per product and month.
 	lines, err := almanac.ReadCSV(strings.NewReader(gardenCSV), almanac.CSVOptions{
 		KeyColumn: "product", TimeColumn: "month", ValueColumn: "units",
@@ -78,6 +86,7 @@ func run(ctx context.Context, w io.Writer) (*plan, error) {
 		len(lines), lines[0].Start.Format("Jan 2006"), lines[0].End().Format("Jan 2006"))
 
 	// 2. Repair gaps rather than let a model trip over them.
+	repairs := map[string][]decompose.Change{}
 	for i, y := range lines {
 		if y.Missing() == 0 {
 			continue
@@ -89,7 +98,7 @@ func run(ctx context.Context, w io.Writer) (*plan, error) {
 		for _, c := range changes {
 			fmt.Fprintf(w, "repaired  %-24s %s  missing -> %.0f (seasonal-aware fill)\n", y.Key, c.Time.Format("Jan 2006"), c.New)
 		}
-		lines[i] = filled
+		lines[i], repairs[y.Key] = filled, changes
 	}
 	fmt.Fprintln(w)
 
@@ -162,8 +171,12 @@ func run(ctx context.Context, w io.Writer) (*plan, error) {
 	}
 	chosen := make([]string, len(nodes))
 	mase := make([]float64, len(nodes))
+	leftOut := map[int]bool{}
+	for _, f := range cmp.Failed {
+		leftOut[f.Index] = true
+	}
 	for i, c := range cmp.Series {
-		if c == nil { // left out of the backtest: see cmp.Failed
+		if c == nil || leftOut[i] { // left out of the backtest: see cmp.Failed
 			chosen[i], mase[i] = "seasonal naive", math.NaN()
 			continue
 		}
@@ -218,8 +231,13 @@ func run(ctx context.Context, w io.Writer) (*plan, error) {
 		return nil, err
 	}
 
-	// 6. The plan.
+	// 6. The plan, and a review page to look at it series by series.
 	printPlan(w, st, nodes, fits, chosen, mase, rec)
+	page, err := writeReview(reviewDir, nodes, fits, chosen, rec, cmp, repairs)
+	if err != nil {
+		return nil, fmt.Errorf("review page: %w", err)
+	}
+	fmt.Fprintf(w, "\nReview page (charts, backtests and flags for every series): %s\n", page)
 	return &plan{structure: st, nodes: nodes, chosen: chosen, forecasts: rec}, nil
 }
 

@@ -3,7 +3,12 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/xml"
+	"errors"
+	"io"
 	"math"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -11,13 +16,17 @@ import (
 // TestQuickstart runs the whole demo and checks what it promises: every
 // node has a forecast, the reconciled forecasts add up (products to
 // categories to the total) for the point forecasts and every sample path,
-// they are non-negative, and the printed plan names every product line.
+// they are non-negative, the printed plan names every product line, and
+// the review page is written, well-formed, with a row and a chart for
+// every node.
 func TestQuickstart(t *testing.T) {
 	var out bytes.Buffer
-	p, err := run(context.Background(), &out)
+	dir := t.TempDir()
+	p, err := run(context.Background(), &out, dir)
 	if err != nil {
 		t.Fatal(err)
 	}
+	checkReviewPage(t, filepath.Join(dir, "review.html"), p)
 	st := p.structure
 	if got, want := len(p.forecasts), st.Len(); got != want {
 		t.Fatalf("%d forecasts for %d nodes", got, want)
@@ -56,7 +65,7 @@ func TestQuickstart(t *testing.T) {
 		}
 	}
 	text := out.String()
-	for _, want := range []string{"repaired", "Backtest over all", "Plan for 2026", "sprinkler", "firepit", "All products, month by month"} {
+	for _, want := range []string{"repaired", "Backtest over all", "Plan for 2026", "sprinkler", "firepit", "All products, month by month", "Review page"} {
 		if !strings.Contains(text, want) {
 			t.Errorf("output lacks %q", want)
 		}
@@ -65,5 +74,48 @@ func TestQuickstart(t *testing.T) {
 		if c == "" {
 			t.Errorf("%s: no method chosen", p.nodes[i].Key)
 		}
+	}
+}
+
+// checkReviewPage parses the review page as XML (it is written to be
+// well-formed) and counts its summary rows and charts.
+func checkReviewPage(t *testing.T, path string, p *plan) {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatalf("review page: %v", err)
+	}
+	defer f.Close()
+	d := xml.NewDecoder(f)
+	rows, charts, filled := 0, 0, 0
+	for {
+		tok, err := d.Token()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		if err != nil {
+			t.Fatalf("review page %s is not well-formed: %v", path, err)
+		}
+		el, ok := tok.(xml.StartElement)
+		if !ok {
+			continue
+		}
+		for _, a := range el.Attr {
+			switch {
+			case el.Name.Local == "tr" && a.Name.Local == "data-flags":
+				rows++
+				if strings.Contains(a.Value, "filled") {
+					filled++
+				}
+			case el.Name.Local == "svg" && a.Name.Local == "class" && a.Value == "chart":
+				charts++
+			}
+		}
+	}
+	if n := len(p.nodes); rows != n || charts != n {
+		t.Errorf("review page: %d rows and %d charts for %d series", rows, charts, n)
+	}
+	if filled == 0 {
+		t.Error("review page: no series is marked as having filled values")
 	}
 }

@@ -16,6 +16,14 @@
 // Durbin–Levinson recursion. A constant series has c0 = 0 and gives NaN
 // autocorrelations; callers reject constant data first.
 //
+// Autocov works on the values as given: deviations beyond about 1e154
+// overflow when multiplied, so callers that take data of any magnitude
+// rescale first (internal/scaling) and map the covariances back by the
+// square of the factor. ACF and PACF do this themselves: the
+// autocorrelations do not depend on the scale, and multiplying by a power
+// of two is exact, so rescaled data give bit for bit the same values on
+// ordinary data and finite ones near the float64 limit.
+//
 // # Concurrency
 //
 // Every function is pure and safe for concurrent use; none starts a

@@ -1,6 +1,10 @@
 package tsstat
 
-import "math"
+import (
+	"math"
+
+	"github.com/almanac-go/almanac/internal/scaling"
+)
 
 // Autocov writes into dst[k], k = 0..maxLag, the sample autocovariance
 // (1/n) Σ_{t} (x_t − x̄)(x_{t+k} − x̄), over the pairs where both values
@@ -30,8 +34,15 @@ func Autocov(dst, x []float64, maxLag int) []float64 {
 	return dst
 }
 
-// ACF returns the sample autocorrelations r_0..r_maxLag (r_0 = 1).
+// ACF returns the sample autocorrelations r_0..r_maxLag (r_0 = 1). They
+// do not depend on the scale of x, so they are computed on x·2^k with k
+// from scaling.Exponent (exact): bit for bit the plain results on
+// ordinary data, and finite autocorrelations for data near the float64
+// limit, whose squared deviations would overflow (±1e300 gave NaN).
 func ACF(x []float64, maxLag int) []float64 {
+	if k := scaling.Exponent(x); k != 0 {
+		x = scaling.Scale(nil, x, k)
+	}
 	r := Autocov(make([]float64, maxLag+1), x, maxLag)
 	c0 := r[0]
 	for k := range r {

@@ -35,3 +35,42 @@ func TestPACFOfAR1(t *testing.T) {
 	r := []float64{1, 0.6, 0.36, 0.216, 0.1296}
 	numtest.Slice(t, "pacf", PACFFromACF(r), []float64{0.6, 0, 0, 0}, 1e-15, 0)
 }
+
+// TestACFScaleFree: the autocorrelations of ±1e300 and ±1e308 are those
+// of ±1 (scale-free by definition, common practice); before the data
+// were rescaled the squared deviations overflowed and every lag but 0
+// came out NaN. Scaling by a power of two is exact, so ordinary data give
+// bit-identical values.
+func TestACFScaleFree(t *testing.T) {
+	base := []float64{1, -1, 0.5, -0.25, 1, 0.75, -1, 0.125}
+	want := ACF(base, 4)
+	wantP := PACF(base, 4)
+	for _, c := range []struct {
+		name   string
+		factor float64
+	}{{"1e300", 1e300}, {"1e308", 1e308 / 1.0}, {"1e-300", 1e-300}, {"2^900", math.Ldexp(1, 900)}} {
+		t.Run(c.name, func(t *testing.T) {
+			x := make([]float64, len(base))
+			for i, v := range base {
+				x[i] = v * c.factor
+			}
+			got := ACF(x, 4)
+			for k, v := range got {
+				if math.IsNaN(v) || math.IsInf(v, 0) {
+					t.Fatalf("lag %d: %v", k, v)
+				}
+			}
+			numtest.Slice(t, "acf", got, want, 1e-14, 0)
+			numtest.Slice(t, "pacf", PACF(x, 4), wantP, 1e-14, 0)
+		})
+	}
+	two := make([]float64, len(base))
+	for i, v := range base {
+		two[i] = math.Ldexp(v, 700)
+	}
+	for k, v := range ACF(two, 4) {
+		if v != want[k] {
+			t.Errorf("lag %d: %v after scaling by 2^700, want %v bit for bit", k, v, want[k])
+		}
+	}
+}
