@@ -621,10 +621,9 @@ func (l *loess) at(x0, nleft, nright int) (ys float64, ok bool) {
 	h := float64(hi)
 	var s0, sd, sdd, sy, sdy float64
 	var kt *kernelTab
-	if uint(hi) < uint(len(kc.tabs)) {
-		kt = kc.tabs[hi]
-	}
-	if kt == nil {
+	if uint(hi) < uint(len(kc.tabs)) && kc.tabs[hi].w != nil {
+		kt = &kc.tabs[hi]
+	} else {
 		kt = kc.fill(hi)
 	}
 	if kt != nil {
@@ -755,7 +754,8 @@ func tricube(r, h float64) float64 {
 // depend on h alone); the smoothers of one run use a handful of
 // bandwidths, alternately.
 type kernel struct {
-	tabs []*kernelTab // tabs[h], nil until computed
+	tabs []kernelTab // tabs[h], w nil until computed
+	free []float64   // unused storage for further tables, in chunks
 }
 
 // kernelTab is the table for one bandwidth h: the weights w of offsets
@@ -773,10 +773,8 @@ const maxTabH = 1023
 
 // tab returns the table for bandwidth h ≤ maxTabH.
 func (k *kernel) tab(h int) *kernelTab {
-	if uint(h) < uint(len(k.tabs)) {
-		if t := k.tabs[h]; t != nil {
-			return t
-		}
+	if uint(h) < uint(len(k.tabs)) && k.tabs[h].w != nil {
+		return &k.tabs[h]
 	}
 	return k.fill(h)
 }
@@ -788,9 +786,21 @@ func (k *kernel) fill(h int) *kernelTab {
 		return nil
 	}
 	if len(k.tabs) <= h {
-		k.tabs = append(k.tabs, make([]*kernelTab, h+1-len(k.tabs))...)
+		// Room for twice the bandwidths held so far: few allocations
+		// however the bandwidths arrive. (A table already handed out
+		// stays valid: its slices are not copied.)
+		tabs := make([]kernelTab, min(max(h+1, 2*len(k.tabs)), maxTabH+1))
+		copy(tabs, k.tabs)
+		k.tabs = tabs
 	}
-	t := &kernelTab{w: make([]float64, 2*h+1), wd: make([]float64, 2*h+1)}
+	need := 4*h + 2 // w and wd
+	if len(k.free) < need {
+		k.free = make([]float64, max(need, 1024))
+	}
+	buf := k.free[:need:need]
+	k.free = k.free[need:]
+	t := &k.tabs[h]
+	t.w, t.wd = buf[:2*h+1:2*h+1], buf[2*h+1:]
 	d := float64(-h)
 	for i := range t.w {
 		w := tricube(math.Abs(d), float64(h))
@@ -801,6 +811,5 @@ func (k *kernel) fill(h int) *kernelTab {
 		t.sdd += wd * d
 		d++
 	}
-	k.tabs[h] = t
 	return t
 }
