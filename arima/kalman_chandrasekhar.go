@@ -53,9 +53,10 @@ func (k *kalman) filterChandrasekhar(w []float64, start int) filterResult {
 	M := -1 / F
 	steady := false
 	// The φ terms are skipped stretch by stretch only where the stretches
-	// are long (a long state with few non-zero φ_i, as with seasonal AR
-	// terms); otherwise one loop over every element costs less.
-	sparse := r >= sparseMinState && len(phiIdx)*sparseMinRun <= r
+	// are long (no or few non-zero φ_i in a long state: seasonal moving
+	// averages, seasonal AR terms); otherwise one loop over every element
+	// costs less.
+	sparse := (len(phiIdx)+1)*sparseMinRun <= r
 	delta, dIdx := k.delta, k.deltaIdx
 	// Σ log F_t is accumulated as the log of a running product, taken
 	// when the product leaves [1e-250, 1e250] (F_t < 1e4 in the sum):
@@ -109,18 +110,15 @@ func (k *kalman) filterChandrasekhar(w []float64, start int) filterResult {
 	return res
 }
 
-// sparseMinState and sparseMinRun: filterChandrasekhar visits only the
-// non-zero φ_i when the state has at least sparseMinState elements and
-// there are at least sparseMinRun of them per non-zero φ_i. Visiting
-// only the non-zero φ_i everywhere cost 10% more instructions on M3
-// monthly searches (short states, dense φ: the per-stretch overhead);
-// with these bounds (set by judgement, not tuned) BenchmarkSearchM3Monthly
-// takes 2.8% and BenchmarkSearchHourly 7% fewer instructions than one
-// loop over every element (callgrind), with bit-identical results.
-const (
-	sparseMinState = 24
-	sparseMinRun   = 8
-)
+// sparseMinRun: filterChandrasekhar visits only the non-zero φ_i when
+// the state has at least sparseMinRun elements per stretch between them
+// (the stretches are len(phiIdx)+1). Visiting only the non-zero φ_i
+// everywhere cost 10% more instructions on M3 monthly searches (short
+// states and dense φ: the per-stretch overhead); with this bound (set by
+// judgement, not tuned) BenchmarkSearchM3Monthly takes 3.8% and
+// BenchmarkSearchHourly 7.6% fewer instructions than one loop over every
+// element (callgrind), with bit-identical results.
+const sparseMinRun = 8
 
 // denseState is stepState visiting every φ_i.
 func denseState(a, K, phi []float64, a0, g float64) {
