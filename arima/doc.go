@@ -327,8 +327,10 @@
 //     unit circle: 31 s for one of them.
 //   - Search on all 1,428 M3 monthly training series, one after another
 //     (internal/cmd/speed -workloads search-m3-monthly, CPU time per
-//     series, two runs at load average 21 and 27): mean 39 and 49 ms,
-//     median 23 and 30 ms, slowest 0.36 s (N2449) and 0.56 s (N2497).
+//     series, three runs at load average 21, 27 and 6): mean 39, 49 and
+//     45 ms, median 23, 30 and 29 ms, slowest 0.36 s (N2449), 0.56 s
+//     (N2497) and 0.48 s (N2023): which series is slowest varies from
+//     run to run.
 //     Measured the same way by a throwaway program before the stepwise
 //     confirmation continued its run instead of refitting and before the
 //     sparse Chandrasekhar steps: mean 80 ms, largest 1.02 s (N2449,
