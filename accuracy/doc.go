@@ -196,6 +196,21 @@
 // (almanac.Refresh) and keeps the calibration as measured at the fit:
 // new observations add no errors until it is calibrated again.
 //
+// A PilotFit is an almanac.Storable of kind "accuracy.pilot": the series,
+// the route and its periods, the fallbacks taken, the number of paths and
+// the seed, with the route's fitted model as a nested document of its
+// own kind (a combination with its members, an intermittent-demand fit, a
+// benchmark, or "accuracy.last-value" for a series of one observation;
+// by default a CalibratedFit around one of these, with the pooled
+// trajectories its bands draw on after PoolPilots). The rest of
+// the report (leading missing values, demand class, the values filled by
+// decompose.Repair, members and calibration status) and the benchmark
+// behind Forecast's fallback are computed again from the stored series
+// on loading, as Fit computed them, so a loaded fit forecasts, bands and
+// simulates bit-identically. PilotFit.Refresh refreshes a route through
+// its models when all of them refresh; none of today's routes does (see
+// its documentation), so a Pilot fit is refitted, not refreshed.
+//
 // # Concurrency
 //
 // Every function is safe for concurrent use. A Backtest value is a

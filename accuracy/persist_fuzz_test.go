@@ -41,6 +41,8 @@ func FuzzLoadModel(f *testing.F) {
 		{accuracy.Naive2{}, complete},
 		{almanac.Combination{Members: []almanac.Model{almanac.Naive{}, smoothing.Spec{}}, Paths: 20}, complete},
 		{accuracy.Calibrated{Model: smoothing.Spec{}, Horizon: 3, Origins: 6, MinErrors: 4, Paths: 5}, complete},
+		{accuracy.Pilot{Uncalibrated: true, Paths: 20}, y},
+		{accuracy.Pilot{Paths: 20}, almanac.Series{Key: "one", Start: y.Start, Freq: y.Freq, Values: []float64{math.NaN(), 4}}},
 	}
 	for _, tc := range models {
 		fit, err := tc.m.Fit(context.Background(), tc.y)

@@ -96,6 +96,7 @@ var (
 	_ almanac.Model     = Pilot{}
 	_ almanac.Fitted    = (*PilotFit)(nil)
 	_ almanac.Simulator = (*PilotFit)(nil)
+	_ almanac.Refresher = (*PilotFit)(nil)
 )
 
 // Route says how Pilot forecast a series. Programs should not rely on
@@ -177,7 +178,9 @@ type PilotReport struct {
 }
 
 // PilotFit is a series fitted by Pilot. It is read-only and safe for
-// concurrent use.
+// concurrent use. It saves as a document of kind "accuracy.pilot"
+// (almanac.SaveModel) with the route's model nested, once every model of
+// the route is storable (see the package documentation, Persistence).
 type PilotFit struct {
 	inner  almanac.Fitted
 	backup almanac.Fitted // the end of the fallback chain, should inner fail to forecast
@@ -187,6 +190,9 @@ type PilotFit struct {
 	resid  []float64
 	paths  int
 	seed   uint64
+	// refreshed is the number of values at the end of y that Refresh
+	// added (given to the route's model as they came, gaps included).
+	refreshed int
 }
 
 // Report returns what Pilot did for the series (a copy).
@@ -265,23 +271,31 @@ func (p Pilot) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 			rep.Fallbacks = append(rep.Fallbacks, fmt.Sprintf("%v: %v", st.route, err))
 			continue
 		}
-		rep.Route, rep.Periods, rep.Dropped = st.route, st.periods, droppedOf(fit)
-		rep.Members = membersOf(fit)
-		if cf, ok := fit.(*CalibratedFit); ok {
-			rep.Calibrated, rep.Calibration = true, cf.Status()
-		}
+		rep.Route, rep.Periods = st.route, st.periods
+		f.describe(fit, y.Window(first, y.Len()))
 		inner = fit
 		break
 	}
+	f.settle(ctx, inner, work)
+	return f, nil
+}
+
+// settle completes a fit whose route is fitted to work (the series with
+// leading missing values left out and gaps repaired): the benchmark at
+// the end of the fallback chain and the fitted values on the axis of the
+// series as given. Fit and the saved-model loader share it, so a loaded
+// fit is rebuilt exactly as it was made.
+func (f *PilotFit) settle(ctx context.Context, inner almanac.Fitted, work almanac.Series) {
 	f.inner = inner
-	if rep.Route == RouteBenchmark {
+	if f.report.Route == RouteBenchmark {
 		f.backup = inner
 	} else if nv, err := (almanac.Naive{}).Fit(ctx, work); err == nil {
 		f.backup = nv
 	} else {
 		f.backup = newLastValue(work)
 	}
-	n := y.Len()
+	first := f.report.Trimmed
+	n := f.y.Len()
 	f.fitted = make([]float64, n)
 	f.resid = make([]float64, n)
 	fv := inner.FittedValues()
@@ -289,10 +303,9 @@ func (p Pilot) Fit(ctx context.Context, y almanac.Series) (almanac.Fitted, error
 		f.fitted[t], f.resid[t] = math.NaN(), math.NaN()
 		if k := t - first; k >= 0 && k < len(fv) {
 			f.fitted[t] = fv[k]
-			f.resid[t] = y.Values[t] - fv[k]
+			f.resid[t] = f.y.Values[t] - fv[k]
 		}
 	}
-	return f, nil
 }
 
 // refitOrigins is the number of calibration origins of a route that
@@ -469,4 +482,57 @@ func clonePaths(paths [][]float64) [][]float64 {
 		out[i] = slices.Clone(p)
 	}
 	return out
+}
+
+// Refresh implements almanac.Refresher: the route's fitted model takes
+// the new observations through almanac.Refresh, without estimating
+// anything again, and the report keeps the route, its periods, the
+// fallbacks and the repairs of the fit (new missing values go to the
+// route's model as they are, not repaired). A route refreshes only when
+// every model in it does: today ETS, ARIMA and the calibrated wrapper
+// do, while Theta, the intermittent-demand methods and the benchmarks do
+// not, so every route Pilot fits gives an error wrapping
+// almanac.ErrNotRefreshable: refit the series (almanac.RefreshPolicy
+// decides when). The method is there so that a route made only of
+// refreshable models refreshes through them.
+//
+// Special cases: a new value of ±Inf gives an error wrapping
+// almanac.ErrNonFinite; the route's model's error is passed on.
+func (f *PilotFit) Refresh(newValues []float64) (almanac.Fitted, error) {
+	if f == nil || f.inner == nil {
+		return nil, fmt.Errorf("accuracy: pilot: %w: use the value returned by Fit", almanac.ErrNotFitted)
+	}
+	y := f.y.Clone()
+	y.Values = append(y.Values, newValues...)
+	if err := y.Validate(); err != nil {
+		return nil, fmt.Errorf("accuracy: pilot refresh: %w", err)
+	}
+	inner, err := almanac.Refresh(f.inner, newValues)
+	if err != nil {
+		return nil, fmt.Errorf("accuracy: pilot refresh: %w", err)
+	}
+	g := &PilotFit{y: y, paths: f.paths, seed: f.seed, refreshed: f.refreshed + len(newValues), report: f.Report()}
+	work := f.y.Window(f.report.Trimmed, f.y.Len()).Clone()
+	for _, c := range f.report.Repairs {
+		work.Values[c.Index] = c.New
+	}
+	work.Values = append(work.Values, newValues...)
+	g.describe(inner, y.Window(g.report.Trimmed, y.Len()))
+	g.settle(context.Background(), inner, work)
+	return g, nil
+}
+
+// describe sets the parts of the report that follow from the data as
+// given (after leading missing values) and from the route's fitted
+// model.
+func (f *PilotFit) describe(inner almanac.Fitted, given almanac.Series) {
+	rep := &f.report
+	rep.NonNegative = !slices.ContainsFunc(given.Values, func(v float64) bool { return v < 0 })
+	rep.Demand = classifyDemand(given.Values)
+	rep.Dropped = droppedOf(inner)
+	rep.Members = membersOf(inner)
+	rep.Calibrated, rep.Calibration = false, CalibrationStatus{}
+	if cf, ok := inner.(*CalibratedFit); ok {
+		rep.Calibrated, rep.Calibration = true, cf.Status()
+	}
 }
