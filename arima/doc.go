@@ -326,13 +326,24 @@
 //     another by the full prior's O(r²) recursion, crawling towards the
 //     unit circle: 31 s for one of them.
 //   - Search on all 1,428 M3 monthly training series, one after another
-//     (throwaway evaluation program, CPU time per series): mean 80 ms,
-//     largest 1.02 s (N2449, ARIMA(4,1,1)×(1,0,2)_12, a seasonal AR term
-//     makes the autocovariance system 17 × 17) under load average 15;
-//     the package before these changes, measured the same way at the
-//     same time: mean 185 ms, largest 2.04 s (N1770). Callgrind on every 100th series: 10.0·10⁹ instructions against
-//     37.8·10⁹ before (3.8 times fewer). BenchmarkSearchM3Monthly runs
-//     every 50th series (29 per op).
+//     (internal/cmd/speed -workloads search-m3-monthly, CPU time per
+//     series, three runs at load average 21, 27 and 6): mean 39, 49 and
+//     45 ms, median 23, 30 and 29 ms, slowest 0.36 s (N2449), 0.56 s
+//     (N2497) and 0.48 s (N2023): which series is slowest varies from
+//     run to run.
+//     Measured the same way by a throwaway program before the stepwise
+//     confirmation continued its run instead of refitting and before the
+//     sparse Chandrasekhar steps: mean 80 ms, largest 1.02 s (N2449,
+//     ARIMA(4,1,1)×(1,0,2)_12) under load average 15; before the
+//     Chandrasekhar recursions: mean 185 ms, largest 2.04 s (N1770).
+//     Callgrind on every 100th series: 10.0·10⁹ instructions against
+//     37.8·10⁹ before the recursions. BenchmarkSearchM3Monthly runs every
+//     50th series (29 per op): 15.3·10⁹ instructions, 15.9·10⁹ before the
+//     Chandrasekhar steps skipped zero AR coefficients (hourly:
+//     BenchmarkSearchHourly 8.8·10⁹ against 9.5·10⁹). On all 3,003 M3
+//     series (internal/cmd/evaluate -models arima) the sMAPE is 16.51 /
+//     9.76 / 14.39 / 4.60, all 13.49 (yearly / quarterly / monthly /
+//     other).
 //   - airline model (0,1,1)×(0,1,1)_12 on log air passengers, CSS then
 //     ML (the default, finite prior): 0.80–0.90 ms per fit, against
 //     23.0–27.0 ms CPU for R 4.2's arima (same call, Rscript, 50 fits

@@ -39,7 +39,7 @@ import "math"
 func (k *kalman) filterChandrasekhar(w []float64, start int) filterResult {
 	r := k.r
 	K, W, a := k.ck[:r], k.cw[:r], k.ax[:r]
-	phi := k.phir[:r]
+	phi, phiIdx := k.phir[:r], k.phiIdx
 	var res filterResult
 	q := k.pnew[:r] // first column of Q0
 	clear(a)
@@ -52,6 +52,11 @@ func (k *kalman) filterChandrasekhar(w []float64, start int) filterResult {
 	copy(W, K)
 	M := -1 / F
 	steady := false
+	// The φ terms are skipped stretch by stretch only where the stretches
+	// are long (no or few non-zero φ_i in a long state: seasonal moving
+	// averages, seasonal AR terms); otherwise one loop over every element
+	// costs less.
+	sparse := (len(phiIdx)+1)*sparseMinRun <= r
 	delta, dIdx := k.delta, k.deltaIdx
 	// Σ log F_t is accumulated as the log of a running product, taken
 	// when the product leaves [1e-250, 1e250] (F_t < 1e4 in the sum):
@@ -76,10 +81,11 @@ func (k *kalman) filterChandrasekhar(w []float64, start int) filterResult {
 		a0 := a[0]
 		if steady {
 			// a ← T a + K v/F.
-			for i := 0; i < r-1; i++ {
-				a[i] = a[i+1] + phi[i]*a0 + K[i]*g
+			if sparse {
+				stepState(a, K, phi, phiIdx, a0, g)
+			} else {
+				denseState(a, K, phi, a0, g)
 			}
-			a[r-1] = phi[r-1]*a0 + K[r-1]*g
 			continue
 		}
 		// One pass: a ← T a + K v/F, then with T W (element by element,
@@ -88,31 +94,167 @@ func (k *kalman) filterChandrasekhar(w []float64, start int) filterResult {
 		zw := W[0]
 		mz := M * zw
 		Fn := F + zw*mz
-		c := zw / F
-		big := 0.0
-		for i := 0; i < r; i++ {
-			var an, tw float64
-			if i+1 < r {
-				an, tw = a[i+1], W[i+1]
-			}
-			ki := K[i]
-			a[i] = an + phi[i]*a0 + ki*g
-			tw += phi[i] * zw
-			wi := tw - ki*c
-			W[i] = wi
-			K[i] = ki + tw*mz
-			if wi > big {
-				big = wi
-			} else if -wi > big {
-				big = -wi
-			}
+		var big2 float64
+		if sparse {
+			big2 = stepGain(a, W, K, phi, phiIdx, a0, g, zw, zw/F, mz)
+		} else {
+			big2 = denseGain(a, W, K, phi, a0, g, zw, zw/F, mz)
 		}
 		M -= mz * mz / Fn
 		F = Fn
-		if b := big * big * math.Abs(M); b < 1e-300 || b <= 0x1p-60*F {
+		if b := big2 * math.Abs(M); b < 1e-300 || b <= 0x1p-60*F {
 			steady = true
 		}
 	}
 	res.sumlog += math.Log(prod)
 	return res
+}
+
+// sparseMinRun: filterChandrasekhar visits only the non-zero φ_i when
+// the state has at least sparseMinRun elements per stretch between them
+// (the stretches are len(phiIdx)+1). Visiting only the non-zero φ_i
+// everywhere cost 10% more instructions on M3 monthly searches (short
+// states and dense φ: the per-stretch overhead); with this bound (set by
+// judgement, not tuned) BenchmarkSearchM3Monthly takes 3.8% and
+// BenchmarkSearchHourly 7.6% fewer instructions than one loop over every
+// element (callgrind), with bit-identical results.
+const sparseMinRun = 8
+
+// denseState is stepState visiting every φ_i.
+func denseState(a, K, phi []float64, a0, g float64) {
+	r := len(a)
+	K, phi = K[:r], phi[:r]
+	for i := 0; i < r-1; i++ {
+		a[i] = a[i+1] + phi[i]*a0 + K[i]*g
+	}
+	a[r-1] = phi[r-1]*a0 + K[r-1]*g
+}
+
+// denseGain is stepGain visiting every φ_i.
+func denseGain(a, W, K, phi []float64, a0, g, zw, c, mz float64) float64 {
+	r := len(a)
+	W, K, phi = W[:r], K[:r], phi[:r]
+	big2 := 0.0
+	for i := 0; i < r; i++ {
+		var an, tw float64
+		if i+1 < r {
+			an, tw = a[i+1], W[i+1]
+		}
+		ki := K[i]
+		a[i] = an + phi[i]*a0 + ki*g
+		tw += phi[i] * zw
+		wi := tw - ki*c
+		W[i] = wi
+		K[i] = ki + tw*mz
+		if q := wi * wi; q > big2 {
+			big2 = q
+		}
+	}
+	return big2
+}
+
+// stepState is the state update of filterChandrasekhar with a fixed gain:
+// a_i ← a_{i+1} + φ_i a₀ + K_i g (a_r = 0), the terms φ_i a₀ only where
+// φ_i ≠ 0 (phiIdx, ascending): seasonal AR polynomials are sparse, and a
+// zero term changes no sum.
+func stepState(a, K, phi []float64, phiIdx []int, a0, g float64) {
+	r := len(a)
+	K, phi = K[:r], phi[:r]
+	lo := 0
+	for _, j := range phiIdx {
+		if j >= r-1 {
+			break
+		}
+		segState(a[lo:j+1], K[lo:j], g)
+		a[j] = a[j+1] + phi[j]*a0 + K[j]*g
+		lo = j + 1
+	}
+	if lo < r {
+		segState(a[lo:r], K[lo:r-1], g)
+		if p := phi[r-1]; p != 0 {
+			a[r-1] = p*a0 + K[r-1]*g
+		} else {
+			a[r-1] = K[r-1] * g
+		}
+	}
+}
+
+// segState is stepState on a stretch without φ terms: a_i ← a_{i+1} +
+// K_i g for i < len(K), a one longer than K.
+func segState(a, K []float64, g float64) {
+	n := len(K)
+	a = a[:n+1]
+	for i := 0; i < n; i++ {
+		a[i] = a[i+1] + K[i]*g
+	}
+}
+
+// stepGain is one step of the Chandrasekhar recursions in
+// filterChandrasekhar: with the innovation scaled by g = v/F, the state
+// update of stepState, and with T W (element i: W_{i+1} + φ_i (Z'W), zw =
+// Z'W) W_i ← (T W)_i − K_i c and K_i ← K_i + (T W)_i mz, c = zw/F,
+// mz = M zw, element by element in increasing i (each reads the old
+// elements i and i+1 before they are overwritten). It returns the
+// largest W_i². As in stepState the φ terms are added only where φ_i ≠ 0.
+func stepGain(a, W, K, phi []float64, phiIdx []int, a0, g, zw, c, mz float64) float64 {
+	r := len(a)
+	W, K, phi = W[:r], K[:r], phi[:r]
+	big2 := 0.0
+	lo := 0
+	for _, j := range phiIdx {
+		if j >= r-1 {
+			break
+		}
+		big2 = segGain(a[lo:j+1], W[lo:j+1], K[lo:j], g, c, mz, big2)
+		ki, pj := K[j], phi[j]
+		a[j] = a[j+1] + pj*a0 + ki*g
+		tw := W[j+1] + pj*zw
+		wi := tw - ki*c
+		W[j] = wi
+		K[j] = ki + tw*mz
+		if q := wi * wi; q > big2 {
+			big2 = q
+		}
+		lo = j + 1
+	}
+	if lo < r {
+		big2 = segGain(a[lo:r], W[lo:r], K[lo:r-1], g, c, mz, big2)
+		// The last element: (T a)_{r−1} = φ_{r−1} a₀, (T W)_{r−1} =
+		// φ_{r−1} (Z'W).
+		ki, pj := K[r-1], phi[r-1]
+		var wi float64
+		if pj != 0 {
+			a[r-1] = pj*a0 + ki*g
+			tw := pj * zw
+			wi = tw - ki*c
+			K[r-1] = ki + tw*mz
+		} else {
+			a[r-1] = ki * g
+			wi = -ki * c
+		}
+		W[r-1] = wi
+		if q := wi * wi; q > big2 {
+			big2 = q
+		}
+	}
+	return big2
+}
+
+// segGain is stepGain on a stretch without φ terms (i < len(K); a and W
+// one longer than K), returning max(big2, largest W_i² written).
+func segGain(a, W, K []float64, g, c, mz, big2 float64) float64 {
+	n := len(K)
+	a1, w1 := a[1:n+1], W[1:n+1]
+	a, W = a[:n], W[:n]
+	for i, ki := range K {
+		tw := w1[i]
+		a[i] = a1[i] + ki*g
+		wi := tw - ki*c
+		W[i] = wi
+		K[i] = ki + tw*mz
+		if q := wi * wi; q > big2 {
+			big2 = q
+		}
+	}
+	return big2
 }

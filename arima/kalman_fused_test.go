@@ -79,6 +79,11 @@ func TestChandrasekhar(t *testing.T) {
 		{"airline diffuse near", Spec{D: 1, Q: 1, SD: 1, SQ: 1, Prior: DiffusePrior}, true},
 		{"(2,1,2)(1,1,1) diffuse", Spec{P: 2, Q: 2, D: 1, SP: 1, SD: 1, SQ: 1, Prior: DiffusePrior}, false},
 		{"(1,0,1)(2,1,0) diffuse", Spec{P: 1, Q: 1, SP: 2, SD: 1, Prior: DiffusePrior}, false},
+		// Non-zero φ at lags 12 and 24 only (state 24): the steps that
+		// skip the zero φ stretch by stretch (sparseMinRun), with a φ
+		// inside the state and one in its last element.
+		{"(0,0,1)(2,0,0) stretches", Spec{Q: 1, SP: 2, Constant: ConstantNone}, false},
+		{"(0,0,1)(2,0,0) stretches near", Spec{Q: 1, SP: 2, Constant: ConstantNone}, true},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			f, x := mlObjectiveOf(t, tc.spec, y)

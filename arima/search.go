@@ -142,9 +142,10 @@ const (
 // Performance (one core, CPU time on a shared machine; the package
 // documentation says how measured): the default stepwise search takes
 // 13–15 ms on the 144-point log air passengers series (53–59 ms before
-// the changes there described), 80 ms a series on average over the 1,428
-// M3 monthly series (at most 1.02 s; 185 ms and 2.04 s before), 0.27–0.40 s on invented hourly
-// series of 960 values with period 24.
+// the changes there described), 39–49 ms a series on average over the
+// 1,428 M3 monthly series (at most 0.36–0.56 s; 185 ms and 2.04 s before
+// the Chandrasekhar recursions), 0.16–0.40 s on invented hourly series
+// of 960 values with period 24.
 type Search struct {
 	// MaxP and MaxQ bound the non-seasonal AR and MA orders (0 means 5,
 	// negative means 0).

@@ -72,7 +72,13 @@
 // costs 2.7% more instructions non-robust and 0.5% robust (callgrind, 200
 // calls). Wall-clock benchmark figures under that load were up
 // to three times higher. The tricube weights are tabulated once per
-// bandwidth.
+// bandwidth and kept in the Workspace with the sums a whole window needs
+// (a call that needs a bandwidth the Workspace has not seen allocates
+// its table; later calls with the same windows allocate nothing), and the degree-0 cycle-subseries smoother runs as one loop:
+// robust calls on the 468-point series take 6.0 million instructions
+// instead of 10.7 million, on the weekly CO2 record (2,284 points, period
+// 52) 26.3 million instead of 51.3 million (callgrind), with
+// bit-identical results; the times above predate that change.
 //
 // # Concurrency
 //

@@ -159,8 +159,6 @@ func (w *Workspace) resize(n, period int) {
 	w.rw = grow(w.rw, n)
 	w.ys = grow(w.ys, n)
 	w.sel = grow(w.sel, n)
-	w.kern.buf = grow(w.kern.buf, 2*m+1)
-	w.kern.tab = nil
 }
 
 // Decompose runs STL on y with parameters p and returns freshly allocated
@@ -378,15 +376,16 @@ func subseries(y []float64, np, ns, isdeg, nsjump int, userw bool, rw, season, w
 			}
 		}
 		smooth(w1[:k], ns, isdeg, nsjump, userw, w3, w2[1:k+1], kc)
+		lo := newLoess(w1[:k], ns, isdeg, userw, w3, kc)
 		nright := min(ns, k)
-		v, ok := estimate(w1[:k], ns, isdeg, 0, 1, nright, userw, w3, kc)
+		v, ok := lo.at(0, 1, nright)
 		if ok {
 			w2[0] = v
 		} else {
 			w2[0] = w2[1]
 		}
 		nleft := max(1, k-ns+1)
-		v, ok = estimate(w1[:k], ns, isdeg, float64(k+1), nleft, k, userw, w3, kc)
+		v, ok = lo.at(k+1, nleft, k)
 		if ok {
 			w2[k+1] = v
 		} else {
@@ -432,9 +431,13 @@ func smooth(y []float64, length, ideg, njump int, userw bool, rw, ys []float64, 
 		return
 	}
 	newnj := min(njump, n-1)
+	if ideg == 0 && newnj == 1 && length < n && smoothConst(y, length, userw, rw, ys, kc) {
+		return
+	}
 	var nleft, nright int
+	lo := newLoess(y, length, ideg, userw, rw, kc)
 	at := func(i int) {
-		v, ok := estimate(y, length, ideg, float64(i), nleft, nright, userw, rw, kc)
+		v, ok := lo.at(i, nleft, nright)
 		if ok {
 			ys[i-1] = v
 		} else {
@@ -493,7 +496,95 @@ func smooth(y []float64, length, ideg, njump int, userw bool, rw, ys []float64, 
 	}
 }
 
-// estimate is the Fortran stlest: the loess fit at position xs (1-based)
+// smoothConst is smooth for degree 0, every point evaluated (njump 1)
+// and a span shorter than the series: the case of the cycle-subseries,
+// whose smoother R runs with degree 0 and jump 1 by default. It computes
+// what loess.at computes at each point, in the same order, without a
+// call per point. It returns false, having written nothing, when the
+// span's bandwidths are beyond the tabulated ones.
+//
+// Where the window is whole (span points centred on i, bandwidth
+// h = (span − 1)/2), its two end points are at distance h and have
+// weight 0 (tricube: 0 beyond 0.999h): they add nothing to the sums and
+// are left out.
+func smoothConst(y []float64, length int, userw bool, rw, ys []float64, kc *kernel) bool {
+	n := len(y)
+	if length-1 > maxTabH || length%2 == 0 {
+		return false
+	}
+	nsh := (length + 1) / 2
+	ys = ys[:n]
+	// The first and last nsh − 1 points: windows [1, length] and
+	// [n − length + 1, n].
+	for i := 1; i < nsh; i++ {
+		ys[i-1] = constAt(y, rw, userw, kc, i, 1, length)
+	}
+	for i := n - nsh + 2; i <= n; i++ {
+		ys[i-1] = constAt(y, rw, userw, kc, i, n-length+1, n)
+	}
+	h := nsh - 1
+	kt := kc.tab(h)
+	tw := kt.w[1 : 2*h]
+	m := len(tw)
+	for i := nsh; i <= n-nsh+1; i++ {
+		lo := i - h + 1
+		yw := y[lo-1 : lo-1+m]
+		var s0, sy float64
+		if userw {
+			rr := rw[lo-1 : lo-1+m]
+			for j, w := range tw {
+				w *= rr[j]
+				s0 += w
+				sy += w * yw[j]
+			}
+		} else {
+			for j, w := range tw {
+				s0 += w
+				sy += w * yw[j]
+			}
+		}
+		if s0 <= 0 {
+			ys[i-1] = y[i-1]
+		} else {
+			ys[i-1] = sy / s0
+		}
+	}
+	return true
+}
+
+// constAt is loess.at for degree 0 at x0 with the window [nleft,
+// nright], the value of y there when every weight is zero.
+func constAt(y, rw []float64, userw bool, kc *kernel, x0, nleft, nright int) float64 {
+	hi := max(x0-nleft, nright-x0)
+	kt := kc.tab(hi)
+	m := nright - nleft + 1
+	off := hi - x0
+	tw := kt.w[nleft+off : nleft+off+m]
+	yw := y[nleft-1 : nleft-1+m]
+	yw = yw[:len(tw)]
+	var s0, sy float64
+	if userw {
+		rr := rw[nleft-1 : nleft-1+m]
+		rr = rr[:len(tw)]
+		for j, w := range tw {
+			w *= rr[j]
+			s0 += w
+			sy += w * yw[j]
+		}
+	} else {
+		for j, w := range tw {
+			s0 += w
+			sy += w * yw[j]
+		}
+	}
+	if s0 <= 0 {
+		return y[x0-1]
+	}
+	return sy / s0
+}
+
+// at is the Fortran stlest: the loess fit at position xs = x0
+// (1-based; a whole number in every call, as in the Fortran)
 // from y[nleft-1 .. nright-1], with tricube weights (times rw when
 // userw), degree 0 or 1. ok is false when every weight is zero.
 //
@@ -503,36 +594,116 @@ func smooth(y []float64, length, ideg, njump int, userw bool, rw, ys []float64, 
 // degree-1 correction is applied in closed form: the same estimator with
 // a different order of rounding (agreement with R to about 1e-13
 // relative), and faster.
-func estimate(y []float64, length, ideg int, xs float64, nleft, nright int, userw bool, rw []float64, kc *kernel) (ys float64, ok bool) {
+//
+// A loess value holds what is fixed for one smoother (the series, span,
+// degree and weights), at evaluates it at one point.
+type loess struct {
+	y, rw []float64
+	rng   float64 // n − 1
+	extra int     // (length − n)/2 when the span exceeds n, else 0
+	ideg  int
+	userw bool
+	kc    *kernel
+}
+
+func newLoess(y []float64, length, ideg int, userw bool, rw []float64, kc *kernel) loess {
 	n := len(y)
-	rng := float64(n) - 1
-	h := math.Max(xs-float64(nleft), float64(nright)-xs)
+	l := loess{y: y, rw: rw, rng: float64(n) - 1, ideg: ideg, userw: userw, kc: kc}
 	if length > n {
-		h += float64((length - n) / 2)
+		l.extra = (length - n) / 2
 	}
+	return l
+}
+
+func (l *loess) at(x0, nleft, nright int) (ys float64, ok bool) {
+	y, rw, ideg, userw, kc, rng := l.y, l.rw, l.ideg, l.userw, l.kc, l.rng
+	hi := max(x0-nleft, nright-x0) + l.extra
+	h := float64(hi)
 	var s0, sd, sdd, sy, sdy float64
-	if tab := kc.weights(h); tab != nil {
+	var kt *kernelTab
+	if uint(hi) < uint(len(kc.tabs)) && kc.tabs[hi].w != nil {
+		kt = &kc.tabs[hi]
+	} else {
+		kt = kc.fill(hi)
+	}
+	if kt != nil {
+		tab := kt.w
 		// Tabulated tricube weights: the same values as below, computed
-		// once per distinct h.
-		x0 := int(xs)
-		off := int(h) - x0
-		for j := nleft; j <= nright; j++ {
-			w := tab[j+off]
-			if userw {
-				w *= rw[j-1]
+		// once per distinct h. The window's weights, values and
+		// robustness weights as slices of one length (no bounds tests in
+		// the loops), and the distance d = j − xs counted up (exact for
+		// integers); only the sums the degree needs (a degree-0 fit uses
+		// s0 and sy alone, which the other sums do not touch).
+		off := hi - x0
+		m := nright - nleft + 1
+		tw := tab[nleft+off : nleft+off+m]
+		yw := y[nleft-1 : nleft-1+m]
+		yw = yw[:len(tw)]
+		d := float64(nleft - x0)
+		// A whole window centred on x0 ends in two points at distance
+		// h, whose weight is 0 (tricube: 0 beyond 0.999h): they add
+		// nothing to the sums and are left out.
+		whole := m == len(tab) && hi > 0
+		switch {
+		case ideg == 0 && userw:
+			rr := rw[nleft-1 : nleft-1+m]
+			rr = rr[:len(tw)]
+			for j, w := range tw {
+				w *= rr[j]
+				s0 += w
+				sy += w * yw[j]
 			}
-			d := float64(j - x0)
-			v := y[j-1]
-			wd := w * d
-			s0 += w
-			sd += wd
-			sdd += wd * d
-			sy += w * v
-			sdy += wd * v
+		case ideg == 0:
+			for j, w := range tw {
+				s0 += w
+				sy += w * yw[j]
+			}
+		case userw:
+			rr := rw[nleft-1 : nleft-1+m]
+			if whole {
+				tw, yw, rr = tw[1:m-1], yw[1:m-1], rr[1:m-1]
+				d++
+			}
+			yw, rr = yw[:len(tw)], rr[:len(tw)]
+			for j, w := range tw {
+				w *= rr[j]
+				v := yw[j]
+				wd := w * d
+				s0 += w
+				sd += wd
+				sdd += wd * d
+				sy += w * v
+				sdy += wd * v
+				d++
+			}
+		case whole:
+			// Unweighted: s0, Σwd and Σwd² depend on h alone and were
+			// summed, in this order, with the table; w·d is tabulated
+			// too.
+			s0, sd, sdd = kt.s0, kt.sd, kt.sdd
+			tw, yw = tw[1:m-1], yw[1:m-1]
+			wd := kt.wd[1 : m-1]
+			wd = wd[:len(tw)]
+			for j, w := range tw {
+				v := yw[j]
+				sy += w * v
+				sdy += wd[j] * v
+			}
+		default:
+			for j, w := range tw {
+				v := yw[j]
+				wd := w * d
+				s0 += w
+				sd += wd
+				sdd += wd * d
+				sy += w * v
+				sdy += wd * v
+				d++
+			}
 		}
 	} else {
 		for j := nleft; j <= nright; j++ {
-			d := float64(j) - xs
+			d := float64(j - x0)
 			w := tricube(math.Abs(d), h)
 			if w == 0 {
 				continue
@@ -578,28 +749,67 @@ func tricube(r, h float64) float64 {
 	return u * u * u
 }
 
-// kernel caches the tricube weights of integer offsets −h..h for the last
-// bandwidth h used, in a buffer owned by the Workspace.
+// kernel caches the tricube weights of integer offsets −h..h for each
+// whole bandwidth h up to maxTabH, computed on first use and kept (they
+// depend on h alone); the smoothers of one run use a handful of
+// bandwidths, alternately.
 type kernel struct {
-	h   float64
-	buf []float64
-	tab []float64
+	tabs []kernelTab // tabs[h], w nil until computed
+	free []float64   // unused storage for further tables, in chunks
 }
 
-// weights returns the weights for offsets −h..h (index offset + h), or nil
-// when h is not a whole number or 2h+1 exceeds the buffer.
-func (k *kernel) weights(h float64) []float64 {
-	if h == k.h && k.tab != nil {
-		return k.tab
+// kernelTab is the table for one bandwidth h: the weights w of offsets
+// d = −h..h, w·d, and the sums of w, w·d and w·d² over the whole window
+// in increasing d (the sums loess.at forms for a full window without
+// robustness weights, in the same order).
+type kernelTab struct {
+	w, wd       []float64
+	s0, sd, sdd float64
+}
+
+// maxTabH bounds the tabulated bandwidths; wider windows, such as the
+// periodic seasonal window of 10n+1, compute their weights directly.
+const maxTabH = 1023
+
+// tab returns the table for bandwidth h ≤ maxTabH.
+func (k *kernel) tab(h int) *kernelTab {
+	if uint(h) < uint(len(k.tabs)) && k.tabs[h].w != nil {
+		return &k.tabs[h]
 	}
-	hi := int(h)
-	if float64(hi) != h || 2*hi+1 > len(k.buf) {
+	return k.fill(h)
+}
+
+// fill computes and keeps the table for bandwidth h, or returns nil when
+// h exceeds maxTabH. (loess.at looks the table up in tabs first.)
+func (k *kernel) fill(h int) *kernelTab {
+	if h < 0 || h > maxTabH {
 		return nil
 	}
-	k.tab = k.buf[:2*hi+1]
-	for d := -hi; d <= hi; d++ {
-		k.tab[d+hi] = tricube(math.Abs(float64(d)), h)
+	if len(k.tabs) <= h {
+		// Room for twice the bandwidths held so far: few allocations
+		// however the bandwidths arrive. (A table already handed out
+		// stays valid: its slices are not copied.)
+		tabs := make([]kernelTab, min(max(h+1, 2*len(k.tabs)), maxTabH+1))
+		copy(tabs, k.tabs)
+		k.tabs = tabs
 	}
-	k.h = h
-	return k.tab
+	need := 4*h + 2 // w and wd
+	if len(k.free) < need {
+		k.free = make([]float64, max(need, 1024))
+	}
+	buf := k.free[:need:need]
+	k.free = k.free[need:]
+	t := &k.tabs[h]
+	t.w, t.wd = buf[:2*h+1:2*h+1], buf[2*h+1:]
+	d := float64(-h)
+	for i := range t.w {
+		w := tricube(math.Abs(d), float64(h))
+		wd := w * d
+		t.w[i], t.wd[i] = w, wd
+		t.s0 += w
+		t.sd += wd
+		t.sdd += wd * d
+		d++
+	}
+	return t
 }

@@ -44,9 +44,6 @@
 // writes the inputs of the workloads the reference scripts repeat
 // (reference/timings.R, reference/timings.py) as one-column CSV files, so
 // that they time the same data.
-//
-// The automatic forecaster (accuracy's, issue 9) has no workload yet: it
-// has not landed on the main branch.
 package main
 
 import (

@@ -14,6 +14,7 @@ import (
 	"time"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/accuracy"
 	"github.com/almanac-go/almanac/arima"
 	"github.com/almanac-go/almanac/calendar"
 	"github.com/almanac-go/almanac/decompose"
@@ -34,6 +35,7 @@ var workloads = []workload{
 	{"stl-weekly", "robust STL of the weekly CO2 record (2,284, period 52, gaps interpolated linearly, s.window 7, R's other defaults) (decompose BenchmarkSTL); R: stl()", stlWeekly},
 	{"search-m3-monthly", "arima.Search on the training part of each of the 1,428 M3 monthly series, one after another (arima BenchmarkSearchM3Monthly runs every 50th)", searchM3Monthly},
 	{"search-hourly", "arima.Search on an invented hourly series of 960 values, period 24 (arima BenchmarkSearchHourly)", searchHourly},
+	{"auto-m3-first200", "accuracy.Pilot (the automatic forecaster, calibrated bands) fit and a forecast with 80/95% bands over the training parts of the first 200 M3 series (N1–N200, all yearly; 6 steps), one after another (accuracy BenchmarkPilot)", autoM3First200},
 	{"mint-quickstart", "MinT (shrinkage covariance, non-negative) of 12-step forecasts on the quickstart's hierarchy (32 products, 4 categories, total; seasonal naive base forecasts) (reconcile BenchmarkQuickstartMinT)", mintQuickstart},
 }
 
@@ -219,6 +221,44 @@ func searchM3Monthly(cfg config) (*prepared, error) {
 			f, err := (arima.Search{}).Fit(context.Background(), y)
 			if err == nil {
 				chosen[i] = f.String()
+			}
+			return err
+		}})
+	}
+	p.check = func() string { return fmt.Sprintf("%s: %s", all[0].ID, chosen[0]) }
+	return p, nil
+}
+
+// autoM3First200 times the automatic forecaster on the first 200 M3
+// series in the order of their numbers (N1–N200, which are all yearly
+// series; the yearly file lists them first): one fit and one forecast of
+// the M3 yearly horizon, 6, with 80% and 95% bands per series.
+func autoM3First200(cfg config) (*prepared, error) {
+	all, err := m3data.Read(cfg.m3Dir, "m3_yearly.csv")
+	if err != nil {
+		return nil, err
+	}
+	count := 200
+	if cfg.tiny {
+		count = 3
+	}
+	if len(all) < count {
+		return nil, fmt.Errorf("M3 yearly: %d series, want at least %d", len(all), count)
+	}
+	all = all[:count]
+	p := &prepared{n: len(all)}
+	chosen := make([]string, len(all))
+	start := time.Date(1990, 1, 1, 0, 0, 0, 0, time.UTC)
+	for i, s := range all {
+		y := almanac.Series{Key: s.ID, Start: start, Freq: calendar.Yearly, Values: s.Train}
+		p.items = append(p.items, item{key: s.ID, op: func() error {
+			f, err := (accuracy.Pilot{}).Fit(context.Background(), y)
+			if err != nil {
+				return err
+			}
+			fc, err := f.Forecast(6, 80, 95)
+			if err == nil {
+				chosen[i] = fmt.Sprintf("%s, 6th step %.3f", f, fc.Mean[5])
 			}
 			return err
 		}})

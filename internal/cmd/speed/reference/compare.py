@@ -2,7 +2,7 @@
 machine, interleaved.
 
 Usage, from the repository root:
-    nice /usr/bin/python3 internal/cmd/speed/reference/compare.py [-rounds 5] [-min-time 0.5] [-json FILE]
+    nice /usr/bin/python3 internal/cmd/speed/reference/compare.py [-rounds 5] [-min-time 0.5] [-workloads a,b] [-json FILE]
 
 Builds internal/cmd/speed, writes its inputs (speed -inputs), then runs
 ROUNDS rounds, each of which times the workloads with our program, with R
@@ -63,7 +63,12 @@ def main():
     ap.add_argument("-rounds", type=int, default=5)
     ap.add_argument("-min-time", type=float, default=0.5, dest="min_time")
     ap.add_argument("-json", default="", help="also write every measurement to this file")
+    ap.add_argument("-workloads", default=",".join(WORKLOADS), help="comma-separated subset of " + ",".join(WORKLOADS))
     args = ap.parse_args()
+    chosen = [w for w in args.workloads.split(",") if w]
+    for w in chosen:
+        if w not in WORKLOADS:
+            sys.exit("unknown workload %s" % w)
 
     tmp = tempfile.mkdtemp(prefix="speed-compare-")
     exe = os.path.join(tmp, "speed")
@@ -80,9 +85,9 @@ def main():
     versions = {"almanac": "this checkout"}
     for r in range(args.rounds):
         runs = [
-            ("almanac", [exe, "-workloads", ",".join(WORKLOADS), "-repeats", "1", "-min-time", str(args.min_time)]),
-            ("R", ["Rscript", os.path.join(HERE, "timings.R"), inputs, str(args.min_time)]),
-            ("statsmodels", ["/usr/bin/python3", os.path.join(HERE, "timings.py"), inputs, str(args.min_time)]),
+            ("almanac", [exe, "-workloads", ",".join(chosen), "-repeats", "1", "-min-time", str(args.min_time)]),
+            ("R", ["Rscript", os.path.join(HERE, "timings.R"), inputs, str(args.min_time), ",".join(chosen)]),
+            ("statsmodels", ["/usr/bin/python3", os.path.join(HERE, "timings.py"), inputs, str(args.min_time), ",".join(chosen)]),
         ]
         # Rotate the order from round to round.
         runs = runs[r % 3:] + runs[:r % 3]
@@ -104,18 +109,18 @@ def main():
 
     print("Measured %s on %s (%d cores); load average %s before, %s after; %d rounds, medians; CPU time per operation, one thread." % (
         started.strftime("%Y-%m-%d %H:%M UTC"), model, cores, load_before, load_after, args.rounds))
-    print("R %s, statsmodels %s. Command: nice /usr/bin/python3 internal/cmd/speed/reference/compare.py -rounds %d" % (
-        versions.get("R", "?"), versions.get("statsmodels", "?"), args.rounds))
+    print("R %s, statsmodels %s. Command: nice /usr/bin/python3 internal/cmd/speed/reference/compare.py -rounds %d -min-time %g -workloads %s" % (
+        versions.get("R", "?"), versions.get("statsmodels", "?"), args.rounds, args.min_time, ",".join(chosen)))
     print()
     print("| workload | R `stats` | statsmodels | almanac | R / almanac | statsmodels / almanac |")
     print("| --- | --- | --- | --- | --- | --- |")
-    for w in WORKLOADS:
+    for w in chosen:
         a, r_, s = med("almanac", w), med("R", w), med("statsmodels", w)
         ratio = lambda x: "—" if x is None or a is None else "%.1f×" % (x / a)
         print("| %s | %s | %s | %s | %s | %s |" % (w, ms(r_), ms(s), ms(a), ratio(r_), ratio(s)))
     print()
     print("Checks (each tool's result summary):")
-    for w in WORKLOADS:
+    for w in chosen:
         for tool in TOOLS:
             if (tool, w) in checks:
                 print("  %-14s %-12s %s" % (w, tool, checks[(tool, w)]))

@@ -3,11 +3,12 @@
 # STL by stl() on the same data.
 #
 # Usage (the driver compare.py runs it):
-#   Rscript internal/cmd/speed/reference/timings.R INPUTS_DIR [MIN_SECONDS]
+#   Rscript internal/cmd/speed/reference/timings.R INPUTS_DIR [MIN_SECONDS [WORKLOADS]]
 # INPUTS_DIR is written by `speed -inputs INPUTS_DIR`. Prints one JSON line
 # per workload with the CPU time (user + system, from system.time) per
 # operation: each operation is repeated until the repeats take at least
-# MIN_SECONDS (default 0.5) of CPU time.
+# MIN_SECONDS (default 0.5) of CPU time. WORKLOADS, a comma-separated list,
+# restricts the workloads (default: all of them).
 #
 # Written for R 4.2 (base and stats only).
 
@@ -15,6 +16,7 @@ args <- commandArgs(trailingOnly = TRUE)
 if (length(args) < 1) stop("usage: Rscript timings.R INPUTS_DIR [MIN_SECONDS]")
 dir <- args[1]
 min_time <- if (length(args) > 1) as.numeric(args[2]) else 0.5
+wanted <- if (length(args) > 2) strsplit(args[3], ",")[[1]] else c("airline-fit", "stl-monthly", "stl-weekly")
 read_values <- function(name) read.csv(file.path(dir, name))$value
 
 cpu <- function(expr_fun, k) {
@@ -45,19 +47,24 @@ co2w <- read_values("co2_weekly_filled.csv")
 same <- function(a, b) if (isTRUE(all.equal(a, as.numeric(b), tolerance = 0))) "data as R's" else "DATA DIFFER FROM R's"
 
 # The airline model, R's default method (CSS then ML).
-x <- log(ts(ap, start = c(1949, 1), frequency = 12))
-fit <- NULL
-t <- time_op(function() fit <<- arima(x, order = c(0, 1, 1), seasonal = list(order = c(0, 1, 1), period = 12)))
-emit("airline-fit", length(x), t, sprintf("loglik %.6f; AirPassengers %s", fit$loglik, same(ap, AirPassengers)))
+if ("airline-fit" %in% wanted) {
+  x <- log(ts(ap, start = c(1949, 1), frequency = 12))
+  fit <- NULL
+  t <- time_op(function() fit <<- arima(x, order = c(0, 1, 1), seasonal = list(order = c(0, 1, 1), period = 12)))
+  emit("airline-fit", length(x), t, sprintf("loglik %.6f; AirPassengers %s", fit$loglik, same(ap, AirPassengers)))
+}
 
 # Robust STL, s.window = 7, R's defaults otherwise (windows, jumps, inner 1
 # and outer 15 passes when robust).
 stl_check <- function(d) sprintf("sum seasonal %.6f sum trend %.6f", sum(d$time.series[, "seasonal"]), sum(d$time.series[, "trend"]))
-y <- ts(co2m, start = c(1959, 1), frequency = 12)
 d <- NULL
-t <- time_op(function() d <<- stl(y, s.window = 7, robust = TRUE))
-emit("stl-monthly", length(y), t, paste(stl_check(d), "; co2", same(co2m, co2)))
-
-y <- ts(co2w, frequency = 52)
-t <- time_op(function() d <<- stl(y, s.window = 7, robust = TRUE))
-emit("stl-weekly", length(y), t, stl_check(d))
+if ("stl-monthly" %in% wanted) {
+  y <- ts(co2m, start = c(1959, 1), frequency = 12)
+  t <- time_op(function() d <<- stl(y, s.window = 7, robust = TRUE))
+  emit("stl-monthly", length(y), t, paste(stl_check(d), "; co2", same(co2m, co2)))
+}
+if ("stl-weekly" %in% wanted) {
+  y <- ts(co2w, frequency = 52)
+  t <- time_op(function() d <<- stl(y, s.window = 7, robust = TRUE))
+  emit("stl-weekly", length(y), t, stl_check(d))
+}

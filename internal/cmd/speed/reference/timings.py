@@ -4,12 +4,13 @@ robust STL with R's settings, and the airline model by SARIMAX, on the
 same data.
 
 Usage (the driver compare.py runs it):
-    /usr/bin/python3 internal/cmd/speed/reference/timings.py INPUTS_DIR [MIN_SECONDS]
+    /usr/bin/python3 internal/cmd/speed/reference/timings.py INPUTS_DIR [MIN_SECONDS [WORKLOADS]]
 
 INPUTS_DIR is written by `speed -inputs INPUTS_DIR`. Prints one JSON line
 per workload with the CPU time of the process (time.process_time) per
 operation: each operation is repeated until the repeats take at least
-MIN_SECONDS (default 0.5). Set OMP_NUM_THREADS=1 and OPENBLAS_NUM_THREADS=1
+MIN_SECONDS (default 0.5). WORKLOADS, a comma-separated list, restricts the
+workloads (default: all). Set OMP_NUM_THREADS=1 and OPENBLAS_NUM_THREADS=1
 (the driver does) so that numpy uses one core.
 
 Written for statsmodels 0.13.5 (Debian's /usr/bin/python3).
@@ -78,6 +79,7 @@ def main():
         sys.exit("usage: timings.py INPUTS_DIR [MIN_SECONDS]")
     d = sys.argv[1]
     min_time = float(sys.argv[2]) if len(sys.argv) > 2 else 0.5
+    wanted = sys.argv[3].split(",") if len(sys.argv) > 3 else ["airline-fit", "ets-madm-fit", "ets-select-18", "stl-monthly", "stl-weekly"]
     ap = read_values(d, "airpassengers.csv")
     co2m = read_values(d, "co2_monthly.csv")
     co2w = read_values(d, "co2_weekly_filled.csv")
@@ -86,14 +88,16 @@ def main():
 
     def airline():
         res["airline"] = SARIMAX(np.log(ap), order=(0, 1, 1), seasonal_order=(0, 1, 1, 12)).fit(disp=False)
-    t = time_op(airline, min_time)
-    emit("airline-fit", len(ap), t, "loglik %.6f (SARIMAX, exact diffuse)" % res["airline"].llf)
+    if "airline-fit" in wanted:
+        t = time_op(airline, min_time)
+        emit("airline-fit", len(ap), t, "loglik %.6f (SARIMAX, exact diffuse)" % res["airline"].llf)
 
     def madm():
         res["madm"] = ETSModel(ap, error="mul", trend="add", damped_trend=True, seasonal="mul",
                                seasonal_periods=12).fit(disp=False)
-    t = time_op(madm, min_time)
-    emit("ets-madm-fit", len(ap), t, "ETS(M,Ad,M) loglik %.6f" % res["madm"].llf)
+    if "ets-madm-fit" in wanted:
+        t = time_op(madm, min_time)
+        emit("ets-madm-fit", len(ap), t, "ETS(M,Ad,M) loglik %.6f" % res["madm"].llf)
 
     def select18():
         best = None
@@ -108,10 +112,13 @@ def main():
                                                   "N" if seasonal is None else seasonal[0].upper())
                         best = (fit.aicc, name)
         res["select"] = best
-    t = time_op(select18, min_time)
-    emit("ets-select-18", len(ap), t, "%s (AICc %.4f)" % (res["select"][1], res["select"][0]))
+    if "ets-select-18" in wanted:
+        t = time_op(select18, min_time)
+        emit("ets-select-18", len(ap), t, "%s (AICc %.4f)" % (res["select"][1], res["select"][0]))
 
     for workload, y, period in (("stl-monthly", co2m, 12), ("stl-weekly", co2w, 52)):
+        if workload not in wanted:
+            continue
         s = stl_r_settings(period, 7)
 
         def decompose():
