@@ -26,11 +26,13 @@
 //  3. Group the series by the root of their hierarchy (GroupByKey), so
 //     that each hierarchy is forecast and reconciled on one worker; the
 //     series outside any hierarchy are dealt into Options.Buckets groups.
-//  4. In each group: fit the model to every series (almanac.BatchFit),
-//     forecast, sum the series into the hierarchy's aggregates (Aggregate)
-//     and forecast those, reconcile all nodes' forecasts with joint
-//     sample paths (reconcile.FromFits), and, when asked, backtest every
-//     series against the naive and seasonal naive benchmarks
+//  4. In each group: fit the model to every series (almanac.BatchFit; by
+//     default the automatic forecaster accuracy.Pilot), sum the series
+//     into the hierarchy's aggregates (Aggregate) and fit those, pool the
+//     calibration errors of all the group's fits (PoolFits, that is
+//     accuracy.PoolPilots), forecast, reconcile all nodes' forecasts with
+//     joint sample paths (reconcile.FromFits), and, when asked, backtest
+//     every series against the naive and seasonal naive benchmarks
 //     (accuracy.Backtest).
 //  5. Write four outputs as CSV shards, each shard with its header and its
 //     rows sorted: forecasts (base and reconciled, with bands), accuracy,
@@ -53,6 +55,39 @@
 // for aggregates, rejected rows by reason, and hierarchies reconciled or
 // not.
 //
+// # Calibrated bands, pooled per group
+//
+// The default model, accuracy.Pilot, calibrates its bands on
+// out-of-sample errors at rolling origins near the end of each series. A
+// monthly series of five or six years has only one to four such origins
+// of its own, too few for calibrated bands (accuracy.DefaultMinErrors),
+// so a program fitting a catalogue pools the errors of its series with
+// accuracy.PoolPilots. The pipeline pools them within each group: all
+// the nodes of a hierarchy (its series and its aggregates, in the
+// hierarchy's node order), or all the series of a bucket (in key order;
+// BucketOf), each group split further by frequency and route as
+// PoolPilots does by default. A store of 100 product lines and 11
+// aggregates pools over 100 trajectories; a bucket of a flat catalogue
+// pools its share of the catalogue (Options.Buckets sets the share).
+// The status file says for each series where its bands came from.
+//
+// Why not pool over the whole catalogue, as the single-machine program
+// does? Pilot's fits cannot travel between stages (they have no saved
+// form yet), so a catalogue-wide pool would take a second pass: fit
+// every series, gather every error trajectory in one place, and fit
+// every series again with the pool as a side input: twice the fitting,
+// for a larger pool where a group's already holds tens to hundreds of
+// trajectories (how much the larger pool would change the bands was not
+// measured). Pooling per group keeps each group
+// self-contained (one worker, one pass) and each forecast reproducible
+// from its group alone; a test checks the pipeline against
+// almanac.BatchFit and accuracy.PoolPilots run on the same groups.
+// Options.OwnErrors switches pooling off.
+//
+// The per-series backtest (Options.Backtest) fits Pilot afresh at each
+// origin, on that series alone: its coverage figures are those of
+// unpooled bands.
+//
 // # Missing values
 //
 // The tokens almanac.ReadCSV reads as missing (empty, NA, N/A, NaN,
@@ -71,8 +106,9 @@
 // in, a hierarchy's series by key, and aggregates are summed in a fixed
 // order (see Aggregate), so the pipeline's forecasts are bit-identical to
 // what the library computes directly from the same series with the same
-// model and reconcile.Spec (ReconcileSpec), on any runner and for any
-// number of workers (the test checks this bit for bit).
+// model, the same pooling groups (PoolFits) and reconcile.Spec
+// (ReconcileSpec), on any runner and for any number of workers (the
+// test checks this bit for bit).
 //
 // The series of one hierarchy must cover the same periods (the joint
 // sample paths match residuals period by period): the span most of them
