@@ -126,23 +126,42 @@
 //
 // # Performance
 //
-// Measured with BenchmarkPipeline and BenchmarkBatchFit (-benchtime 1x)
-// on a generated catalogue of 2,000 monthly series (60 months, 12 months
-// ahead, smoothing.Select) on the 2-core development machine while it was
-// heavily shared (load average 10 to 20), so wall times are indicative;
-// CPU seconds are user + system time of the whole process:
+// Measured with BenchmarkPipeline and BenchmarkBatchFit (-benchtime 1x,
+// one run each) on generated catalogues of 60-month series forecast 12
+// months ahead with 80% and 95% bands by the default model (Pilot, bands
+// pooled as described above; BenchmarkBatchFit pools over the whole
+// catalogue with accuracy.PoolPilots, as the README's first program
+// does), on the 2-core development machine while it was shared (load
+// average 5 to 24), so wall times are indicative; CPU seconds are user +
+// system time of the whole process and compare better:
 //
-//	almanac.BatchFit, same series, with CSV in and out   31–36 CPU s   15–29 series/s
-//	pipeline on prism, no hierarchy                       46 CPU s      26 series/s
-//	pipeline on prism, 20 store hierarchies reconciled    91–116 CPU s  2.5–3.6 series/s
-//	  (2,000 series + 220 aggregates, MinT, 1000 joint paths per store)
+//	2,000 series (20 stores)                   wall    series/s  CPU s
+//	almanac.BatchFit + PoolPilots, CSV in/out  120 s   16.6       82
+//	pipeline on prism, no hierarchy            303 s    6.6       87
+//	pipeline on prism, 20 stores reconciled    166 s   12.1      132
+//	  (+ 220 aggregates, MinT, 1000 joint paths per store)
 //
-// Beam's reading, shuffles, coders and writing add about a third to the
-// CPU time of fitting; reconciliation with 1000 joint paths costs about
-// 2.5 CPU seconds per store of 111 nodes and the local runner reconciles
-// one hierarchy at a time. Before series outside a hierarchy were
-// bucketed (Options.Buckets), the flat pipeline fitted one series at a
-// time: 42–48 CPU s but only 6.8–8.6 series/s.
+//	200 series (2 stores)
+//	almanac.BatchFit + PoolPilots, CSV in/out   47 s    4.2        8.9
+//	pipeline on prism, no hierarchy              61 s    3.3       11.8
+//	pipeline on prism, 2 stores reconciled       93 s    2.1       19.9
+//
+// The flat pipeline costs about as much CPU as BatchFit (87 against 82
+// CPU s for 2,000 series: Beam's reading, shuffles, coders and writing
+// are small beside Pilot's fitting, about 40 CPU ms a series); its wall
+// time was measured under heavier load than BatchFit's. Reconciliation
+// adds the aggregates' fits and about 2.5 CPU s per store of 111 nodes
+// with 1000 joint paths; the local runner reconciles one hierarchy at a
+// time. With smoothing.Select (-model select), before the ETS speed-up
+// on main, the same 2,000 series took 31–36 CPU s by BatchFit, 46 on the
+// flat pipeline and 91–116 reconciled.
+//
+// Building the Beam module is costly: with an empty GOCACHE, "go build
+// ./beam" took 283 CPU s (260 user, 23 system; peak 2.2 GB resident) and
+// "go test -race -run '^$' ./beam/..." 367 CPU s (341 user, 27 system),
+// so on two idle cores roughly 2.5 and 3 minutes; CI should keep its
+// build cache between runs. The pipeline's tests then take about 80 CPU
+// s under -race.
 //
 // # References
 //
