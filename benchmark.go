@@ -277,13 +277,13 @@ func (f *BenchmarkFit) NumParams() int {
 	return 0
 }
 
-// String returns "Naive", "SeasonalNaive[m]", "Drift" or "Mean".
+// String returns "Naive", "SeasonalNaive(m)", "Drift" or "Mean".
 func (f *BenchmarkFit) String() string {
 	switch f.kind {
 	case kindNaive:
 		return "Naive"
 	case kindSeasonalNaive:
-		return fmt.Sprintf("SeasonalNaive[%d]", f.period)
+		return fmt.Sprintf("SeasonalNaive(%d)", f.period)
 	case kindDrift:
 		return "Drift"
 	}

@@ -78,7 +78,7 @@ func TestBenchmarkClosedForms(t *testing.T) {
 			[]float64{sMean * math.Sqrt(1+1.0/6), sMean * math.Sqrt(1+1.0/6), sMean * math.Sqrt(1+1.0/6)}},
 		// Last year: 2, 5, 4, 6 at positions 2, 3, 0, 1 → forecasts for
 		// positions 2, 3, 0, 1, 2 are 2, 5, 4, 6, 2; k = ⌊(h−1)/4⌋.
-		{"seasonal naive from frequency", almanac.SeasonalNaive{}, "SeasonalNaive[4]", 0,
+		{"seasonal naive from frequency", almanac.SeasonalNaive{}, "SeasonalNaive(4)", 0,
 			[]float64{2, 5, 4, 6, 2},
 			[]float64{sSeas, sSeas, sSeas, sSeas, sSeas * math.Sqrt(2)}},
 	}

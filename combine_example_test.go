@@ -41,7 +41,7 @@ func ExampleCombination() {
 		fmt.Printf("%s %.3f [%.3f, %.3f]\n", fc.Time(h).Format("2006-01"), fc.Mean[h], fc.Intervals[0].Lower[h], fc.Intervals[0].Upper[h])
 	}
 	// Output:
-	// mean(SeasonalNaive[12], Drift, Naive)
+	// mean(SeasonalNaive(12), Drift, Naive)
 	// left out: member 2 (almanac.SeasonalNaive), too short: true
 	// 2025-01 53.884 [36.439, 69.473]
 	// 2025-02 55.101 [32.895, 76.435]

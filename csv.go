@@ -207,7 +207,7 @@ func ReadCSV(r io.Reader, opt CSVOptions) ([]Series, error) {
 		if err != nil {
 			return nil, &CSVError{Line: line, Column: timeName, Err: err}
 		}
-		v, err := parseCSVValue(rec[vi])
+		v, err := ParseValue(rec[vi])
 		if err != nil {
 			return nil, &CSVError{Line: line, Column: valName, Err: err}
 		}
@@ -360,7 +360,16 @@ func isInfinityToken(s string) bool {
 	return strings.EqualFold(s, "inf") || strings.EqualFold(s, "infinity")
 }
 
-func parseCSVValue(s string) (float64, error) {
+// ParseValue reads one value cell by the rules of ReadCSV: a plain decimal
+// number (optional sign, digits with an optional decimal point, optional
+// exponent; no digit separators, no hexadecimal) gives its value; an
+// empty cell or one of the missing-value tokens NA, N/A, NaN or null (any
+// case, surrounding spaces ignored) gives NaN; anything else is an error
+// wrapping ErrCSVValue, which also wraps ErrNonFinite for Inf, Infinity
+// or a number beyond the float64 range. Programs that read long-format
+// data their own way (a pipeline, a service) use it to read values
+// exactly as ReadCSV does. Messages quote at most a short prefix of s.
+func ParseValue(s string) (float64, error) {
 	if isMissingToken(s) {
 		return math.NaN(), nil
 	}
@@ -382,54 +391,20 @@ func parseCSVValue(s string) (float64, error) {
 }
 
 // inferFrequency finds the coarsest spacing consistent with every row (see
-// CSVOptions.Freq).
+// CSVOptions.Freq), through calendar.Infer.
 func inferFrequency(groups []*csvGroup) (calendar.Frequency, error) {
-	for _, u := range []calendar.Unit{calendar.Month, calendar.Day, calendar.Minute} {
-		base := calendar.Every(1, u)
-		g, ok := 0, true
-		for _, grp := range groups {
-			start := grp.rows[0].t
-			for _, r := range grp.rows[1:] {
-				n, err := base.Between(start, r.t)
-				if err != nil {
-					ok = false
-					break
-				}
-				g = gcd(g, n)
-			}
-			if !ok {
-				break
-			}
+	times := make([][]time.Time, len(groups))
+	for i, grp := range groups {
+		times[i] = make([]time.Time, len(grp.rows))
+		for j, r := range grp.rows {
+			times[i][j] = r.t
 		}
-		if !ok || g == 0 {
-			continue
-		}
-		switch {
-		case u == calendar.Month && g%12 == 0:
-			return calendar.Every(g/12, calendar.Year), nil
-		case u == calendar.Month && g%3 == 0:
-			return calendar.Every(g/3, calendar.Quarter), nil
-		case u == calendar.Day && g%7 == 0:
-			return calendar.Every(g/7, calendar.Week), nil
-		case u == calendar.Minute && g%60 == 0:
-			return calendar.Every(g/60, calendar.Hour), nil
-		}
-		return calendar.Every(g, u), nil
 	}
-	return calendar.Frequency{}, &CSVError{Err: fmt.Errorf("%w: cannot infer it from the times (need a series with two distinct times, spaced by whole minutes, days or months); set CSVOptions.Freq", ErrFrequency)}
-}
-
-func gcd(a, b int) int {
-	if a < 0 {
-		a = -a
+	f, err := calendar.Infer(times...)
+	if err != nil {
+		return calendar.Frequency{}, &CSVError{Err: fmt.Errorf("%w: cannot infer it from the times (need a series with two distinct times, spaced by whole minutes, days or months); set CSVOptions.Freq", ErrFrequency)}
 	}
-	if b < 0 {
-		b = -b
-	}
-	for b != 0 {
-		a, b = b, a%b
-	}
-	return a
+	return f, nil
 }
 
 // maxCSVFill caps the length of a gap-filled series, so that two far-apart

@@ -529,3 +529,50 @@ func bitsEqualNaN(a, b []float64) bool {
 	}
 	return true
 }
+
+func TestParseValue(t *testing.T) {
+	tests := []struct {
+		in        string
+		want      float64
+		missing   bool
+		err       error
+		nonFinite bool
+	}{
+		{in: "12", want: 12},
+		{in: " -3.5 ", want: -3.5},
+		{in: ".5", want: 0.5},
+		{in: "2e-3", want: 2e-3},
+		{in: "1.5E+6", want: 1.5e6},
+		{in: "", missing: true},
+		{in: "na", missing: true},
+		{in: "N/A", missing: true},
+		{in: "NaN", missing: true},
+		{in: " null ", missing: true},
+		{in: "Inf", err: almanac.ErrCSVValue, nonFinite: true},
+		{in: "-infinity", err: almanac.ErrCSVValue, nonFinite: true},
+		{in: "1e309", err: almanac.ErrCSVValue, nonFinite: true},
+		{in: "1_000", err: almanac.ErrCSVValue},
+		{in: "0x1p3", err: almanac.ErrCSVValue},
+		{in: "twelve", err: almanac.ErrCSVValue},
+		{in: "1e", err: almanac.ErrCSVValue},
+	}
+	for _, tt := range tests {
+		t.Run(tt.in, func(t *testing.T) {
+			got, err := almanac.ParseValue(tt.in)
+			switch {
+			case tt.err != nil:
+				if !errors.Is(err, tt.err) || errors.Is(err, almanac.ErrNonFinite) != tt.nonFinite {
+					t.Fatalf("ParseValue(%q) = %v, %v; want an error wrapping %v (non-finite %v)", tt.in, got, err, tt.err, tt.nonFinite)
+				}
+			case err != nil:
+				t.Fatalf("ParseValue(%q): %v", tt.in, err)
+			case tt.missing:
+				if !math.IsNaN(got) {
+					t.Fatalf("ParseValue(%q) = %v, want NaN", tt.in, got)
+				}
+			case got != tt.want:
+				t.Fatalf("ParseValue(%q) = %v, want %v", tt.in, got, tt.want)
+			}
+		})
+	}
+}

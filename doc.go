@@ -92,7 +92,7 @@
 // from the closed-form variances of Hyndman & Athanasopoulos, Forecasting:
 // Principles and Practice, 3rd ed., §5.5, with σ̂² = Σe²/(R − K) (R
 // residuals, K estimated parameters). String() gives "Naive",
-// "SeasonalNaive[12]", "Drift" and "Mean".
+// "SeasonalNaive(12)", "Drift" and "Mean".
 //
 // # Box-Cox
 //

@@ -168,7 +168,7 @@ func ExampleRefreshPolicy_Decide() {
 		fmt.Println(d.Reason)
 	}
 	// Output:
-	// refresh: 2 observations added, tracking signal 0.24 within ±0.50
-	// refit: tracking signal 0.85 beyond ±0.50 (the data have run above the forecasts)
+	// refresh: 2 observations added, tracking signal 0.18 within ±0.50
+	// refit: tracking signal 0.79 beyond ±0.50 (the data have run above the forecasts)
 	// refit: 6 observations added since the last estimation (refit after 6)
 }

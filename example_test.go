@@ -58,7 +58,7 @@ func ExampleForecast() {
 		fmt.Printf("%s %.3f [%.3f, %.3f] q90 %.3f\n", fc.Time(h).Format("2006-01"), fc.Mean[h], lo[h], hi[h], q90[h])
 	}
 	// Output:
-	// SeasonalNaive[12]
+	// SeasonalNaive(12)
 	// 2025-01 47.000 [32.224, 61.776] q90 56.661
 	// 2025-02 50.000 [35.224, 64.776] q90 59.661
 	// 2025-03 68.000 [53.224, 82.776] q90 77.661
@@ -239,9 +239,9 @@ func ExampleBoxCox() {
 		fmt.Printf("%s: %.3f [%.3f, %.3f]\n", fit, fc.Mean[0], fc.Intervals[0].Lower[0], fc.Intervals[0].Upper[0])
 	}
 	// Output:
-	// BoxCox[0](SeasonalNaive[12]): 47.000 [39.030, 56.598]
-	// BoxCox[0](SeasonalNaive[12]): 47.211 [39.030, 56.598]
-	// BoxCox[0.1552](SeasonalNaive[12]): 47.000 [38.420, 57.146]
+	// BoxCox[0](SeasonalNaive(12)): 47.000 [39.030, 56.598]
+	// BoxCox[0](SeasonalNaive(12)): 47.211 [39.030, 56.598]
+	// BoxCox[0.1552](SeasonalNaive(12)): 47.000 [38.420, 57.146]
 }
 
 func ExampleNaive() {
@@ -263,7 +263,7 @@ func ExampleNaive() {
 	}
 	// Output:
 	// Naive              h=1  57.000 [ 27.138,  86.862]  h=2  57.000 [ 14.769,  99.231]
-	// SeasonalNaive[12]  h=1  47.000 [ 32.224,  61.776]  h=2  50.000 [ 35.224,  64.776]
+	// SeasonalNaive(12)  h=1  47.000 [ 32.224,  61.776]  h=2  50.000 [ 35.224,  64.776]
 	// Drift              h=1  57.652 [ 26.491,  88.813]  h=2  58.304 [ 13.327, 103.281]
 	// Mean               h=1  78.167 [ 22.594, 133.740]  h=2  78.167 [ 22.594, 133.740]
 }

@@ -273,29 +273,81 @@ func (v StoredValues) MarshalJSON() ([]byte, error) {
 	return append(b, ']'), nil
 }
 
-// appendFloat writes x as encoding/json does (shortest round-trip form).
+// appendFloat writes x exactly as encoding/json writes a float64: the
+// shortest form that reads back to the same bits, in plain notation for
+// magnitudes in [1e-6, 1e21) and exponent notation otherwise, with a
+// one-digit negative exponent written without its leading zero. It
+// allocates nothing (json.Marshal allocates per value, which dominated
+// the cost of saving large documents).
 func appendFloat(b []byte, x float64) []byte {
-	enc, _ := json.Marshal(x) // finite: cannot fail
-	return append(b, enc...)
+	format := byte('f')
+	if a := math.Abs(x); a != 0 && (a < 1e-6 || a >= 1e21) {
+		format = 'e'
+	}
+	b = strconv.AppendFloat(b, x, format, -1, 64)
+	if format == 'e' {
+		// e-07 → e-7, as encoding/json does.
+		if n := len(b); n >= 4 && b[n-4] == 'e' && b[n-3] == '-' && b[n-2] == '0' {
+			b[n-2] = b[n-1]
+			b = b[:n-1]
+		}
+	}
+	return b
 }
 
-// UnmarshalJSON implements json.Unmarshaler: null becomes NaN.
+// UnmarshalJSON implements json.Unmarshaler: null becomes NaN. It accepts
+// exactly what decoding into []*float64 with encoding/json accepts (a
+// JSON array of numbers and nulls; a number beyond the float64 range is
+// an error), without allocating per element.
 func (v *StoredValues) UnmarshalJSON(data []byte) error {
-	var raw []*float64
-	if err := json.Unmarshal(data, &raw); err != nil {
-		return err
+	if !json.Valid(data) {
+		return fmt.Errorf("almanac: stored values: %w", errInvalidJSON)
 	}
-	out := make([]float64, len(raw))
-	for i, p := range raw {
-		if p == nil {
-			out[i] = math.NaN()
+	data = bytes.TrimSpace(data)
+	if string(data) == "null" { // a no-op, as encoding/json's convention asks
+		return nil
+	}
+	if len(data) < 2 || data[0] != '[' || data[len(data)-1] != ']' {
+		return fmt.Errorf("almanac: stored values: %w", errNotNumberArray)
+	}
+	body := bytes.TrimSpace(data[1 : len(data)-1])
+	if len(body) == 0 {
+		*v = StoredValues{}
+		return nil
+	}
+	out := make([]float64, 0, bytes.Count(body, []byte{','})+1)
+	for len(body) > 0 {
+		elem := body
+		if i := bytes.IndexByte(body, ','); i >= 0 {
+			elem, body = body[:i], body[i+1:]
+		} else {
+			body = nil
+		}
+		elem = bytes.TrimSpace(elem)
+		if string(elem) == "null" {
+			out = append(out, math.NaN())
 			continue
 		}
-		out[i] = *p
+		// The document is valid JSON, so an element that starts like a
+		// number is a JSON number; anything else (a string, an object,
+		// an array, true, false) is not a value.
+		if len(elem) == 0 || !(elem[0] == '-' || elem[0] >= '0' && elem[0] <= '9') {
+			return fmt.Errorf("almanac: stored values: %w", errNotNumberArray)
+		}
+		x, err := strconv.ParseFloat(string(elem), 64)
+		if err != nil {
+			return fmt.Errorf("almanac: stored values: %w: %s", errNotNumberArray, err)
+		}
+		out = append(out, x)
 	}
 	*v = out
 	return nil
 }
+
+var (
+	errInvalidJSON    = errors.New("invalid JSON")
+	errNotNumberArray = errors.New("not an array of numbers and nulls within the float64 range")
+)
 
 // StoredSeries is the form of a Series inside a document: key, start
 // (RFC 3339 with its offset; the time zone's name is not kept, so keep

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"slices"
+
+	"github.com/almanac-go/almanac/internal/trigg"
 )
 
 // Refresher is implemented by fitted models that can take new
@@ -102,12 +104,19 @@ const (
 // Trigg's (1964) tracking signal is the ratio of the exponentially
 // smoothed one-step errors to the exponentially smoothed absolute
 // errors, both with weight α (SignalWeight): T = E/M with
-// E_t = α e_t + (1 − α) E_{t−1} and M_t = α |e_t| + (1 − α) M_{t−1}. It
+// E_t = α e_t + (1 − α) E_{t−1} and M_t = α |e_t| + (1 − α) M_{t−1},
+// from E_0 = 0 and M_0 the mean absolute error of the first ⌈1/α⌉
+// errors (common practice), missing errors passed over: the signal of
+// accuracy.TriggSignal, computed by the same code. It
 // lies in [−1, 1] and stays near 0 while the errors have no bias; a
 // value near ±1 says the forecasts have been too low (positive) or too
 // high (negative) for a while, the sign of a model that has drifted
 // from the data. Limits near 0.5 for α = 0.1 are common practice (Trigg
-// 1964 tabulates them; the value is recalled from memory).
+// 1964 tabulates them; the value is recalled from memory). With
+// unbiased, independent normal errors and α = 0.1 the signal passes ±0.5
+// in about 7.6% of periods (simulated in accuracy's TestTriggLimit), a
+// little more often than one in twenty: accuracy.TriggLimit, 0.54, is
+// the 95% limit, checked there by simulation.
 //
 // Source: D. W. Trigg (1964), "Monitoring a forecasting system",
 // Operational Research Quarterly 15, 271–274.
@@ -135,7 +144,8 @@ type RefreshDecision struct {
 	// estimation, as given to Decide.
 	Added int
 	// Signal is the tracking signal at the last observation (NaN when
-	// it was not computed: too few errors, or the rule is off).
+	// it was not computed: too few errors, an infinite error, every
+	// error zero, or the rule is off; Reason says which).
 	Signal float64
 }
 
@@ -174,12 +184,13 @@ func (p RefreshPolicy) Decide(f Fitted, added int) (RefreshDecision, error) {
 		return RefreshDecision{}, fmt.Errorf("almanac: refresh policy: %w: no model", ErrInvalid)
 	}
 	d := RefreshDecision{Added: added, Signal: math.NaN()}
+	why := ""
 	if _, ok := f.(Refresher); !ok {
 		d.Refit, d.Reason = true, fmt.Sprintf("refit: %s cannot take new observations without estimation", f)
 		return d, nil
 	}
 	if limit > 0 {
-		d.Signal = trackingSignal(ResponseResiduals(f), alpha)
+		d.Signal, why = trackingSignal(ResponseResiduals(f), alpha)
 	}
 	switch {
 	case every > 0 && added >= every:
@@ -191,7 +202,7 @@ func (p RefreshPolicy) Decide(f Fitted, added int) (RefreshDecision, error) {
 		}
 		d.Refit, d.Reason = true, fmt.Sprintf("refit: tracking signal %.2f beyond ±%.2f (the data have run %s the forecasts)", d.Signal, limit, dir)
 	case limit > 0 && math.IsNaN(d.Signal):
-		d.Reason = fmt.Sprintf("refresh: %d observations added, too few one-step errors for the tracking signal", added)
+		d.Reason = fmt.Sprintf("refresh: %d observations added, %s", added, why)
 	case limit > 0:
 		d.Reason = fmt.Sprintf("refresh: %d observations added, tracking signal %.2f within ±%.2f", added, d.Signal, limit)
 	default:
@@ -200,28 +211,20 @@ func (p RefreshPolicy) Decide(f Fitted, added int) (RefreshDecision, error) {
 	return d, nil
 }
 
-// trackingSignal returns Trigg's tracking signal E/M (see RefreshPolicy)
-// at the end of the errors e with smoothing weight alpha in (0, 1),
-// skipping NaN. Both sums start at zero (the usual start), so the signal
-// is reported only once at least ⌈1/α⌉ errors have been seen: NaN
-// before, and NaN when every smoothed absolute error is zero or alpha is
-// outside (0, 1).
-func trackingSignal(e []float64, alpha float64) float64 {
-	if !(alpha > 0 && alpha < 1) {
-		return math.NaN()
+// trackingSignal returns Trigg's tracking signal (see RefreshPolicy;
+// computed by internal/trigg, as accuracy.TriggSignal is) at the end of
+// the errors e with smoothing weight alpha, and why there is none: NaN
+// with a reason when fewer than ⌈1/α⌉ errors are observed, an error is
+// infinite, or every error is zero.
+func trackingSignal(e []float64, alpha float64) (float64, string) {
+	s, r := trigg.Signal(e, alpha)
+	switch {
+	case r.Problem == trigg.NonFinite:
+		return math.NaN(), fmt.Sprintf("no tracking signal: one-step error %d is %v", r.Index+1, e[r.Index])
+	case r.Problem == trigg.AllZero:
+		return math.NaN(), "no tracking signal: every one-step error is 0"
+	case r.Problem != trigg.None || float64(r.Observed) < math.Ceil(1/alpha):
+		return math.NaN(), "too few one-step errors for the tracking signal"
 	}
-	var sm, sa float64
-	seen := 0
-	for _, v := range e {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			continue
-		}
-		sm = alpha*v + (1-alpha)*sm
-		sa = alpha*math.Abs(v) + (1-alpha)*sa
-		seen++
-	}
-	if float64(seen) < math.Ceil(1/alpha) || !(sa > 0) || math.IsInf(sa, 0) {
-		return math.NaN()
-	}
-	return sm / sa
+	return s, ""
 }

@@ -86,6 +86,14 @@ func TestRefreshPolicy(t *testing.T) {
 	}
 	drifted := mustFit(t, ewma{Weight: 0.02}, shifted)
 	naive := mustFit(t, almanac.Naive{}, y)
+	constant, short, extreme := y.Clone(), y.Head(9), y.Clone()
+	for i := range constant.Values {
+		constant.Values[i] = 7 // every one-step error 0
+		extreme.Values[i] = math.MaxFloat64 * float64(1-2*(i%2))
+	}
+	perfect := mustFit(t, ewma{Weight: 0.5}, constant)
+	few := mustFit(t, ewma{Weight: 0.5}, short) // 8 one-step errors < ⌈1/0.1⌉
+	overflow := mustFit(t, ewma{Weight: 0.5}, extreme)
 	cases := []struct {
 		name      string
 		policy    almanac.RefreshPolicy
@@ -102,6 +110,9 @@ func TestRefreshPolicy(t *testing.T) {
 		{name: "count rule off", policy: almanac.RefreshPolicy{RefitAfter: -1}, fit: steady, added: 100, reason: "refresh"},
 		{name: "signal beyond the limit", fit: drifted, added: 1, refit: true, reason: "tracking signal"},
 		{name: "signal rule off", policy: almanac.RefreshPolicy{SignalLimit: -1}, fit: drifted, added: 1, reason: "refresh: 1 observations added", signalNaN: true},
+		{name: "every error zero", fit: perfect, added: 1, reason: "refresh: 1 observations added, no tracking signal: every one-step error is 0", signalNaN: true},
+		{name: "too few errors", fit: few, added: 1, reason: "refresh: 1 observations added, too few one-step errors", signalNaN: true},
+		{name: "infinite error", fit: overflow, added: 1, reason: "refresh: 1 observations added, no tracking signal: one-step error 2 is -Inf", signalNaN: true},
 		{name: "model that cannot refresh", fit: naive, added: 0, refit: true, reason: "cannot take new observations", signalNaN: true},
 		{name: "negative count", fit: steady, added: -1, wantErr: almanac.ErrInvalid},
 		{name: "weight 1", policy: almanac.RefreshPolicy{SignalWeight: 1}, fit: steady, wantErr: almanac.ErrInvalid},

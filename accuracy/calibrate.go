@@ -485,17 +485,8 @@ func fitSafely(ctx context.Context, m almanac.Model, y almanac.Series) (f almana
 
 // forecastSafely forecasts from f, turning a panic and a wrong length
 // into errors.
-func forecastSafely(f almanac.Fitted, h int, levels ...float64) (fc almanac.Forecast, err error) {
-	defer func() {
-		if v := recover(); v != nil {
-			fc, err = almanac.Forecast{}, fmt.Errorf("accuracy: calibrated: %w: forecast panicked: %v", almanac.ErrNotFitted, v)
-		}
-	}()
-	fc, err = f.Forecast(h, levels...)
-	if err == nil && len(fc.Mean) != h {
-		err = fmt.Errorf("accuracy: calibrated: %w: %d forecasts for horizon %d", almanac.ErrLength, len(fc.Mean), h)
-	}
-	return fc, err
+func forecastSafely(f almanac.Fitted, h int, levels ...float64) (almanac.Forecast, error) {
+	return guarded(h, func() (almanac.Forecast, error) { return f.Forecast(h, levels...) })
 }
 
 // bandForecaster is implemented by fitted models that can give their
@@ -506,20 +497,26 @@ type bandForecaster interface {
 
 // bandForecast forecasts from f for the calibration, which needs points
 // and bands but no sample paths.
-func bandForecast(f almanac.Fitted, h int, levels ...float64) (fc almanac.Forecast, err error) {
+func bandForecast(f almanac.Fitted, h int, levels ...float64) (almanac.Forecast, error) {
 	if b, ok := f.(bandForecaster); ok {
-		defer func() {
-			if v := recover(); v != nil {
-				fc, err = almanac.Forecast{}, fmt.Errorf("accuracy: calibrated: %w: forecast panicked: %v", almanac.ErrNotFitted, v)
-			}
-		}()
-		fc, err = b.ForecastQuantiles(h, levels...)
-		if err == nil && len(fc.Mean) != h {
-			err = fmt.Errorf("accuracy: calibrated: %w: %d forecasts for horizon %d", almanac.ErrLength, len(fc.Mean), h)
-		}
-		return fc, err
+		return guarded(h, func() (almanac.Forecast, error) { return b.ForecastQuantiles(h, levels...) })
 	}
 	return forecastSafely(f, h, levels...)
+}
+
+// guarded calls forecast, turning a panic and a forecast of another
+// length than h into errors.
+func guarded(h int, forecast func() (almanac.Forecast, error)) (fc almanac.Forecast, err error) {
+	defer func() {
+		if v := recover(); v != nil {
+			fc, err = almanac.Forecast{}, fmt.Errorf("accuracy: calibrated: %w: forecast panicked: %v", almanac.ErrNotFitted, v)
+		}
+	}()
+	fc, err = forecast()
+	if err == nil && len(fc.Mean) != h {
+		err = fmt.Errorf("accuracy: calibrated: %w: %d forecasts for horizon %d", almanac.ErrLength, len(fc.Mean), h)
+	}
+	return fc, err
 }
 
 // extendFit brings fit, fitted to y[:from], forward to y[:to] without
@@ -577,23 +574,32 @@ func extendFit(ctx context.Context, fit almanac.Fitted, y almanac.Series, from, 
 	return nil, false
 }
 
-// trajectories returns the error trajectories the bands rest on and
-// where they come from.
-func (f *CalibratedFit) trajectories() ([][]float64, BandSource) {
-	usePool := f.pooled != nil && (f.spec.Pooling == PoolAlways ||
-		f.spec.Pooling == PoolWhenFew && len(f.own) < f.spec.MinErrors)
-	switch {
-	case usePool && len(f.pooled) >= f.spec.MinErrors:
-		return f.pooled, BandsFromPooledErrors
-	case !usePool && len(f.own) >= f.spec.MinErrors:
-		return f.own, BandsFromOwnErrors
+// trajectories returns the error trajectories the bands rest on (nil
+// when the bands are the model's own): the fit's own or the pooled
+// ones, as Status().Source says.
+func (f *CalibratedFit) trajectories() [][]float64 {
+	switch f.status.Source {
+	case BandsFromOwnErrors:
+		return f.own
+	case BandsFromPooledErrors:
+		return f.pooled
 	}
-	return nil, BandsFromModel
+	return nil
 }
 
+// source decides where the bands come from, by the Pooling rule, from
+// the number of own trajectories and the size of the pool
+// (status.Pooled, which PoolCalibration sets).
 func (f *CalibratedFit) source() BandSource {
-	_, s := f.trajectories()
-	return s
+	usePool := f.status.Pooled > 0 && (f.spec.Pooling == PoolAlways ||
+		f.spec.Pooling == PoolWhenFew && len(f.own) < f.spec.MinErrors)
+	switch {
+	case usePool && f.status.Pooled >= f.spec.MinErrors:
+		return BandsFromPooledErrors
+	case !usePool && len(f.own) >= f.spec.MinErrors:
+		return BandsFromOwnErrors
+	}
+	return BandsFromModel
 }
 
 // Inner returns the wrapped fitted model.
@@ -693,8 +699,8 @@ func (f *CalibratedFit) Forecast(h int, levels ...float64) (almanac.Forecast, er
 	if err := almanac.CheckLevels(levels...); err != nil {
 		return almanac.Forecast{}, err
 	}
-	traj, src := f.trajectories()
-	if src == BandsFromModel {
+	traj := f.trajectories()
+	if traj == nil {
 		if f.spec.Strict {
 			return almanac.Forecast{}, f.uncalibrated()
 		}
@@ -756,7 +762,7 @@ func (f *CalibratedFit) pick(m int) []int {
 }
 
 func (f *CalibratedFit) uncalibrated() error {
-	return fmt.Errorf("accuracy: calibrated: %s: %w: %d own and %d pooled trajectories, need %d", f.inner, ErrUncalibrated, len(f.own), len(f.pooled), f.spec.MinErrors)
+	return fmt.Errorf("accuracy: calibrated: %s: %w: %d own and %d pooled trajectories, need %d", f.inner, ErrUncalibrated, len(f.own), f.status.Pooled, f.spec.MinErrors)
 }
 
 // censored returns fc with its points, bands and sample paths set to
@@ -794,14 +800,17 @@ func censored(fc almanac.Forecast) almanac.Forecast {
 }
 
 // Simulate implements almanac.Simulator: n paths ŷ_h + s_h·z_{j,h}, each
-// from a trajectory j drawn at random (with replacement) with src, so
-// that the same src state gives the same paths.
+// from a trajectory j drawn at random (with replacement) with src among
+// those behind Forecast's paths (all of them, or the seeded subsample of
+// Paths when there are more), so that the same src state gives the same
+// paths.
 //
 // Special cases: h < 1 gives an error wrapping almanac.ErrHorizon; n < 1
 // or a nil src one wrapping almanac.ErrInvalid; with too few
 // trajectories the inner model's Simulate (censored at zero with
 // NonNegative; an error wrapping almanac.ErrNoDistribution when it has
-// none), or with Strict an error wrapping ErrUncalibrated.
+// none), or with Strict an error wrapping ErrUncalibrated; a path value
+// beyond the float64 range one wrapping almanac.ErrNonFinite.
 func (f *CalibratedFit) Simulate(h, n int, src rand.Source) ([][]float64, error) {
 	if err := almanac.CheckHorizon(h); err != nil {
 		return nil, err
@@ -809,8 +818,8 @@ func (f *CalibratedFit) Simulate(h, n int, src rand.Source) ([][]float64, error)
 	if n < 1 || src == nil {
 		return nil, fmt.Errorf("accuracy: calibrated: %w: need n ≥ 1 paths and a random source, have n = %d", almanac.ErrInvalid, n)
 	}
-	traj, from := f.trajectories()
-	if from == BandsFromModel {
+	traj := f.trajectories()
+	if traj == nil {
 		if f.spec.Strict {
 			return nil, f.uncalibrated()
 		}
@@ -832,11 +841,17 @@ func (f *CalibratedFit) Simulate(h, n int, src rand.Source) ([][]float64, error)
 	if err != nil {
 		return nil, err
 	}
+	pick := f.pick(len(traj))
 	rng := rand.New(src)
 	paths := make([][]float64, n)
 	for i := range paths {
 		paths[i] = make([]float64, h)
-		f.path(paths[i], fc.Mean, sc, traj[rng.IntN(len(traj))])
+		f.path(paths[i], fc.Mean, sc, traj[pick[rng.IntN(len(pick))]])
+		for s, v := range paths[i] {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return nil, fmt.Errorf("accuracy: calibrated: %w: sample path value %v at step %d", almanac.ErrNonFinite, v, s+1)
+			}
+		}
 	}
 	return paths, nil
 }

@@ -1,6 +1,7 @@
 package accuracy_test
 
 import (
+	"bytes"
 	"context"
 	"fmt"
 	"math"
@@ -9,6 +10,7 @@ import (
 	"github.com/almanac-go/almanac"
 	"github.com/almanac-go/almanac/accuracy"
 	"github.com/almanac-go/almanac/calendar"
+	"github.com/almanac-go/almanac/smoothing"
 )
 
 // Calibrated bands for a small catalogue: quarterly sales of 30 invented
@@ -70,4 +72,51 @@ func ExampleCalibrated() {
 	// 2025-07 261.387  calibrated [255.171, 263.415]  model's own [256.896, 265.877]
 	// 2025-10 262.848  calibrated [256.578, 262.261]  model's own [257.602, 268.095]
 	// year's total: 90% quantile 1046.248
+}
+
+// A calibrated fit saved at the end of a nightly run, loaded the next day
+// and refreshed with the quarter that has come in: the inner ETS model takes
+// the new value without re-estimation, and the bands keep the errors
+// measured at the fit (calibrate again, with Fit, when a refit is due).
+// The store's data are invented.
+func ExampleCalibratedFit_Refresh() {
+	v := make([]float64, 41)
+	for i := range v {
+		t := float64(i)
+		v[i] = 150 + 2*t + 4*math.Sin(1.1*t)
+	}
+	y := almanac.Series{Key: "store 07", Start: time.Date(2016, 1, 1, 0, 0, 0, 0, time.UTC), Freq: calendar.Quarterly, Values: v[:40]}
+	fit, err := accuracy.Calibrated{Model: smoothing.Spec{Trend: smoothing.AdditiveTrend}, Horizon: 4, Origins: 12, MinTrain: 12, MinErrors: 10}.Fit(context.Background(), y)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	var doc bytes.Buffer
+	if err := almanac.SaveModel(&doc, fit); err != nil {
+		fmt.Println(err)
+		return
+	}
+	loaded, err := almanac.LoadModel(&doc)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fresh, err := almanac.Refresh(loaded, v[40:])
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fc, err := fresh.Forecast(2, 80)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(fresh, fresh.(*accuracy.CalibratedFit).Status().Source)
+	for h := range 2 {
+		fmt.Printf("%s %.3f [%.3f, %.3f]\n", fc.Time(h).Format("2006-01"), fc.Mean[h], fc.Intervals[0].Lower[h], fc.Intervals[0].Upper[h])
+	}
+	// Output:
+	// calibrated(ETS(A,A,N)) own errors
+	// 2026-04 231.470 [227.917, 235.429]
+	// 2026-07 233.446 [229.910, 237.415]
 }

@@ -186,7 +186,15 @@
 // # Persistence
 //
 // A Naive2Fit is an almanac.Storable of kind "accuracy.naive2" (the
-// period and the data; fitting again is exact).
+// period and the data; fitting again is exact). A CalibratedFit is one of
+// kind "accuracy.calibrated": the inner model as a nested document, its
+// own scaled error trajectories, the pooled trajectories its bands are
+// drawn from when they come from a pool (at most Paths of them, not the
+// whole pool), the counts of its status and the options that shape its
+// forecasts; it loads bit-identically (points, bands, Simulate) and
+// measures nothing again. It refreshes through its inner model
+// (almanac.Refresh) and keeps the calibration as measured at the fit:
+// new observations add no errors until it is calibrated again.
 //
 // # Concurrency
 //
@@ -238,6 +246,10 @@
 // Re-estimating at every origin instead of rolling forward improved the
 // calibrated damped trend's 80% MSIS from 7.90 to 7.54 (measured with an
 // earlier 8-observation minimum training window) at ten times the cost.
+// A saved calibrated fit drawing from a pool above Paths holds the 2000
+// trajectories drawn: 693 kB for 18 steps, about 30 ms to save and 40 to
+// 120 ms to load (BenchmarkSavedCalibrated, wall time on the loaded
+// machine; most of it the JSON numbers).
 //
 // # References
 //

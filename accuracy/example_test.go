@@ -241,6 +241,6 @@ func ExampleNaive2() {
 	owa, _ := accuracy.OWA(smape, mase, smape2, mase2)
 	fmt.Printf("seasonal naive OWA against Naive2: %.3f\n", owa)
 	// Output:
-	// Naive2[12]: first forecasts 511.859 499.021 514.762
+	// Naive2(12): first forecasts 511.859 499.021 514.762
 	// seasonal naive OWA against Naive2: 2.236
 }

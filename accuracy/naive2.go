@@ -146,11 +146,11 @@ func (f *Naive2Fit) Seasonal() bool { return f.seasonal }
 // seasonally adjusted.
 func (f *Naive2Fit) Indices() []float64 { return append([]float64(nil), f.figure...) }
 
-// String returns "Naive2[m]" when the series was seasonally adjusted with
+// String returns "Naive2(m)" when the series was seasonally adjusted with
 // period m and "Naive2" otherwise.
 func (f *Naive2Fit) String() string {
 	if f.seasonal {
-		return fmt.Sprintf("Naive2[%d]", f.period)
+		return fmt.Sprintf("Naive2(%d)", f.period)
 	}
 	return "Naive2"
 }

@@ -78,7 +78,7 @@ func TestNaive2SeasonalityTest(t *testing.T) {
 	}
 	// AirPassengers is the textbook seasonal series: the test must find it.
 	fit, _ := accuracy.Naive2{}.Fit(context.Background(), airPassengers(t))
-	if !fit.(*accuracy.Naive2Fit).Seasonal() || fit.String() != "Naive2[12]" {
+	if !fit.(*accuracy.Naive2Fit).Seasonal() || fit.String() != "Naive2(12)" {
 		t.Errorf("AirPassengers: %s, seasonal %v", fit, fit.(*accuracy.Naive2Fit).Seasonal())
 	}
 }

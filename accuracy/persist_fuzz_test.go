@@ -40,6 +40,7 @@ func FuzzLoadModel(f *testing.F) {
 		{decompose.Forecaster{Model: almanac.Drift{}}, complete},
 		{accuracy.Naive2{}, complete},
 		{almanac.Combination{Members: []almanac.Model{almanac.Naive{}, smoothing.Spec{}}, Paths: 20}, complete},
+		{accuracy.Calibrated{Model: smoothing.Spec{}, Horizon: 3, Origins: 6, MinErrors: 4, Paths: 5}, complete},
 	}
 	for _, tc := range models {
 		fit, err := tc.m.Fit(context.Background(), tc.y)

@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/almanac-go/almanac"
+	"github.com/almanac-go/almanac/internal/trigg"
 )
 
 // TriggAlpha is the smoothing constant of Trigg's tracking signal that
@@ -33,50 +34,25 @@ const TriggLimit = 0.54
 // the recent forecasts were persistently too low, near −1 persistently
 // too high. Compare |T| with TriggLimit when alpha is TriggAlpha. A NaN
 // error (a missing observation) is passed over: the smoothed values
-// carry on unchanged.
+// carry on unchanged. almanac.RefreshPolicy computes the same signal for
+// its refit rule (one implementation serves both).
 //
 // Special cases: alpha outside (0, 1) or NaN wraps almanac.ErrInvalid; no
 // errors almanac.ErrEmpty; ±Inf almanac.ErrNonFinite; every error NaN
 // almanac.ErrAllMissing; every error 0 ErrUndefined (0/0).
 func TriggSignal(errs []float64, alpha float64) (float64, error) {
-	if !(alpha > 0 && alpha < 1) {
+	s, r := trigg.Signal(errs, alpha)
+	switch r.Problem {
+	case trigg.BadAlpha:
 		return math.NaN(), fmt.Errorf("accuracy: Trigg signal: %w: smoothing constant %v outside (0, 1)", almanac.ErrInvalid, alpha)
-	}
-	if len(errs) == 0 {
+	case trigg.Empty:
 		return math.NaN(), fmt.Errorf("accuracy: Trigg signal: %w: no errors", almanac.ErrEmpty)
-	}
-	// The start of M: the mean absolute error of the first ⌈1/α⌉
-	// observed errors.
-	warm := int(math.Min(math.Ceil(1/alpha), float64(len(errs))))
-	var sumAbs float64
-	n := 0
-	for i, e := range errs {
-		if math.IsInf(e, 0) {
-			return math.NaN(), fmt.Errorf("accuracy: Trigg signal: %w: error %v at index %d", almanac.ErrNonFinite, e, i)
-		}
-		if math.IsNaN(e) || n == warm {
-			continue
-		}
-		// Divided as it goes, so that errors near the float64 limit
-		// cannot overflow the sum.
-		sumAbs += math.Abs(e) / float64(warm)
-		n++
-	}
-	if n == 0 {
+	case trigg.NonFinite:
+		return math.NaN(), fmt.Errorf("accuracy: Trigg signal: %w: error %v at index %d", almanac.ErrNonFinite, errs[r.Index], r.Index)
+	case trigg.AllMissing:
 		return math.NaN(), fmt.Errorf("accuracy: Trigg signal: %w: every error is missing", almanac.ErrAllMissing)
-	}
-	// Both recursions are convex combinations, so neither can overflow.
-	e, m := 0.0, sumAbs/float64(n)*float64(warm)
-	for _, x := range errs {
-		if math.IsNaN(x) {
-			continue
-		}
-		e = alpha*x + (1-alpha)*e
-		m = alpha*math.Abs(x) + (1-alpha)*m
-	}
-	if m == 0 {
+	case trigg.AllZero:
 		return math.NaN(), fmt.Errorf("accuracy: Trigg signal: %w: every error is 0", ErrUndefined)
 	}
-	// |e| ≤ m up to rounding; keep the result in [−1, 1].
-	return math.Max(-1, math.Min(1, e/m)), nil
+	return s, nil
 }

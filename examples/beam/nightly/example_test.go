@@ -60,13 +60,13 @@ func ExampleBuild() {
 	}
 	// Output:
 	// series role state model
-	// N01 aggregate reconciled SeasonalNaive[12]
-	// N01-GDN-01 input reconciled SeasonalNaive[12]
-	// N01-GDN-02 input reconciled SeasonalNaive[12]
-	// N01-PNT-01 input reconciled SeasonalNaive[12]
-	// N01-PNT-02 input reconciled SeasonalNaive[12]
-	// N01/GDN aggregate reconciled SeasonalNaive[12]
-	// N01/PNT aggregate reconciled SeasonalNaive[12]
+	// N01 aggregate reconciled SeasonalNaive(12)
+	// N01-GDN-01 input reconciled SeasonalNaive(12)
+	// N01-GDN-02 input reconciled SeasonalNaive(12)
+	// N01-PNT-01 input reconciled SeasonalNaive(12)
+	// N01-PNT-02 input reconciled SeasonalNaive(12)
+	// N01/GDN aggregate reconciled SeasonalNaive(12)
+	// N01/PNT aggregate reconciled SeasonalNaive(12)
 }
 
 // Aggregate builds a store's hierarchy from its product lines and sums
