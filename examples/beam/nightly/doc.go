@@ -149,8 +149,9 @@
 // The flat pipeline costs about as much CPU as BatchFit (87 against 82
 // CPU s for 2,000 series: Beam's reading, shuffles, coders and writing
 // are small beside Pilot's fitting, about 40 CPU ms a series); its wall
-// time was measured under heavier load than BatchFit's. Reconciliation
-// adds the aggregates' fits and about 2.5 CPU s per store of 111 nodes
+// time was measured under heavier load than BatchFit's (load average 12
+// to 18 against about 5). Reconciliation adds 45 CPU s for 20 stores,
+// about 2.3 per store of 111 nodes: the 11 aggregates' fits and MinT
 // with 1000 joint paths; the local runner reconciles one hierarchy at a
 // time. With smoothing.Select (-model select), before the ETS speed-up
 // on main, the same 2,000 series took 31–36 CPU s by BatchFit, 46 on the
