@@ -53,11 +53,12 @@ var (
 	method      = flag.String("reconcile", nightly.ReconcileMinT, "reconciliation: mint, mint-sample, wls, structural, ols, bottom-up or none")
 	nonNegative = flag.Bool("nonnegative", true, "keep reconciled bottom-level forecasts at or above zero")
 	paths       = flag.Int("paths", 0, "joint sample paths per hierarchy (0: the library's default, 1000)")
-	seed        = flag.Uint64("seed", 1, "seed of the reconciliation's random streams (and of -generate)")
+	seed        = flag.Uint64("seed", 1, "seed of the random streams behind the bands and the reconciliation (and of -generate)")
+	ownErrors   = flag.Bool("own-errors", false, "calibrate each series' bands on its own errors only (default: pool the errors of each hierarchy or bucket)")
 	fillGaps    = flag.Bool("fill-gaps", false, "fill missing periods inside a series with missing values instead of failing it")
 	shards      = flag.Int("shards", 4, "files per output")
 	workers     = flag.Int("fit-workers", 0, "goroutines fitting the series of one group (0: GOMAXPROCS)")
-	buckets     = flag.Int("buckets", 256, "groups the series outside any hierarchy are dealt into")
+	buckets     = flag.Int("buckets", nightly.DefaultBuckets, "groups the series outside any hierarchy are dealt into")
 	generate    = flag.Int("generate", 0, "first write an invented catalogue of about this many series to WORK and run on it")
 	work        = flag.String("work", "", "directory for the generated catalogue (with -generate)")
 )
@@ -76,7 +77,7 @@ func run(ctx context.Context) error {
 		Input: *input, Hierarchy: *hierarchy, Output: *output,
 		Model: *model, Horizon: *horizon, Backtest: *backtest,
 		Reconcile: *method, NonNegative: *nonNegative, Paths: *paths, Seed: *seed,
-		FillGaps: *fillGaps, Shards: *shards, Workers: *workers, Buckets: *buckets,
+		OwnErrors: *ownErrors, FillGaps: *fillGaps, Shards: *shards, Workers: *workers, Buckets: *buckets,
 	}
 	for _, f := range strings.Split(*levels, ",") {
 		if f = strings.TrimSpace(f); f == "" {

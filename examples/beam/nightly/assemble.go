@@ -34,7 +34,7 @@ const (
 	ReasonForecast     = "forecast-failed"    // fitted, but the forecast failed
 	ReasonBacktest     = "backtest-failed"    // the backtest could not be run (the forecast stands)
 	ReasonReconcile    = "reconcile-failed"   // the hierarchy could not be reconciled (base forecasts stand)
-	ReasonAggregate    = "aggregate-failed"   // an aggregate of the hierarchy failed, so it was not reconciled
+	ReasonAggregate    = "aggregate-failed"   // a node of the hierarchy (an aggregate, or a series whose forecast failed) has no forecast, so it was not reconciled
 	ReasonReconcileOff = "not-reconciled"     // reconciliation switched off (Options.Reconcile "none")
 	ReasonNoMembers    = "no-members"         // an aggregate none of whose series could be forecast
 )
@@ -133,12 +133,19 @@ func root(within string) string {
 	return r
 }
 
+// BucketOf returns the bucket (0 to buckets-1) a series outside any
+// hierarchy is fitted in, its calibration errors pooled with those of the
+// other series in the bucket: a hash (FNV-1a) of its key modulo buckets.
+// It depends on nothing else, so a program can reproduce the pipeline's
+// groups.
+func BucketOf(key string, buckets int) int { return shardOf(key, buckets) }
+
 // groupOf is the key that brings the series of one hierarchy together;
 // series outside any hierarchy are dealt into buckets by key (so that a
 // worker fits a batch of them at once, on all its cores).
 func groupOf(key, within string, buckets int) string {
 	if within == "" {
-		return fmt.Sprintf("series\x00%d", shardOf(key, buckets))
+		return fmt.Sprintf("series\x00%d", BucketOf(key, buckets))
 	}
 	return "tree\x00" + root(within)
 }

@@ -46,8 +46,9 @@ func report(b *testing.B, series int, cpu0 float64) {
 
 // BenchmarkPipeline runs the whole pipeline on Beam's in-process prism
 // runner: reading the CSV files, assembling, forecasting 12 months with
-// 80% and 95% bands by automatic exponential smoothing (smoothing.Select),
-// and writing the outputs. "flat" forecasts every series on its own (no
+// 80% and 95% bands by the default model (the automatic forecaster
+// accuracy.Pilot, its calibration errors pooled per group), and writing
+// the outputs. "flat" forecasts every series on its own (no
 // hierarchy file: the work BenchmarkBatchFit does); "reconciled" adds the
 // store / department hierarchy: the aggregates are forecast too and each
 // store is reconciled (MinT, 1000 joint sample paths).
@@ -84,8 +85,8 @@ func BenchmarkPipeline(b *testing.B) {
 
 // BenchmarkBatchFit does the flat pipeline's work with the library alone,
 // on the same catalogue: almanac.ReadCSV on each data file,
-// almanac.BatchFit with smoothing.Select on GOMAXPROCS workers,
-// almanac.ForecastAll (12 months, 80% and 95%) and
+// almanac.BatchFit with the default model (accuracy.Pilot) on GOMAXPROCS
+// workers, accuracy.PoolPilots over the whole catalogue, almanac.ForecastAll (12 months, 80% and 95%) and
 // almanac.WriteForecastCSV.
 func BenchmarkBatchFit(b *testing.B) {
 	dir, n := benchCatalogue(b)
@@ -109,12 +110,17 @@ func BenchmarkBatchFit(b *testing.B) {
 			}
 			ys = append(ys, got...)
 		}
-		m, err := nightly.NewModel("")
+		m, err := nightly.NewModel("", 0)
 		if err != nil {
 			b.Fatal(err)
 		}
 		res, err := almanac.BatchFit(context.Background(), m, ys, almanac.BatchOptions{})
 		if err != nil {
+			b.Fatal(err)
+		}
+		// The README's first program: pool the calibration errors of the
+		// whole catalogue.
+		if res, err = nightly.PoolFits(res, false); err != nil {
 			b.Fatal(err)
 		}
 		out, err := os.Create(filepath.Join(dir, "batch-forecasts.csv"))

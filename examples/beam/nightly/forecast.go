@@ -28,13 +28,14 @@ type forecastFn struct {
 	Paths       int
 	Seed        uint64
 	Workers     int
+	OwnErrors   bool // calibrate each series on its own errors (no pooling)
 
 	model almanac.Model
 }
 
 // Setup builds the model from its name.
 func (f *forecastFn) Setup() error {
-	m, err := NewModel(f.Model)
+	m, err := NewModel(f.Model, f.Seed)
 	f.model = m
 	return err
 }
@@ -74,13 +75,14 @@ func (f *forecastFn) fitAll(ctx context.Context, ys []almanac.Series) []almanac.
 }
 
 // lone forecasts series outside any hierarchy (a bucket of them, fitted
-// together on Workers goroutines).
+// together on Workers goroutines, their calibration errors pooled in key
+// order).
 func (f *forecastFn) lone(ctx context.Context, recs []SeriesRec, out func(Record)) {
 	ys := make([]almanac.Series, len(recs))
 	for i, r := range recs {
 		ys[i] = r.series()
 	}
-	res := f.fitAll(ctx, ys)
+	res := f.pool(f.fitAll(ctx, ys))
 	for i, y := range ys {
 		st := status{key: y.Key, role: RoleInput, state: StateFailed, obs: len(y.Values)}
 		if res[i].Err != nil {
@@ -88,7 +90,7 @@ func (f *forecastFn) lone(ctx context.Context, recs []SeriesRec, out func(Record
 			st.report(ctx, out)
 			continue
 		}
-		st.model = res[i].Fitted.String()
+		st.model, st.bands = res[i].Fitted.String(), bandsOf(res[i].Fitted)
 		fc, err := res[i].Fitted.Forecast(f.Horizon, f.Levels...)
 		if err != nil {
 			st.reason, st.detail = ReasonForecast, err.Error()
@@ -101,6 +103,43 @@ func (f *forecastFn) lone(ctx context.Context, recs []SeriesRec, out func(Record
 		f.backtest(ctx, y, out)
 	}
 }
+
+// pool pools the calibration errors of one group's fits (PoolFits). It
+// cannot fail (no group labels are given); should it, the fits keep their
+// own errors.
+func (f *forecastFn) pool(res []almanac.BatchResult) []almanac.BatchResult {
+	pooled, err := PoolFits(res, f.OwnErrors)
+	if err != nil {
+		return res
+	}
+	return pooled
+}
+
+// bandsOf says where the bands of a fit come from, for the status file:
+// "pooled errors (N)" or "own errors (N)" for an accuracy.Pilot fit whose
+// bands are calibrated on N out-of-sample error trajectories, "model" for
+// the model's own bands.
+func bandsOf(f almanac.Fitted) string {
+	pf, ok := f.(*accuracy.PilotFit)
+	if !ok {
+		return BandsModel
+	}
+	rep := pf.Report()
+	if !rep.Calibrated {
+		return BandsModel
+	}
+	switch c := rep.Calibration; c.Source {
+	case accuracy.BandsFromPooledErrors:
+		return fmt.Sprintf("pooled errors (%d)", c.Pooled)
+	case accuracy.BandsFromOwnErrors:
+		return fmt.Sprintf("own errors (%d)", c.Own)
+	}
+	return BandsModel
+}
+
+// BandsModel is the status file's bands entry of a forecast whose bands
+// are the model's own (not calibrated on out-of-sample errors).
+const BandsModel = "model"
 
 // reasonOf classifies a fitting error.
 func reasonOf(err error) string {
@@ -233,52 +272,35 @@ func (f *forecastFn) tree(ctx context.Context, rootName string, recs []SeriesRec
 		bottoms = append(bottoms, r)
 	}
 
-	// Bottom series: fit and forecast.
+	// Bottom series: fit.
 	ys := make([]almanac.Series, len(bottoms))
 	for i, r := range bottoms {
 		ys[i] = r.series()
 	}
 	res := f.fitAll(ctx, ys)
 	fits := map[string]almanac.Fitted{}
-	var ok []SeriesRec
-	var okStat []status
+	var fitted []SeriesRec
 	for i, r := range bottoms {
-		st := stat(r)
 		if res[i].Err != nil {
+			st := stat(r)
 			st.reason, st.detail = reasonOf(res[i].Err), res[i].Err.Error()
 			st.report(ctx, out)
 			left[r.Key] = st.reason
 			continue
 		}
-		st.model = res[i].Fitted.String()
-		fc, err := res[i].Fitted.Forecast(f.Horizon, f.Levels...)
-		if err != nil {
-			st.reason, st.detail = ReasonForecast, err.Error()
-			st.report(ctx, out)
-			left[r.Key] = st.reason
-			continue
-		}
-		f.emitForecast(r.Key, KindBase, fc, out)
-		st.state = StateForecast
 		fits[r.Key] = res[i].Fitted
-		ok = append(ok, r)
-		okStat = append(okStat, st)
+		fitted = append(fitted, r)
 	}
 
-	// The hierarchy of the series forecast, and its aggregates.
+	// The hierarchy of the series fitted, and its aggregates.
 	var h *reconcile.Hierarchy
 	var aggSeries []almanac.Series
-	var err error
-	if len(ok) > 0 {
-		h, aggSeries, err = Aggregate(seriesOf(ok))
-	}
-	if err != nil { // cannot happen: the paths were checked when read
-		for _, st := range okStat {
-			st.state, st.reason, st.detail = StateForecast, ReasonReconcile, err.Error()
-			st.report(ctx, out)
+	treeErr, aggErr := "", ""
+	if len(fitted) > 0 {
+		var err error
+		if h, aggSeries, err = Aggregate(seriesOf(fitted)); err != nil { // cannot happen: the paths were checked when read
+			h, aggSeries, aggErr = nil, nil, err.Error()
 		}
-		out(deadRecord(SourceTree, 0, rootName, ReasonReconcile, err.Error()))
-		return
 	}
 	aggNames := slices.Sorted(func(yield func(string) bool) {
 		for a := range aggs {
@@ -292,15 +314,61 @@ func (f *forecastFn) tree(ctx context.Context, rootName string, recs []SeriesRec
 		built[a.Key] = i
 	}
 	for _, a := range aggNames {
-		if _, ok := built[a]; !ok {
+		if _, ok := built[a]; !ok && aggErr == "" {
 			st := status{key: a, role: RoleAggregate, tree: rootName, state: StateSkipped, reason: ReasonNoMembers,
 				detail: "none of the series under it could be forecast: " + leftOut(a, recs, left)}
 			st.report(ctx, out)
 		}
 	}
 	aggRes := f.fitAll(ctx, aggSeries)
+
+	// Pool the calibration errors of every node fitted, in the
+	// hierarchy's node order.
+	if h != nil {
+		names := h.Names()
+		nodes := make([]almanac.BatchResult, len(names))
+		for i, n := range names {
+			if i < len(aggRes) {
+				nodes[i] = aggRes[i]
+			} else {
+				nodes[i] = almanac.BatchResult{Key: n, Fitted: fits[n]}
+			}
+		}
+		nodes = f.pool(nodes)
+		for i, n := range names {
+			if i < len(aggRes) {
+				aggRes[i] = nodes[i]
+			} else {
+				fits[n] = nodes[i].Fitted
+			}
+		}
+	}
+
+	// Forecast the bottom series. One whose forecast fails is already in
+	// its aggregates' sums, so the hierarchy is not reconciled.
+	var ok []SeriesRec
+	var okStat []status
+	for _, r := range fitted {
+		st := stat(r)
+		st.model, st.bands = fits[r.Key].String(), bandsOf(fits[r.Key])
+		fc, err := fits[r.Key].Forecast(f.Horizon, f.Levels...)
+		if err != nil {
+			st.reason, st.detail = ReasonForecast, err.Error()
+			st.report(ctx, out)
+			delete(fits, r.Key)
+			if treeErr == "" {
+				treeErr = fmt.Sprintf("series %q: %s", r.Key, st.reason)
+			}
+			continue
+		}
+		f.emitForecast(r.Key, KindBase, fc, out)
+		st.state = StateForecast
+		ok = append(ok, r)
+		okStat = append(okStat, st)
+	}
+
+	// Forecast the aggregates.
 	var aggStat []status
-	treeErr := ""
 	for i, a := range aggSeries {
 		st := status{key: a.Key, role: RoleAggregate, tree: rootName, state: StateFailed, obs: len(a.Values)}
 		if l := leftOut(a.Key, recs, left); l != "" {
@@ -309,7 +377,7 @@ func (f *forecastFn) tree(ctx context.Context, rootName string, recs []SeriesRec
 		if aggRes[i].Err != nil {
 			st.reason, st.detail = reasonOf(aggRes[i].Err), joinDetail(aggRes[i].Err.Error(), st.detail)
 		} else {
-			st.model = aggRes[i].Fitted.String()
+			st.model, st.bands = aggRes[i].Fitted.String(), bandsOf(aggRes[i].Fitted)
 			if fc, err := aggRes[i].Fitted.Forecast(f.Horizon, f.Levels...); err != nil {
 				st.reason, st.detail = ReasonForecast, joinDetail(err.Error(), st.detail)
 			} else {
@@ -328,6 +396,8 @@ func (f *forecastFn) tree(ctx context.Context, rootName string, recs []SeriesRec
 	reason, detail := "", ""
 	switch {
 	case len(ok) == 0:
+	case aggErr != "":
+		reason, detail = ReasonReconcile, aggErr
 	case f.Reconcile == ReconcileNone:
 		reason, detail = ReasonReconcileOff, "reconciliation switched off"
 	case treeErr != "":

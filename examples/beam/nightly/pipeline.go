@@ -45,8 +45,16 @@ type Options struct {
 	// Paths is the number of joint sample paths per hierarchy behind the
 	// reconciled bands; 0 means the library's default (1000).
 	Paths int
-	// Seed seeds the reconciliation's random streams.
+	// Seed seeds the reconciliation's random streams and the sample
+	// paths behind the automatic forecaster's bands.
 	Seed uint64
+	// OwnErrors calibrates the automatic forecaster's bands on each
+	// series' own out-of-sample errors only. By default the errors of
+	// all the series of one group (a hierarchy, or a bucket of series
+	// outside any) are pooled (accuracy.PoolPilots) before forecasting,
+	// as a program fitting a catalogue with almanac.BatchFit pools them
+	// across the catalogue; see the package documentation.
+	OwnErrors bool
 	// FillGaps fills periods missing inside a series with missing values
 	// (NaN) instead of failing the series.
 	FillGaps bool
@@ -58,15 +66,25 @@ type Options struct {
 	Workers int
 	// Buckets is the number of groups the series outside any hierarchy
 	// are dealt into (by a hash of their key), each fitted as one batch
-	// on one worker; 0 means 256. More buckets spread a flat catalogue
-	// over more workers of a cluster; fewer give each worker larger
-	// batches.
+	// on one worker, its calibration errors pooled (see OwnErrors); 0
+	// means DefaultBuckets. More buckets spread a flat catalogue over
+	// more workers of a cluster; fewer give each worker larger batches
+	// and larger pools of errors (a bucket of 60-month monthly series
+	// needs about 20 series for calibrated bands).
+	//
+	// Which bucket a series falls in depends only on its key, so its
+	// forecast does not depend on the runner or the number of workers;
+	// it does depend, through the pooled errors, on the other series in
+	// its bucket.
 	Buckets int
 
 	// Column names; "" means the defaults: "series", "period", "value"
 	// (almanac's long format) and "within".
 	KeyColumn, PeriodColumn, ValueColumn, WithinColumn string
 }
+
+// DefaultBuckets is the number of buckets when Options.Buckets is 0.
+const DefaultBuckets = 64
 
 // DefaultWithinColumn is the default name of the hierarchy file's path
 // column.
@@ -78,7 +96,7 @@ func (o Options) Resolve() (Options, error) {
 	if o.Input == "" || o.Output == "" {
 		return o, fmt.Errorf("%w: an input pattern and an output directory are needed", ErrOption)
 	}
-	if _, err := NewModel(o.Model); err != nil {
+	if _, err := NewModel(o.Model, o.Seed); err != nil {
 		return o, err
 	}
 	if o.Model == "" {
@@ -110,7 +128,7 @@ func (o Options) Resolve() (Options, error) {
 		return o, fmt.Errorf("%w: negative backtest origins, paths, shards, workers or buckets", ErrOption)
 	}
 	if o.Buckets == 0 {
-		o.Buckets = 256
+		o.Buckets = DefaultBuckets
 	}
 	if o.Shards == 0 {
 		o.Shards = 4
@@ -158,6 +176,7 @@ func Build(s beam.Scope, o Options) error {
 	results := beam.ParDo(s, &forecastFn{
 		Model: o.Model, Horizon: o.Horizon, Levels: o.Levels, Backtest: o.Backtest,
 		Reconcile: o.Reconcile, NonNegative: o.NonNegative, Paths: o.Paths, Seed: o.Seed, Workers: o.Workers,
+		OwnErrors: o.OwnErrors,
 	}, groups)
 	records = append(records, assembled, results)
 

@@ -19,7 +19,6 @@ import (
 	"github.com/almanac-go/almanac/examples/beam/catalogue"
 	"github.com/almanac-go/almanac/examples/beam/nightly"
 	"github.com/almanac-go/almanac/reconcile"
-	"github.com/almanac-go/almanac/smoothing"
 	"github.com/apache/beam/sdks/v2/go/pkg/beam"
 
 	_ "github.com/apache/beam/sdks/v2/go/pkg/beam/io/filesystem/local"
@@ -42,8 +41,9 @@ const (
 
 var (
 	testLevels = []float64{80, 95}
-	// testModel is what nightly.NewModel("select") builds.
-	testModel almanac.Model = smoothing.Select{}
+	// testModel is what nightly.NewModel("", testSeed) builds: the
+	// automatic forecaster, the pipeline's default model.
+	testModel almanac.Model = accuracy.Pilot{Seed: testSeed}
 	// testSpec is what the pipeline passes to reconcile.FromFits with
 	// Reconcile "mint", NonNegative, testPaths and testSeed.
 	testSpec = reconcile.Spec{Method: reconcile.MethodMinTShrink, NonNegative: true, Paths: testPaths, Seed: testSeed}
@@ -59,8 +59,11 @@ var faultRows = [][]string{
 	{"Z99-TST-DUP", "2021-05", "99"},       // a second row for a period: duplicate-period
 	{"", "2021-01", "5"},                   // empty-key row
 	{"Z99-TST-OK"},                         // malformed row (one field); the series itself is fine
-	{"Z98-TST-SHORT", "2021-01", "10"},     // two rows in all: too-short
-	{"Z98-TST-SHORT", "2021-02", "11"},     //
+	{"Z98-TST-SHORT", "2021-01", "10"},     // two rows in all: forecast by the automatic forecaster's last fallback (the
+	{"Z98-TST-SHORT", "2021-02", "11"},     // naive method), but too short to backtest or to reconcile its tree Z98
+	{"Z97-TST-ALLNA", "2021-01", "NA"},     // every value missing: all-missing; its tree Z97 has nothing to forecast
+	{"Z97-TST-ALLNA", "2021-02", "NA"},     //
+	{"Z97-TST-ALLNA", "2021-03", "NA"},     //
 	{"Q-UNPLACED", "2021-01", "3"},         // not in the hierarchy: unknown-node (more rows below)
 	{"Z99-TST-BADPLACE", "2021-01", "3"},   // its hierarchy row is bad: bad-place
 }
@@ -75,6 +78,7 @@ var faultPlaces = [][]string{
 	{"Z99-TST-DUP", "Z99/TST"},
 	{"Z99-TST-NODATA", "Z99/TST"}, // placed, no data: skipped
 	{"Z98-TST-SHORT", "Z98/TST"},
+	{"Z97-TST-ALLNA", "Z97/TST"},
 	{"Z99-TST-BADPLACE", "Z99//TST"}, // bad-place row
 }
 
@@ -87,12 +91,13 @@ var wantDead = []string{
 	"Z99-TST-DUP duplicate-period",
 	" empty-key",
 	"Z99-TST-OK malformed-row",
-	"Z98-TST-SHORT too-short",
+	"Z98-TST-SHORT backtest-failed", "Z98/TST backtest-failed", "Z98 backtest-failed",
+	"Z97-TST-ALLNA all-missing",
 	"Q-UNPLACED unknown-node",
 	"Z99-TST-BADPLACE bad-place", "Z99-TST-BADPLACE bad-place",
 }
 
-// writeFaults writes the fault files into dir: full 48-month histories
+// writeFaults writes the fault files into dir: full histories
 // for the fault series (copies of a generated line's values), with the
 // broken rows replacing or joining them.
 func writeFaults(t *testing.T, dir string, base []float64) {
@@ -252,6 +257,26 @@ func sameBits(t *testing.T, key, kind string, rows []map[string]string, fc alman
 	}
 }
 
+// bandsWord is what the status file should say of the bands of f
+// (nightly.StatusHeader): the source of an accuracy.Pilot fit's
+// calibrated bands and the number of error trajectories.
+func bandsWord(t *testing.T, f almanac.Fitted) string {
+	t.Helper()
+	pf, ok := f.(*accuracy.PilotFit)
+	if !ok {
+		return nightly.BandsModel
+	}
+	rep := pf.Report()
+	switch c := rep.Calibration; {
+	case !rep.Calibrated, c.Source == accuracy.BandsFromModel:
+		return nightly.BandsModel
+	case c.Source == accuracy.BandsFromPooledErrors:
+		return "pooled errors (" + strconv.Itoa(c.Pooled) + ")"
+	default:
+		return "own errors (" + strconv.Itoa(c.Own) + ")"
+	}
+}
+
 // TestPipelineMatchesLibrary runs the pipeline in-process (Beam's prism
 // runner) on a small generated catalogue with broken rows added, and
 // checks that every forecast is bit for bit what the library computes
@@ -261,7 +286,11 @@ func sameBits(t *testing.T, key, kind string, rows []map[string]string, fc alman
 func TestPipelineMatchesLibrary(t *testing.T) {
 	dir := t.TempDir()
 	in, out := filepath.Join(dir, "in"), filepath.Join(dir, "out")
-	lines, err := catalogue.Write(in, catalogue.Options{Stores: 2, Departments: 2, Lines: 3, Months: 48, Files: 2, Seed: 3})
+	// 72 months: 4 calibration origins per series (accuracy.Calibrated's
+	// defaults for monthly data), so that a store's 7 nodes pool 28 error
+	// trajectories, enough for calibrated bands, and the fault tree's 3
+	// nodes too few (model bands).
+	lines, err := catalogue.Write(in, catalogue.Options{Stores: 2, Departments: 2, Lines: 2, Months: 72, Files: 2, Seed: 3})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -270,7 +299,7 @@ func TestPipelineMatchesLibrary(t *testing.T) {
 	p, s := beam.NewPipelineWithRoot()
 	err = nightly.Build(s, nightly.Options{
 		Input: filepath.Join(in, "sales-*.csv"), Hierarchy: filepath.Join(in, "places*.csv"), Output: out,
-		Model: "select", Horizon: testHorizon, Levels: testLevels, Backtest: testOrigins,
+		Horizon: testHorizon, Levels: testLevels, Backtest: testOrigins,
 		Reconcile: "mint", NonNegative: true, Paths: testPaths, Seed: testSeed, Shards: 3,
 	})
 	if err != nil {
@@ -294,25 +323,41 @@ func TestPipelineMatchesLibrary(t *testing.T) {
 		})
 	}
 
-	// The library, directly: the generated trees and the fault tree Z99,
-	// whose only usable series is Z99-TST-OK.
+	// The library, directly: the generated trees and the fault trees Z99,
+	// whose only usable series is Z99-TST-OK, and Z98 (two observations).
 	trees := map[string][]catalogue.Line{}
 	for _, ln := range lines {
 		root, _, _ := strings.Cut(ln.Within, "/")
 		trees[root] = append(trees[root], ln)
 	}
 	trees["Z99"] = []catalogue.Line{{Key: "Z99-TST-OK", Within: "Z99/TST", Start: lines[0].Start, Values: lines[0].Values}}
+	trees["Z98"] = []catalogue.Line{{Key: "Z98-TST-SHORT", Within: "Z98/TST", Start: lines[0].Start, Values: []float64{10, 11}}}
 	ctx := context.Background()
 	wantForecast := map[string]bool{} // series with a base forecast
 	reconciled := map[string]bool{}   // trees reconciled
+	wantBands := map[string]string{}  // node -> bands column
 	for root, bottoms := range trees {
+		// Every node fitted, then the calibration errors pooled in the
+		// hierarchy's node order (the README's first program on one
+		// hierarchy: almanac.BatchFit, accuracy.PoolPilots).
 		h, nodes := directTree(t, bottoms)
+		ys := make([]almanac.Series, len(nodes))
+		for i, nd := range nodes {
+			ys[i] = nd.series
+		}
+		res, err := almanac.BatchFit(ctx, testModel, ys, almanac.BatchOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if res, err = accuracy.PoolPilots(res, accuracy.PoolOptions{}); err != nil {
+			t.Fatal(err)
+		}
 		fits := make([]almanac.Fitted, len(nodes))
 		for i, nd := range nodes {
-			f, err := testModel.Fit(ctx, nd.series)
-			if err != nil {
-				t.Fatalf("%s: %v", nd.name, err)
+			if res[i].Err != nil {
+				t.Fatalf("%s: %v", nd.name, res[i].Err)
 			}
+			f := res[i].Fitted
 			fc, err := f.Forecast(testHorizon, testLevels...)
 			if err != nil {
 				t.Fatalf("%s: %v", nd.name, err)
@@ -320,6 +365,7 @@ func TestPipelineMatchesLibrary(t *testing.T) {
 			sameBits(t, nd.name, "base", forecasts[nd.name+" base"], fc)
 			fits[i] = f
 			wantForecast[nd.name] = true
+			wantBands[nd.name] = bandsWord(t, f)
 		}
 		rec, err := reconcile.FromFits(ctx, h, fits, testHorizon, testSpec, testLevels...)
 		if err != nil {
@@ -350,7 +396,7 @@ func TestPipelineMatchesLibrary(t *testing.T) {
 	var gotDead []string
 	for _, r := range readShards(t, out, nightly.OutputDeadLetter) {
 		if r["source"] == nightly.SourceTree {
-			if r["series"] != "Z99" || reconciled["Z99"] {
+			if _, ok := trees[r["series"]]; !ok || reconciled[r["series"]] {
 				t.Errorf("unexpected dead-letter row for tree %s: %v", r["series"], r)
 			}
 			continue
@@ -372,24 +418,36 @@ func TestPipelineMatchesLibrary(t *testing.T) {
 
 	// Status: every series named anywhere exactly once, in the right state.
 	states := map[string]string{}
+	bandSources := map[string]int{}
 	for _, r := range readShards(t, out, nightly.OutputStatus) {
 		k := r["role"] + " " + r["series"]
 		if _, dup := states[k]; dup {
 			t.Errorf("two status rows for %s", k)
 		}
 		states[k] = r["state"] + " " + r["reason"]
+		if w, ok := wantBands[r["series"]]; ok && r["bands"] != w {
+			t.Errorf("bands of %s: %q, want %q", k, r["bands"], w)
+		}
+		if r["bands"] != "" {
+			bandSources[r["bands"]]++
+		}
+	}
+	// The generated stores pool enough errors for calibrated bands; the
+	// fault tree (3 nodes) does not.
+	if len(bandSources) < 2 {
+		t.Errorf("bands of the forecasts: %v; want pooled errors and model bands", bandSources)
 	}
 	wantState := map[string]string{
 		"input Z99-TST-BADVAL":   "failed gap",
 		"input Z99-TST-INF":      "failed gap",
 		"input Z99-TST-BADTIME":  "failed gap",
 		"input Z99-TST-DUP":      "failed duplicate-period",
-		"input Z98-TST-SHORT":    "failed too-short",
+		"input Z97-TST-ALLNA":    "failed all-missing",
 		"input Q-UNPLACED":       "failed unknown-node",
 		"input Z99-TST-BADPLACE": "failed bad-place",
 		"input Z99-TST-NODATA":   "skipped no-data",
-		"aggregate Z98":          "skipped no-members",
-		"aggregate Z98/TST":      "skipped no-members",
+		"aggregate Z97":          "skipped no-members",
+		"aggregate Z97/TST":      "skipped no-members",
 	}
 	for key := range wantForecast {
 		role := "input"
@@ -435,7 +493,8 @@ func TestPipelineMatchesLibrary(t *testing.T) {
 		"series_skipped":                 1,
 		"series_failed_gap":              3,
 		"series_failed_duplicate-period": 1,
-		"series_failed_too-short":        1,
+		"series_failed_all-missing":      1,
+		"backtests_failed":               3,
 		"series_failed_unknown-node":     1,
 		"series_failed_bad-place":        1,
 		"aggregates_forecast":            int64(len(wantForecast) - inputsForecast),
@@ -466,12 +525,13 @@ func TestPipelineMatchesLibrary(t *testing.T) {
 	for _, r := range readShards(t, out, nightly.OutputAccuracy) {
 		acc[r["series"]+" "+r["candidate"]] = r
 	}
-	if want := 3 * len(wantForecast); len(acc) != want {
-		t.Errorf("%d accuracy rows, want %d (3 candidates × %d series)", len(acc), want, len(wantForecast))
+	backtested := len(wantForecast) - 3 // not the three nodes of Z98
+	if want := 3 * backtested; len(acc) != want {
+		t.Errorf("%d accuracy rows, want %d (3 candidates × %d series)", len(acc), want, backtested)
 	}
 	bt := accuracy.Backtest{Horizon: testHorizon, Origins: testOrigins, Levels: testLevels}
 	for _, ln := range trees["N01"] {
-		c, err := bt.Run(ctx, almanac.Series{Key: ln.Key, Start: ln.Start, Freq: calendar.Monthly, Values: ln.Values}, accuracy.Candidate{Name: "select", Model: testModel})
+		c, err := bt.Run(ctx, almanac.Series{Key: ln.Key, Start: ln.Start, Freq: calendar.Monthly, Values: ln.Values}, accuracy.Candidate{Name: nightly.DefaultModel, Model: testModel})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -517,17 +577,21 @@ func TestBuildRejectsBadOptions(t *testing.T) {
 }
 
 // TestPipelineWithoutHierarchy runs the pipeline with no hierarchy file:
-// every series is forecast on its own, bit for bit as the library
-// forecasts it, and nothing is reconciled.
+// every series is forecast in its bucket, bit for bit as the library
+// forecasts the bucket's series (almanac.BatchFit and
+// accuracy.PoolPilots on the bucket, in key order), and nothing is
+// reconciled.
 func TestPipelineWithoutHierarchy(t *testing.T) {
 	dir := t.TempDir()
 	in, out := filepath.Join(dir, "in"), filepath.Join(dir, "out")
-	lines, err := catalogue.Write(in, catalogue.Options{Stores: 2, Departments: 1, Lines: 2, Months: 36, Seed: 11})
+	lines, err := catalogue.Write(in, catalogue.Options{Stores: 2, Departments: 1, Lines: 4, Months: 72, Seed: 11})
 	if err != nil {
 		t.Fatal(err)
 	}
+	const buckets = 2
 	p, s := beam.NewPipelineWithRoot()
-	if err := nightly.Build(s, nightly.Options{Input: filepath.Join(in, catalogue.DataPattern), Output: out, Model: "theta", Horizon: testHorizon, Levels: testLevels}); err != nil {
+	if err := nightly.Build(s, nightly.Options{Input: filepath.Join(in, catalogue.DataPattern), Output: out,
+		Horizon: testHorizon, Levels: testLevels, Seed: testSeed, Buckets: buckets}); err != nil {
 		t.Fatal(err)
 	}
 	res, err := beam.Run(context.Background(), "prism", p)
@@ -541,18 +605,35 @@ func TestPipelineWithoutHierarchy(t *testing.T) {
 		}
 		rows[r["series"]] = append(rows[r["series"]], r)
 	}
+	// The library, bucket by bucket.
+	byBucket := make([][]almanac.Series, buckets)
 	for _, ln := range lines {
-		rs := rows[ln.Key]
-		slices.SortFunc(rs, func(a, b map[string]string) int { return strings.Compare(a["period"], b["period"]) })
-		f, err := smoothing.Theta{}.Fit(context.Background(), almanac.Series{Key: ln.Key, Start: ln.Start, Freq: calendar.Monthly, Values: ln.Values})
+		b := nightly.BucketOf(ln.Key, buckets)
+		byBucket[b] = append(byBucket[b], almanac.Series{Key: ln.Key, Start: ln.Start, Freq: calendar.Monthly, Values: ln.Values})
+	}
+	wantBands := map[string]string{}
+	for _, ys := range byBucket {
+		slices.SortFunc(ys, func(a, b almanac.Series) int { return strings.Compare(a.Key, b.Key) })
+		fits, err := almanac.BatchFit(context.Background(), testModel, ys, almanac.BatchOptions{})
 		if err != nil {
 			t.Fatal(err)
 		}
-		fc, err := f.Forecast(testHorizon, testLevels...)
-		if err != nil {
+		if fits, err = accuracy.PoolPilots(fits, accuracy.PoolOptions{}); err != nil {
 			t.Fatal(err)
 		}
-		sameBits(t, ln.Key, "base", rs, fc)
+		for i, y := range ys {
+			if fits[i].Err != nil {
+				t.Fatalf("%s: %v", y.Key, fits[i].Err)
+			}
+			fc, err := fits[i].Fitted.Forecast(testHorizon, testLevels...)
+			if err != nil {
+				t.Fatal(err)
+			}
+			rs := rows[y.Key]
+			slices.SortFunc(rs, func(a, b map[string]string) int { return strings.Compare(a["period"], b["period"]) })
+			sameBits(t, y.Key, "base", rs, fc)
+			wantBands[y.Key] = bandsWord(t, fits[i].Fitted)
+		}
 	}
 	if len(rows) != len(lines) {
 		t.Errorf("forecasts for %d series, want %d", len(rows), len(lines))
@@ -560,6 +641,9 @@ func TestPipelineWithoutHierarchy(t *testing.T) {
 	for _, r := range readShards(t, out, nightly.OutputStatus) {
 		if r["state"] != nightly.StateForecast || r["tree"] != "" || r["role"] != nightly.RoleInput {
 			t.Errorf("status %v, want an input forecast outside any tree", r)
+		}
+		if r["bands"] != wantBands[r["series"]] {
+			t.Errorf("bands of %s: %q, want %q", r["series"], r["bands"], wantBands[r["series"]])
 		}
 	}
 	var forecast int64

@@ -30,9 +30,13 @@ var Outputs = []string{OutputForecasts, OutputAccuracy, OutputStatus, OutputDead
 //	state         StateReconciled, StateForecast, StateFailed or StateSkipped
 //	reason        why it failed, was skipped, or was not reconciled
 //	model         the fitted model in its published notation
+//	bands         where its bands come from: "pooled errors (N)" or
+//	              "own errors (N)" when calibrated on N out-of-sample
+//	              error trajectories (accuracy.Pilot), BandsModel for the
+//	              model's own bands, empty without a forecast
 //	observations  number of periods in the series as forecast
 //	detail        the error or explanation in words
-var StatusHeader = []string{"series", "role", "tree", "state", "reason", "model", "observations", "detail"}
+var StatusHeader = []string{"series", "role", "tree", "state", "reason", "model", "bands", "observations", "detail"}
 
 // States of a series in the status file.
 const (
@@ -122,9 +126,9 @@ func deadRecord(source string, line int64, key, reason, detail string) Record {
 
 // status describes one row of the status file.
 type status struct {
-	key, role, tree, state, reason, model string
-	obs                                   int
-	detail                                string
+	key, role, tree, state, reason, model, bands string
+	obs                                          int
+	detail                                       string
 }
 
 func (s status) record() Record {
@@ -132,7 +136,7 @@ func (s status) record() Record {
 	if s.obs > 0 {
 		n = strconv.Itoa(s.obs)
 	}
-	return Record{Output: OutputStatus, Key: s.key, Line: csvLine(s.key, s.role, s.tree, s.state, s.reason, s.model, n, s.detail)}
+	return Record{Output: OutputStatus, Key: s.key, Line: csvLine(s.key, s.role, s.tree, s.state, s.reason, s.model, s.bands, n, s.detail)}
 }
 
 // counterNamespace is the namespace of the pipeline's Beam counters.
