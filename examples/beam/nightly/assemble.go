@@ -216,51 +216,17 @@ func timeOf(o Obs) time.Time { return time.Unix(o.Sec, o.Nsec).UTC() }
 var errNoFrequency = errors.New("no regular frequency")
 
 // inferFrequency finds the coarsest spacing under which every time is a
-// whole number of steps from the first, with the step the greatest common
-// divisor of those counts: months, then days, then minutes, and the
-// multiples that make quarters, years, weeks and hours. This is the rule
+// whole number of steps from the first, by calendar.Infer: the rule
 // almanac.ReadCSV applies to a whole file (CSVOptions.Freq), applied here
 // to one series. times are sorted and distinct.
 func inferFrequency(times []time.Time) (calendar.Frequency, error) {
 	if len(times) < 2 {
 		return calendar.Frequency{}, fmt.Errorf("%w: one period", errNoFrequency)
 	}
-	for _, u := range []calendar.Unit{calendar.Month, calendar.Day, calendar.Minute} {
-		base := calendar.Every(1, u)
-		g, ok := 0, true
-		for _, t := range times[1:] {
-			n, err := base.Between(times[0], t)
-			if err != nil {
-				ok = false
-				break
-			}
-			g = gcd(g, n)
-		}
-		if !ok || g == 0 {
-			continue
-		}
-		switch {
-		case u == calendar.Month && g%12 == 0:
-			return calendar.Every(g/12, calendar.Year), nil
-		case u == calendar.Month && g%3 == 0:
-			return calendar.Every(g/3, calendar.Quarter), nil
-		case u == calendar.Day && g%7 == 0:
-			return calendar.Every(g/7, calendar.Week), nil
-		case u == calendar.Minute && g%60 == 0:
-			return calendar.Every(g/60, calendar.Hour), nil
-		}
-		return calendar.Every(g, u), nil
+	f, err := calendar.Infer(times)
+	if err != nil {
+		return calendar.Frequency{}, fmt.Errorf("%w: the periods %s ... %s are not whole numbers of months, days or minutes apart",
+			errNoFrequency, times[0].Format(time.RFC3339), times[len(times)-1].Format(time.RFC3339))
 	}
-	return calendar.Frequency{}, fmt.Errorf("%w: the periods %s ... %s are not whole numbers of months, days or minutes apart",
-		errNoFrequency, times[0].Format(time.RFC3339), times[len(times)-1].Format(time.RFC3339))
-}
-
-func gcd(a, b int) int {
-	for b != 0 {
-		a, b = b, a%b
-	}
-	if a < 0 {
-		return -a
-	}
-	return a
+	return f, nil
 }

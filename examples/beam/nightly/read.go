@@ -6,7 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"strconv"
 	"strings"
 	"time"
@@ -179,66 +178,22 @@ func parseTime(s string) (time.Time, error) {
 	return time.Time{}, fmt.Errorf("period %s matches none of the layouts %q", quote(s), almanac.DefaultTimeLayouts)
 }
 
-// parseValue reads a value as almanac.ReadCSV does: a plain decimal
+// parseValue reads a value with almanac.ParseValue, as ReadCSV does: a plain decimal
 // number (optional sign, digits with an optional decimal point, optional
 // exponent; no hexadecimal, no digit separators), or one of the
 // missing-value tokens (empty, NA, N/A, NaN, null, any case), which give
 // NaN. Inf, Infinity and numbers beyond the float64 range are
 // ReasonNonFinite, anything else ReasonBadValue.
 func parseValue(s string) (float64, string, error) {
-	t := strings.TrimSpace(s)
-	if t == "" || strings.EqualFold(t, "NA") || strings.EqualFold(t, "N/A") || strings.EqualFold(t, "NaN") || strings.EqualFold(t, "null") {
-		return math.NaN(), "", nil
+	v, err := almanac.ParseValue(s)
+	switch {
+	case err == nil:
+		return v, "", nil
+	case errors.Is(err, almanac.ErrNonFinite):
+		return 0, ReasonNonFinite, err
+	default:
+		return 0, ReasonBadValue, err
 	}
-	if u := strings.TrimLeft(t, "+-"); strings.EqualFold(u, "inf") || strings.EqualFold(u, "infinity") {
-		return 0, ReasonNonFinite, fmt.Errorf("value %s is not finite", quote(s))
-	}
-	if !isDecimal(t) {
-		return 0, ReasonBadValue, fmt.Errorf("value %s is not a decimal number or a missing-value token", quote(s))
-	}
-	v, err := strconv.ParseFloat(t, 64)
-	if math.IsInf(v, 0) {
-		return 0, ReasonNonFinite, fmt.Errorf("value %s is beyond the float64 range", quote(s))
-	}
-	if err != nil { // cannot happen for a decimal within range
-		return 0, ReasonBadValue, fmt.Errorf("value %s: %v", quote(s), err)
-	}
-	return v, "", nil
-}
-
-// isDecimal reports whether s is a plain decimal number: an optional
-// sign, at least one digit with an optional decimal point, and an
-// optional exponent (e or E, optional sign, digits).
-func isDecimal(s string) bool {
-	i, digits := 0, 0
-	if i < len(s) && (s[i] == '+' || s[i] == '-') {
-		i++
-	}
-	for ; i < len(s) && s[i] >= '0' && s[i] <= '9'; i++ {
-		digits++
-	}
-	if i < len(s) && s[i] == '.' {
-		for i++; i < len(s) && s[i] >= '0' && s[i] <= '9'; i++ {
-			digits++
-		}
-	}
-	if digits == 0 {
-		return false
-	}
-	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
-		i++
-		if i < len(s) && (s[i] == '+' || s[i] == '-') {
-			i++
-		}
-		exp := 0
-		for ; i < len(s) && s[i] >= '0' && s[i] <= '9'; i++ {
-			exp++
-		}
-		if exp == 0 {
-			return false
-		}
-	}
-	return i == len(s)
 }
 
 // quote quotes a cell for a message, cut to a short prefix when long so
