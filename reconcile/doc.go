@@ -25,8 +25,10 @@
 //	reconcile.Reconcile(st, base, reconcile.Spec{Residuals: residuals, NonNegative: true})
 //
 // Reconciled forecasts with their distributions come in one call from a
-// batch of fitted models, one per node:
+// batch of fitted models, one per node (Aggregate makes every node's
+// series from the bottom series):
 //
+//	series, err := reconcile.Aggregate(st, bottom)
 //	results, err := almanac.BatchFit(ctx, smoothing.Select{}, series, almanac.BatchOptions{})
 //	rec, err := reconcile.FromBatch(ctx, st, results, 12, reconcile.Spec{NonNegative: true}, 80, 95)
 //

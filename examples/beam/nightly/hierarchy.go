@@ -62,16 +62,9 @@ func Aggregate(bottoms []Placed) (*reconcile.Hierarchy, []almanac.Series, error)
 	for j := range m {
 		leaves[j] = byName[names[n-m+j]]
 	}
-	first := leaves[0]
-	aggs := make([]almanac.Series, n-m)
-	for i := range aggs {
-		vals := make([]float64, len(first.Values))
-		for _, j := range h.Bottoms(i) {
-			for t, v := range leaves[j].Values {
-				vals[t] += v
-			}
-		}
-		aggs[i] = almanac.Series{Key: names[i], Start: first.Start, Freq: first.Freq, Values: vals}
+	all, err := reconcile.Aggregate(h, leaves)
+	if err != nil {
+		return nil, nil, err
 	}
-	return h, aggs, nil
+	return h, all[:n-m], nil
 }

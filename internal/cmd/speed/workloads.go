@@ -395,17 +395,14 @@ func aggregate(st reconcile.Structure, lines []almanac.Series) ([]almanac.Series
 		}
 		bottom[j] = y
 	}
-	out := make([]almanac.Series, len(names))
-	for i, name := range names {
-		vals := make([]float64, bottom[0].Len())
-		for _, j := range st.Bottoms(i) {
-			for t, v := range bottom[j].Values {
-				vals[t] += v
-			}
-		}
-		out[i] = almanac.Series{Key: strings.TrimPrefix(name, "total/"), Start: bottom[0].Start, Freq: bottom[0].Freq, Values: vals}
+	nodes, err := reconcile.Aggregate(st, bottom)
+	if err != nil {
+		return nil, err
 	}
-	return out, nil
+	for i := range nodes {
+		nodes[i].Key = strings.TrimPrefix(nodes[i].Key, "total/")
+	}
+	return nodes, nil
 }
 
 // writeInputs writes the inputs the reference scripts time, one value a
