@@ -10,7 +10,7 @@
 // monthly series, with its store / department / product-line hierarchy,
 // and runs on that:
 //
-//	go -C examples run ./beam -generate 20000 -work /tmp/tallow
+//	go -C examples/beam run . -generate 20000 -work /tmp/tallow
 //
 // The pipeline runs on Beam's in-process runner (prism) by default; the
 // same binary submits it to a Flink or Spark cluster through Beam's

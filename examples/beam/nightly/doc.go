@@ -157,11 +157,12 @@
 // on main, the same 2,000 series took 31–36 CPU s by BatchFit, 46 on the
 // flat pipeline and 91–116 reconciled.
 //
-// Building the Beam module is costly: with an empty GOCACHE, "go build
-// ./beam" took 283 CPU s (260 user, 23 system; peak 2.2 GB resident) and
+// Building the Beam SDK is costly, which is why examples/beam is a module
+// of its own (the examples module's tests do not build it; CI tests it in
+// a step of its own): with an empty GOCACHE, "go build ./beam" took 283
+// CPU s (260 user, 23 system; peak 2.2 GB resident) and
 // "go test -race -run '^$' ./beam/..." 367 CPU s (341 user, 27 system),
-// so on two idle cores roughly 2.5 and 3 minutes; CI should keep its
-// build cache between runs. The package's tests then take about 57 CPU
+// so on two idle cores roughly 2.5 and 3 minutes. The package's tests then take about 57 CPU
 // s under -race (125 s wall at load average 7).
 //
 // # References
