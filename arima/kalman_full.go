@@ -7,8 +7,7 @@ import (
 // filterFull is filter without the shortcut.
 func (k *kalman) filterFull(w, resid []float64) filterResult {
 	var res filterResult
-	rd, r, nd := k.rd, k.r, k.nd
-	delta := k.delta
+	rd := k.rd
 	for l, y := range w {
 		if l > 0 {
 			k.predict()
@@ -24,28 +23,8 @@ func (k *kalman) filterFull(w, resid []float64) filterResult {
 			}
 			continue
 		}
-		resid0 := y - anew[0]
-		for _, i := range k.deltaIdx {
-			resid0 -= delta[i] * anew[r+i]
-		}
+		resid0, gain := k.innovation(y)
 		M := k.m
-		for i := 0; i < rd; i++ {
-			tmp := Pnew[i]
-			for _, j := range k.deltaIdx {
-				tmp += Pnew[i+rd*(r+j)] * delta[j]
-			}
-			M[i] = tmp
-		}
-		gain := M[0]
-		if nd > 0 {
-			gain = Pnew[0]
-			for _, i := range k.deltaIdx {
-				gain += delta[i] * Pnew[r+i]
-			}
-			for _, i := range k.deltaIdx {
-				gain += delta[i] * M[r+i]
-			}
-		}
 		if gain < fLimit {
 			res.nu++
 			res.ssq += resid0 * resid0 / gain
@@ -128,4 +107,37 @@ func (k *kalman) predictCov(P, Pnew []float64, addV bool) {
 			Pnew[j+rd*i] = Pnew[i+rd*j]
 		}
 	}
+}
+
+// innovation returns the innovation y − Z a and its variance Z P Z' for
+// the predicted state (k.anew, k.pnew), Z the observation vector of the
+// differenced model, and leaves P Z' in k.m. The full filter and the
+// refresh share it, so a refreshed fit advances exactly as the fit's own
+// filter did.
+func (k *kalman) innovation(y float64) (v, gain float64) {
+	rd, r, nd := k.rd, k.r, k.nd
+	delta, anew, Pnew := k.delta, k.anew, k.pnew
+	v = y - anew[0]
+	for _, i := range k.deltaIdx {
+		v -= delta[i] * anew[r+i]
+	}
+	M := k.m
+	for i := 0; i < rd; i++ {
+		tmp := Pnew[i]
+		for _, j := range k.deltaIdx {
+			tmp += Pnew[i+rd*(r+j)] * delta[j]
+		}
+		M[i] = tmp
+	}
+	gain = M[0]
+	if nd > 0 {
+		gain = Pnew[0]
+		for _, i := range k.deltaIdx {
+			gain += delta[i] * Pnew[r+i]
+		}
+		for _, i := range k.deltaIdx {
+			gain += delta[i] * M[r+i]
+		}
+	}
+	return v, gain
 }

@@ -206,8 +206,7 @@ func (f *Fitted) clone() *Fitted {
 // (NaN at missing values); res accumulates the sums of the likelihood on
 // the data divided by scale, as the fit's filter did.
 func (k *kalman) advance(w, resid []float64, scale float64, res *filterResult) {
-	rd, r, nd := k.rd, k.r, k.nd
-	delta := k.delta
+	rd := k.rd
 	for l, y := range w {
 		k.predict()
 		anew, Pnew := k.anew, k.pnew
@@ -217,28 +216,8 @@ func (k *kalman) advance(w, resid []float64, scale float64, res *filterResult) {
 			resid[l] = math.NaN()
 			continue
 		}
-		v := y - anew[0]
-		for _, i := range k.deltaIdx {
-			v -= delta[i] * anew[r+i]
-		}
+		v, gain := k.innovation(y)
 		M := k.m
-		for i := 0; i < rd; i++ {
-			tmp := Pnew[i]
-			for _, j := range k.deltaIdx {
-				tmp += Pnew[i+rd*(r+j)] * delta[j]
-			}
-			M[i] = tmp
-		}
-		gain := M[0]
-		if nd > 0 {
-			gain = Pnew[0]
-			for _, i := range k.deltaIdx {
-				gain += delta[i] * Pnew[r+i]
-			}
-			for _, i := range k.deltaIdx {
-				gain += delta[i] * M[r+i]
-			}
-		}
 		if gain < fLimit {
 			vs := v / scale
 			res.nu++
